@@ -1,0 +1,17 @@
+import { sequence } from '@sveltejs/kit/hooks';
+import type { HandleServerError } from '@sveltejs/kit';
+import { authenticate } from '$lib/server/hooks/authenticate';
+import { originGuard } from '$lib/server/hooks/origin-guard';
+import { securityHeaders } from '$lib/server/hooks/security-headers';
+import { closeDb } from '$lib/server/db';
+
+export const handle = sequence(securityHeaders, authenticate, originGuard);
+
+export const handleError: HandleServerError = ({ error, status, message }) => {
+	if (status >= 500) console.error('[server]', error);
+	return { message: status >= 500 ? 'Something went wrong on our side. Nothing was changed.' : message };
+};
+
+process.once('sveltekit:shutdown', () => {
+	void closeDb();
+});

@@ -1,0 +1,35 @@
+// Sign-up, sign-in and password-reset fields.
+import { z } from 'zod';
+
+// NIST SP 800-63B: at least 8 characters, and allow at least 64.
+export const password = z
+	.string()
+	.min(8, 'Use at least 8 characters.')
+	.max(128, 'Use at most 128 characters.');
+
+export const email = z
+	.string()
+	.trim()
+	.toLowerCase()
+	.pipe(z.email('Enter an e-mail address like name@example.org.'));
+
+export const signUpSchema = z.object({
+	name: z.string().trim().min(1, 'Enter your name.').max(100, 'Use at most 100 characters.'),
+	email,
+	password
+});
+
+export const signInSchema = z.object({
+	email,
+	password: z.string().min(1, 'Enter your password.').max(128, 'Use at most 128 characters.')
+});
+
+export const resetRequestSchema = z.object({ email });
+
+export const resetPasswordSchema = z
+	.object({ password, confirm: z.string() })
+	.refine((v) => v.password === v.confirm, { message: 'The two passwords differ.', path: ['confirm'] });
+
+export const preferencesSchema = z.object({
+	prefFuelUnit: z.enum(['', 'usgal', 'l', 'impgal', 'lb', 'kg']).transform((v) => (v === '' ? null : v))
+});

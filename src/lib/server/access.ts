@@ -1,0 +1,108 @@
+// Authorization at every server boundary: each load, form action and +server.ts handler calls one
+// of these. Not a member (or no such thing) → 404, so nothing outside your organisations is
+// revealed; a member without the permission → 403.
+import { error, redirect, type RequestEvent } from '@sveltejs/kit';
+import { and, eq } from 'drizzle-orm';
+import { can, type Permission, type Role } from '$lib/permissions';
+import type { AuthUser } from './auth';
+import { db } from './db';
+import { aircraft, flights, memberships, organisations, type Aircraft, type Flight, type Organisation } from './db/schema';
+
+type Event = Pick<RequestEvent, 'locals' | 'url' | 'route'>;
+
+export interface OrgContext {
+	user: AuthUser;
+	org: Organisation;
+	role: Role;
+}
+
+export type FlightAction = 'view' | 'edit' | 'annotate';
+
+const isApi = (event: Event) => event.route.id?.startsWith('/api/') ?? event.url.pathname.startsWith('/api/');
+
+export function requireUser(event: Event): AuthUser {
+	const user = event.locals.user;
+	if (user) return user;
+	if (isApi(event)) error(401, 'Sign in, or send an API token as a bearer credential.');
+	redirect(303, `/sign-in?next=${encodeURIComponent(event.url.pathname + event.url.search)}`);
+}
+
+/** The signed-in user's membership of the organisation `slug`, optionally with a permission. */
+export async function requireMember(event: Event, slug: string, permission?: Permission): Promise<OrgContext> {
+	const user = requireUser(event);
+	const [row] = await db
+		.select({ org: organisations, role: memberships.role })
+		.from(organisations)
+		.innerJoin(memberships, and(eq(memberships.orgId, organisations.id), eq(memberships.userId, user.id)))
+		.where(eq(organisations.slug, slug))
+		.limit(1);
+	if (!row) error(404, 'Organisation not found.');
+	if (permission && !can(row.role, permission)) error(403, 'Your role in this organisation does not allow that.');
+	return { user, org: row.org, role: row.role };
+}
+
+/** An aircraft of the organisation, with a permission checked for the member. */
+export async function requireAircraft(
+	event: Event,
+	slug: string,
+	aircraftId: string,
+	permission: Permission = 'viewFleet'
+): Promise<OrgContext & { aircraft: Aircraft }> {
+	const ctx = await requireMember(event, slug);
+	const found = isUuid(aircraftId)
+		? await db.query.aircraft.findFirst({ where: and(eq(aircraft.id, aircraftId), eq(aircraft.orgId, ctx.org.id)) })
+		: undefined;
+	if (!found) error(404, 'Aircraft not found.');
+	if (!can(ctx.role, permission)) error(403, 'Your role in this organisation does not allow that.');
+	return { ...ctx, aircraft: found };
+}
+
+export function mayOnFlight(ctx: { user: AuthUser; role: Role }, flight: Pick<Flight, 'pilotId' | 'instructorId'>, action: FlightAction): boolean {
+	const own = flight.pilotId === ctx.user.id || flight.instructorId === ctx.user.id;
+	switch (action) {
+		case 'view':
+			return own || can(ctx.role, 'viewAllFlights');
+		case 'edit':
+			return (own && can(ctx.role, 'upload')) || can(ctx.role, 'editAnyFlight');
+		case 'annotate':
+			return (own && can(ctx.role, 'upload')) || can(ctx.role, 'annotate');
+	}
+}
+
+/** A flight of the organisation that the member may view / edit / annotate. */
+export async function requireFlight(
+	event: Event,
+	slug: string,
+	flightId: string,
+	action: FlightAction = 'view'
+): Promise<OrgContext & { flight: Flight }> {
+	const ctx = await requireMember(event, slug);
+	const flight = isUuid(flightId)
+		? await db.query.flights.findFirst({ where: and(eq(flights.id, flightId), eq(flights.orgId, ctx.org.id)) })
+		: undefined;
+	if (!flight) error(404, 'Flight not found.');
+	if (!mayOnFlight(ctx, flight, 'view')) error(403, 'This flight belongs to another pilot.');
+	if (!mayOnFlight(ctx, flight, action)) error(403, 'Your role does not allow changing this flight.');
+	return { ...ctx, flight };
+}
+
+/**
+ * A flight by id alone, for the versioned API: the organisation is found from the flight, then
+ * the same membership rules apply. Unknown flight and foreign organisation both answer 404.
+ */
+export async function requireFlightById(event: Event, flightId: string, action: FlightAction = 'view') {
+	requireUser(event);
+	const row = isUuid(flightId)
+		? await db
+				.select({ slug: organisations.slug })
+				.from(flights)
+				.innerJoin(organisations, eq(organisations.id, flights.orgId))
+				.where(eq(flights.id, flightId))
+				.limit(1)
+		: [];
+	if (!row[0]) error(404, 'Flight not found.');
+	return requireFlight(event, row[0].slug, flightId, action);
+}
+
+const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
+export const isUuid = (s: string) => UUID.test(s);

@@ -1,0 +1,423 @@
+// Every table of Burndown, each with its row types beside it. Fuel quantities are stored in
+// canonical units (litres, litres per hour, knots, NM, feet); display units are applied at the edge.
+// Column names become snake_case through Drizzle's casing option (see db/index.ts, drizzle.config.ts).
+import { sql } from 'drizzle-orm';
+import {
+	bigint,
+	boolean,
+	customType,
+	doublePrecision,
+	index,
+	integer,
+	jsonb,
+	pgEnum,
+	pgTable,
+	primaryKey,
+	text,
+	timestamp,
+	uniqueIndex,
+	uuid
+} from 'drizzle-orm/pg-core';
+
+const bytea = customType<{ data: Buffer; driverData: Buffer }>({ dataType: () => 'bytea' });
+const tstz = (name?: string) =>
+	name ? timestamp(name, { withTimezone: true, precision: 3 }) : timestamp({ withTimezone: true, precision: 3 });
+
+export const roleEnum = pgEnum('member_role', ['admin', 'instructor', 'pilot', 'viewer']);
+export const fuelTypeEnum = pgEnum('fuel_type', ['avgas', 'jet', 'other']);
+export const fuelUnitEnum = pgEnum('fuel_unit', ['usgal', 'l', 'impgal', 'lb', 'kg']);
+export const flightSourceEnum = pgEnum('flight_source', ['upload', 'live']);
+export const flightStatusEnum = pgEnum('flight_status', ['open', 'closed']);
+export const fuelEventKindEnum = pgEnum('fuel_event_kind', ['added', 'removed', 'toFull', 'toLower', 'resetUsed']);
+export const alarmKindEnum = pgEnum('alarm_kind', ['lowFuel', 'lowEndurance', 'negativeReserve']);
+
+// ---- accounts -------------------------------------------------------------------------------
+
+export const users = pgTable('users', {
+	id: text().primaryKey(),
+	email: text().notNull().unique(),
+	name: text().notNull(),
+	passwordHash: text().notNull(),
+	/** Preferred display unit for fuel; null = each aircraft's own unit. */
+	prefFuelUnit: fuelUnitEnum(),
+	createdAt: tstz().notNull().defaultNow()
+});
+export type User = typeof users.$inferSelect;
+
+export const sessions = pgTable(
+	'sessions',
+	{
+		id: text().primaryKey(),
+		userId: text()
+			.notNull()
+			.references(() => users.id, { onDelete: 'cascade' }),
+		expiresAt: tstz().notNull(),
+		/** Start of the session, for the absolute timeout (lucia only slides expiresAt). */
+		createdAt: tstz().notNull().defaultNow()
+	},
+	(t) => [index().on(t.userId)]
+);
+export type Session = typeof sessions.$inferSelect;
+
+/** One row per sign-in attempt, for throttling per account and per address. */
+export const signInAttempts = pgTable(
+	'sign_in_attempts',
+	{
+		id: bigint({ mode: 'number' }).primaryKey().generatedAlwaysAsIdentity(),
+		email: text().notNull(),
+		address: text().notNull(),
+		success: boolean().notNull(),
+		at: tstz().notNull().defaultNow()
+	},
+	(t) => [index().on(t.email, t.at), index().on(t.address, t.at)]
+);
+
+export const passwordResets = pgTable('password_resets', {
+	tokenHash: text().primaryKey(),
+	userId: text()
+		.notNull()
+		.references(() => users.id, { onDelete: 'cascade' }),
+	expiresAt: tstz().notNull(),
+	usedAt: tstz()
+});
+
+/** Personal tokens for scripts calling the JSON API (shown once, stored as a hash). */
+export const apiTokens = pgTable('api_tokens', {
+	id: uuid().primaryKey().defaultRandom(),
+	userId: text()
+		.notNull()
+		.references(() => users.id, { onDelete: 'cascade' }),
+	name: text().notNull(),
+	tokenHash: text().notNull().unique(),
+	createdAt: tstz().notNull().defaultNow(),
+	lastUsedAt: tstz(),
+	revokedAt: tstz()
+});
+export type ApiToken = typeof apiTokens.$inferSelect;
+
+// ---- organisations ---------------------------------------------------------------------------
+
+export const organisations = pgTable('organisations', {
+	id: uuid().primaryKey().defaultRandom(),
+	name: text().notNull(),
+	slug: text().notNull().unique(),
+	createdAt: tstz().notNull().defaultNow()
+});
+export type Organisation = typeof organisations.$inferSelect;
+
+export const memberships = pgTable(
+	'memberships',
+	{
+		orgId: uuid()
+			.notNull()
+			.references(() => organisations.id, { onDelete: 'cascade' }),
+		userId: text()
+			.notNull()
+			.references(() => users.id, { onDelete: 'cascade' }),
+		role: roleEnum().notNull(),
+		createdAt: tstz().notNull().defaultNow()
+	},
+	(t) => [primaryKey({ columns: [t.orgId, t.userId] }), index().on(t.userId)]
+);
+export type Membership = typeof memberships.$inferSelect;
+export type Role = (typeof roleEnum.enumValues)[number];
+
+export const invitations = pgTable(
+	'invitations',
+	{
+		id: uuid().primaryKey().defaultRandom(),
+		orgId: uuid()
+			.notNull()
+			.references(() => organisations.id, { onDelete: 'cascade' }),
+		email: text().notNull(),
+		role: roleEnum().notNull(),
+		tokenHash: text().notNull().unique(),
+		invitedBy: text().references(() => users.id, { onDelete: 'set null' }),
+		createdAt: tstz().notNull().defaultNow(),
+		expiresAt: tstz().notNull(),
+		acceptedAt: tstz(),
+		acceptedBy: text().references(() => users.id, { onDelete: 'set null' }),
+		revokedAt: tstz()
+	},
+	(t) => [index().on(t.orgId)]
+);
+export type Invitation = typeof invitations.$inferSelect;
+
+// ---- aircraft --------------------------------------------------------------------------------
+
+export const aircraft = pgTable(
+	'aircraft',
+	{
+		id: uuid().primaryKey().defaultRandom(),
+		orgId: uuid()
+			.notNull()
+			.references(() => organisations.id, { onDelete: 'cascade' }),
+		registration: text().notNull(),
+		type: text().notNull(),
+		engine: text().notNull().default(''),
+		fuelType: fuelTypeEnum().notNull(),
+		densityKgPerL: doublePrecision().notNull(),
+		capacityL: doublePrecision().notNull(),
+		lowerLevelL: doublePrecision(),
+		unusableL: doublePrecision().notNull().default(0),
+		displayUnit: fuelUnitEnum().notNull(),
+		meterFactor: doublePrecision().notNull().default(1),
+		kFactor: doublePrecision(),
+		lowFuelL: doublePrecision(),
+		lowEnduranceMin: doublePrecision(),
+		reserveRule: text().notNull(),
+		reserveCustomMin: doublePrecision(),
+		baselineCruiseLph: doublePrecision(),
+		/** Fuel on board after the last flight closed, for "unchanged since last flight". */
+		lastOnBoardL: doublePrecision(),
+		archivedAt: tstz(),
+		createdAt: tstz().notNull().defaultNow(),
+		updatedAt: tstz().notNull().defaultNow()
+	},
+	(t) => [uniqueIndex().on(t.orgId, t.registration)]
+);
+export type Aircraft = typeof aircraft.$inferSelect;
+
+/** Meter-factor changes from reconciling computed fuel used against fuel pumped. */
+export const calibrations = pgTable(
+	'calibrations',
+	{
+		id: uuid().primaryKey().defaultRandom(),
+		aircraftId: uuid()
+			.notNull()
+			.references(() => aircraft.id, { onDelete: 'cascade' }),
+		indicatedL: doublePrecision().notNull(),
+		pumpedL: doublePrecision().notNull(),
+		meterFactorOld: doublePrecision().notNull(),
+		meterFactorNew: doublePrecision().notNull(),
+		kFactorOld: doublePrecision(),
+		kFactorNew: doublePrecision(),
+		note: text().notNull().default(''),
+		createdBy: text().references(() => users.id, { onDelete: 'set null' }),
+		createdAt: tstz().notNull().defaultNow()
+	},
+	(t) => [index().on(t.aircraftId, t.createdAt)]
+);
+export type Calibration = typeof calibrations.$inferSelect;
+
+// ---- flights and samples ---------------------------------------------------------------------
+
+export const uploads = pgTable(
+	'uploads',
+	{
+		id: uuid().primaryKey().defaultRandom(),
+		orgId: uuid()
+			.notNull()
+			.references(() => organisations.id, { onDelete: 'cascade' }),
+		aircraftId: uuid()
+			.notNull()
+			.references(() => aircraft.id, { onDelete: 'cascade' }),
+		uploadedBy: text().references(() => users.id, { onDelete: 'set null' }),
+		fileName: text().notNull(),
+		sizeBytes: integer().notNull(),
+		sha256: text().notNull(),
+		content: bytea().notNull(),
+		/** The parse report: rows read, gaps, the mapping used, warnings. */
+		report: jsonb().notNull(),
+		createdAt: tstz().notNull().defaultNow()
+	},
+	(t) => [uniqueIndex().on(t.aircraftId, t.sha256)]
+);
+export type Upload = typeof uploads.$inferSelect;
+
+export const importProfiles = pgTable(
+	'import_profiles',
+	{
+		id: uuid().primaryKey().defaultRandom(),
+		orgId: uuid()
+			.notNull()
+			.references(() => organisations.id, { onDelete: 'cascade' }),
+		name: text().notNull(),
+		/** Normalised header line the profile applies to automatically. */
+		headerSignature: text().notNull(),
+		mapping: jsonb().notNull(),
+		createdBy: text().references(() => users.id, { onDelete: 'set null' }),
+		createdAt: tstz().notNull().defaultNow()
+	},
+	(t) => [uniqueIndex().on(t.orgId, t.name), index().on(t.orgId, t.headerSignature)]
+);
+export type ImportProfile = typeof importProfiles.$inferSelect;
+
+export const recorders = pgTable(
+	'recorders',
+	{
+		id: uuid().primaryKey().defaultRandom(),
+		orgId: uuid()
+			.notNull()
+			.references(() => organisations.id, { onDelete: 'cascade' }),
+		aircraftId: uuid()
+			.notNull()
+			.references(() => aircraft.id, { onDelete: 'cascade' }),
+		name: text().notNull(),
+		tokenHash: text().notNull().unique(),
+		/** First characters of the token, to tell tokens apart on screen. */
+		tokenHint: text().notNull(),
+		createdAt: tstz().notNull().defaultNow(),
+		lastContactAt: tstz(),
+		revokedAt: tstz()
+	},
+	(t) => [index().on(t.aircraftId)]
+);
+export type Recorder = typeof recorders.$inferSelect;
+
+export const flights = pgTable(
+	'flights',
+	{
+		id: uuid().primaryKey().defaultRandom(),
+		orgId: uuid()
+			.notNull()
+			.references(() => organisations.id, { onDelete: 'cascade' }),
+		aircraftId: uuid()
+			.notNull()
+			.references(() => aircraft.id, { onDelete: 'restrict' }),
+		pilotId: text().references(() => users.id, { onDelete: 'set null' }),
+		instructorId: text().references(() => users.id, { onDelete: 'set null' }),
+		title: text().notNull().default(''),
+		source: flightSourceEnum().notNull(),
+		status: flightStatusEnum().notNull(),
+		uploadId: uuid().references(() => uploads.id, { onDelete: 'set null' }),
+		recorderId: uuid().references(() => recorders.id, { onDelete: 'set null' }),
+		startedAt: tstz().notNull(),
+		endedAt: tstz(),
+		/** The start-of-flight declaration (engine Declaration, canonical litres). */
+		declaration: jsonb().notNull(),
+		/** Fuel on board before the declaration applies (for "added"/"removed"). */
+		previousOnBoardL: doublePrecision(),
+		/** False when a live flight assumed the last known fuel: the pilot should confirm. */
+		declarationConfirmed: boolean().notNull().default(true),
+		notes: text().notNull().default(''),
+		sampleCount: integer().notNull().default(0),
+		/** Highest recorder sequence stored (live) or the last row number (upload). */
+		lastSeq: integer().notNull().default(-1),
+		lastSampleAt: tstz(),
+		/** Cached flight summary for lists; recomputed whenever samples or fuel inputs change. */
+		summary: jsonb(),
+		createdAt: tstz().notNull().defaultNow(),
+		updatedAt: tstz().notNull().defaultNow()
+	},
+	(t) => [
+		index().on(t.orgId, t.startedAt),
+		index().on(t.aircraftId, t.startedAt),
+		index().on(t.pilotId, t.startedAt),
+		index('flights_open_idx').on(t.status).where(sql`${t.status} = 'open'`)
+	]
+);
+export type Flight = typeof flights.$inferSelect;
+
+/**
+ * One row per recorder sample, keyed (flight, seq) so a sample is never stored twice.
+ * flow is L/h, gs kt, dtg NM, alt ft; a null is "not recorded in this sample".
+ */
+export const samples = pgTable(
+	'samples',
+	{
+		flightId: uuid()
+			.notNull()
+			.references(() => flights.id, { onDelete: 'cascade' }),
+		seq: integer().notNull(),
+		t: tstz().notNull(),
+		flow: doublePrecision(),
+		gs: doublePrecision(),
+		dtg: doublePrecision(),
+		wpt: text(),
+		lat: doublePrecision(),
+		lon: doublePrecision(),
+		alt: doublePrecision()
+	},
+	(t) => [primaryKey({ columns: [t.flightId, t.seq] })]
+);
+export type SampleRow = typeof samples.$inferSelect;
+
+export const fuelEvents = pgTable(
+	'fuel_events',
+	{
+		id: uuid().primaryKey().defaultRandom(),
+		flightId: uuid()
+			.notNull()
+			.references(() => flights.id, { onDelete: 'cascade' }),
+		t: tstz().notNull(),
+		kind: fuelEventKindEnum().notNull(),
+		amountL: doublePrecision(),
+		note: text().notNull().default(''),
+		createdBy: text().references(() => users.id, { onDelete: 'set null' }),
+		createdAt: tstz().notNull().defaultNow()
+	},
+	(t) => [index().on(t.flightId, t.t)]
+);
+export type FuelEventRow = typeof fuelEvents.$inferSelect;
+
+/** Instructor's and pilot's remarks on a flight, optionally pinned to a moment. */
+export const flightNotes = pgTable(
+	'flight_notes',
+	{
+		id: uuid().primaryKey().defaultRandom(),
+		flightId: uuid()
+			.notNull()
+			.references(() => flights.id, { onDelete: 'cascade' }),
+		authorId: text().references(() => users.id, { onDelete: 'set null' }),
+		t: tstz(),
+		body: text().notNull(),
+		createdAt: tstz().notNull().defaultNow()
+	},
+	(t) => [index().on(t.flightId, t.createdAt)]
+);
+export type FlightNote = typeof flightNotes.$inferSelect;
+
+/** Alarms raised on live flights: one row per crossing, so e-mail goes out once. */
+export const flightAlarms = pgTable(
+	'flight_alarms',
+	{
+		id: uuid().primaryKey().defaultRandom(),
+		flightId: uuid()
+			.notNull()
+			.references(() => flights.id, { onDelete: 'cascade' }),
+		kind: alarmKindEnum().notNull(),
+		raisedAt: tstz().notNull(),
+		clearedAt: tstz(),
+		value: doublePrecision(),
+		emailedAt: tstz(),
+		createdAt: tstz().notNull().defaultNow()
+	},
+	(t) => [uniqueIndex().on(t.flightId, t.kind, t.raisedAt)]
+);
+export type FlightAlarm = typeof flightAlarms.$inferSelect;
+
+export const alarmAcks = pgTable(
+	'alarm_acks',
+	{
+		alarmId: uuid()
+			.notNull()
+			.references(() => flightAlarms.id, { onDelete: 'cascade' }),
+		userId: text()
+			.notNull()
+			.references(() => users.id, { onDelete: 'cascade' }),
+		at: tstz().notNull().defaultNow()
+	},
+	(t) => [primaryKey({ columns: [t.alarmId, t.userId] })]
+);
+
+/** A member watching an aircraft (owner) or one flight (instructor) for alarm e-mails. */
+export const watches = pgTable(
+	'watches',
+	{
+		id: uuid().primaryKey().defaultRandom(),
+		userId: text()
+			.notNull()
+			.references(() => users.id, { onDelete: 'cascade' }),
+		aircraftId: uuid().references(() => aircraft.id, { onDelete: 'cascade' }),
+		flightId: uuid().references(() => flights.id, { onDelete: 'cascade' }),
+		createdAt: tstz().notNull().defaultNow()
+	},
+	(t) => [
+		uniqueIndex().on(t.userId, t.aircraftId).where(sql`${t.aircraftId} is not null`),
+		uniqueIndex().on(t.userId, t.flightId).where(sql`${t.flightId} is not null`),
+		index().on(t.aircraftId),
+		index().on(t.flightId)
+	]
+);
+export type Watch = typeof watches.$inferSelect;

@@ -1,0 +1,38 @@
+// Who is calling: a personal API token (Authorization: Bearer bdk_…) or the session cookie.
+import type { Handle } from '@sveltejs/kit';
+import { and, eq, isNull } from 'drizzle-orm';
+import { readSession } from '../auth';
+import { db } from '../db';
+import { apiTokens, users } from '../db/schema';
+import { hashToken } from '../tokens';
+
+export const API_TOKEN_PREFIX = 'bdk_';
+
+export const authenticate: Handle = async ({ event, resolve }) => {
+	event.locals.user = null;
+	event.locals.session = null;
+	event.locals.authVia = null;
+
+	const authorization = event.request.headers.get('authorization') ?? '';
+	const bearer = authorization.startsWith('Bearer ') ? authorization.slice(7).trim() : '';
+	if (bearer.startsWith(API_TOKEN_PREFIX)) {
+		const [row] = await db
+			.select({ user: users, tokenId: apiTokens.id })
+			.from(apiTokens)
+			.innerJoin(users, eq(users.id, apiTokens.userId))
+			.where(and(eq(apiTokens.tokenHash, hashToken(bearer)), isNull(apiTokens.revokedAt)))
+			.limit(1);
+		if (row) {
+			const { id, email, name, prefFuelUnit } = row.user;
+			event.locals.user = { id, email, name, prefFuelUnit };
+			event.locals.authVia = 'token';
+			await db.update(apiTokens).set({ lastUsedAt: new Date() }).where(eq(apiTokens.id, row.tokenId));
+		}
+	} else if (!event.url.pathname.startsWith('/api/v1/live/')) {
+		const { user, session } = await readSession(event.cookies);
+		event.locals.user = user;
+		event.locals.session = session;
+		event.locals.authVia = user ? 'session' : null;
+	}
+	return resolve(event);
+};

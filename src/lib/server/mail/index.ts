@@ -1,0 +1,36 @@
+// Every e-mail Burndown sends goes through here (nodemailer over SMTP). In development and tests
+// SMTP points at the local sink (scripts/mail-sink.ts); in production at the SMTP_* servers.
+import nodemailer, { type Transporter } from 'nodemailer';
+
+let transport: Transporter | undefined;
+
+function transporter(): Transporter {
+	transport ??= nodemailer.createTransport({
+		host: process.env.SMTP_HOST ?? '127.0.0.1',
+		port: Number(process.env.SMTP_PORT ?? 2525),
+		secure: process.env.SMTP_SECURE === 'true',
+		auth: process.env.SMTP_USER ? { user: process.env.SMTP_USER, pass: process.env.SMTP_PASS ?? '' } : undefined,
+		// The local sink speaks plain SMTP on loopback; a real server negotiates STARTTLS.
+		ignoreTLS: !process.env.SMTP_USER && (process.env.SMTP_HOST ?? '127.0.0.1') === '127.0.0.1'
+	});
+	return transport;
+}
+
+export interface Message {
+	to: string;
+	subject: string;
+	text: string;
+	html?: string;
+}
+
+export async function sendMail(message: Message): Promise<void> {
+	await transporter().sendMail({
+		from: process.env.MAIL_FROM ?? 'Burndown <no-reply@burndown.invalid>',
+		...message
+	});
+}
+
+/** Absolute link for e-mails, from ORIGIN (adapter-node's setting) or the request's origin. */
+export function link(path: string, fallbackOrigin?: string): string {
+	return new URL(path, process.env.ORIGIN ?? fallbackOrigin ?? 'http://127.0.0.1:5180').toString();
+}

@@ -1,0 +1,40 @@
+// Reads the local SMTP sink's folder for the development/demo mailbox page. Never enabled in
+// production: only when BURNDOWN_DEMO=1 and MAILBOX_DIR is set.
+import { readdir, readFile } from 'node:fs/promises';
+import { join } from 'node:path';
+
+export interface StoredMessage {
+	id: string;
+	date: string;
+	from: string;
+	to: string[];
+	subject: string;
+	text: string;
+	html: string | null;
+}
+
+export const mailboxEnabled = () => process.env.BURNDOWN_DEMO === '1' && !!process.env.MAILBOX_DIR;
+
+export async function listMailbox(limit = 100): Promise<StoredMessage[]> {
+	const dir = process.env.MAILBOX_DIR;
+	if (!dir) return [];
+	let names: string[];
+	try {
+		names = (await readdir(dir)).filter((n) => n.endsWith('.json'));
+	} catch {
+		return [];
+	}
+	const messages = await Promise.all(
+		names.map(async (n) => {
+			try {
+				return JSON.parse(await readFile(join(dir, n), 'utf8')) as StoredMessage;
+			} catch {
+				return null;
+			}
+		})
+	);
+	return messages
+		.filter((m): m is StoredMessage => m !== null)
+		.sort((a, b) => b.date.localeCompare(a.date))
+		.slice(0, limit);
+}

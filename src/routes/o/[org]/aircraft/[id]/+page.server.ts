@@ -1,0 +1,39 @@
+import { desc, eq } from 'drizzle-orm';
+import { requireAircraft } from '$lib/server/access';
+import { db } from '$lib/server/db';
+import { calibrations } from '$lib/server/db/schema';
+import { aircraftFormValues, setArchived, updateAircraft } from '$lib/server/services/aircraft';
+import { recordCalibration } from '$lib/server/services/calibration';
+import { failForm, parseForm } from '$lib/schemas/form';
+import { aircraftFormSchema } from '$lib/schemas/aircraft';
+import { calibrationFormSchema } from '$lib/schemas/calibration';
+import type { Actions, PageServerLoad } from './$types';
+
+export const load = (async (event) => {
+	const { aircraft } = await requireAircraft(event, event.params.org, event.params.id, 'viewFleet');
+	const history = await db.select().from(calibrations).where(eq(calibrations.aircraftId, aircraft.id)).orderBy(desc(calibrations.createdAt)).limit(20);
+	return { aircraft, values: aircraftFormValues(aircraft), calibrations: history };
+}) satisfies PageServerLoad;
+
+export const actions = {
+	save: async (event) => {
+		const { org, aircraft } = await requireAircraft(event, event.params.org, event.params.id, 'manageAircraft');
+		const form = parseForm(aircraftFormSchema, await event.request.formData());
+		if (!form.ok) return failForm(400, form.errors, form.values, 'save');
+		const saved = await updateAircraft(org.id, aircraft.id, form.data);
+		if (!saved.ok) return failForm(400, { [saved.field]: saved.message }, form.values, 'save');
+		return { action: 'save', saved: true };
+	},
+	archive: async (event) => {
+		const { org, aircraft } = await requireAircraft(event, event.params.org, event.params.id, 'manageAircraft');
+		await setArchived(org.id, aircraft.id, aircraft.archivedAt === null);
+		return { action: 'archive' };
+	},
+	calibrate: async (event) => {
+		const { user, aircraft } = await requireAircraft(event, event.params.org, event.params.id, 'calibrate');
+		const form = parseForm(calibrationFormSchema, await event.request.formData());
+		if (!form.ok) return failForm(400, form.errors, form.values, 'calibrate');
+		const result = await recordCalibration(aircraft, form.data, user.id);
+		return { action: 'calibrate', calibration: result };
+	}
+} satisfies Actions;
