@@ -1,7 +1,7 @@
 // The aircraft form: quantities are typed in the aircraft's display unit and stored in litres.
 import { z } from 'zod';
 import { defaultDensityKgPerL, fuelUnits, toLitres, type FuelUnit } from '$lib/units';
-import { RESERVE_RULE_IDS } from '$lib/fuel';
+import { reserveRules, type ReserveRuleId } from '$lib/fuel';
 
 /** A number typed in a form: accepts a decimal comma, blank means "not set". */
 const optionalNumber = (min: number, max: number, what: string) =>
@@ -45,7 +45,7 @@ export const aircraftFormSchema = z
 		kFactor: optionalNumber(1, 10_000_000, 'the K-factor in pulses per unit'),
 		lowFuel: optionalNumber(0, 5000, 'the low-fuel alarm amount'),
 		lowEnduranceMin: optionalNumber(0, 600, 'the low-endurance alarm in minutes'),
-		reserveRule: z.enum(RESERVE_RULE_IDS as [string, ...string[]], 'Choose the reserve rule.'),
+		reserveRule: z.enum(reserveRules.map((r) => r.id) as [ReserveRuleId, ...ReserveRuleId[]], 'Choose the reserve rule.'),
 		reserveCustomMin: optionalNumber(0, 300, 'the reserve in minutes'),
 		baselineCruise: optionalNumber(0.1, 1000, 'the cruise flow per hour')
 	})

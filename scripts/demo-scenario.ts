@@ -1,0 +1,123 @@
+// The invented demo scenario. Every name, registration, airfield and figure here is fictional;
+// only the trade facts behind them (fuel types, typical flows) are real.
+import type { FuelUnit } from '../src/lib/units';
+
+export const DEMO_ORG_ID = '0b8a1c52-5d0e-4f41-9a57-5a7d3c2e0001';
+export const OTHER_ORG_ID = '0b8a1c52-5d0e-4f41-9a57-5a7d3c2e0002';
+
+export const DEMO = {
+	password: 'burndown-demo',
+	users: [
+		{ id: 'demo-admin', email: 'admin@kestrel.example', name: 'Morgan Hale', blurb: 'club admin and owner of the fleet' },
+		{ id: 'demo-instructor', email: 'instructor@kestrel.example', name: 'Ines Varga', blurb: 'flight instructor' },
+		{ id: 'demo-pilot', email: 'pilot@kestrel.example', name: 'Theo Lindqvist', blurb: 'club pilot' },
+		{ id: 'demo-student', email: 'student@kestrel.example', name: 'Priya Achebe', blurb: 'student pilot (role pilot)' },
+		{ id: 'demo-viewer', email: 'viewer@kestrel.example', name: 'Wrenmoor Aero Services', blurb: 'maintenance shop, read-only' },
+		{ id: 'demo-other', email: 'chief@harrier.example', name: 'Sol Okafor', blurb: 'admin of another organisation' }
+	],
+	organisations: [
+		{
+			id: DEMO_ORG_ID,
+			name: 'Kestrel Field Flying Club',
+			slug: 'kestrel',
+			members: [
+				['demo-admin', 'admin'],
+				['demo-instructor', 'instructor'],
+				['demo-pilot', 'pilot'],
+				['demo-student', 'pilot'],
+				['demo-viewer', 'viewer']
+			] as const
+		},
+		{ id: OTHER_ORG_ID, name: 'Harrier Flight School', slug: 'harrier', members: [['demo-other', 'admin']] as const }
+	],
+	aircraft: [
+		{
+			id: '6f1d2a40-0c1b-4c55-8f4e-7d1a00000001',
+			orgId: DEMO_ORG_ID,
+			registration: 'BD-KTR',
+			type: 'Four-seat trainer',
+			engine: '4-cylinder, 160 hp',
+			fuelType: 'avgas' as const,
+			displayUnit: 'usgal' as FuelUnit,
+			capacity: 40,
+			lowerLevel: 28,
+			unusable: 3,
+			meterFactor: 1,
+			kFactor: 68000,
+			lowFuel: 10,
+			lowEnduranceMin: 45,
+			reserveRule: 'faa-91.151-vfr-day',
+			baselineCruise: 8.2,
+			lastOnBoard: 36
+		},
+		{
+			id: '6f1d2a40-0c1b-4c55-8f4e-7d1a00000002',
+			orgId: DEMO_ORG_ID,
+			registration: 'BD-KTT',
+			type: 'Six-seat tourer',
+			engine: '6-cylinder, 285 hp',
+			fuelType: 'avgas' as const,
+			displayUnit: 'usgal' as FuelUnit,
+			capacity: 88,
+			lowerLevel: 62,
+			unusable: 4,
+			meterFactor: 1,
+			kFactor: 29500,
+			lowFuel: 20,
+			lowEnduranceMin: 45,
+			reserveRule: 'faa-91.151-vfr-day',
+			baselineCruise: 13.4,
+			lastOnBoard: 80
+		},
+		{
+			id: '6f1d2a40-0c1b-4c55-8f4e-7d1a00000003',
+			orgId: DEMO_ORG_ID,
+			registration: 'BD-KTD',
+			type: 'Four-seat diesel tourer',
+			engine: '4-cylinder jet-fuel diesel, 155 hp',
+			fuelType: 'jet' as const,
+			displayUnit: 'l' as FuelUnit,
+			capacity: 190,
+			lowerLevel: 120,
+			unusable: 8,
+			meterFactor: 1,
+			kFactor: null,
+			lowFuel: 40,
+			lowEnduranceMin: 45,
+			reserveRule: 'easa-nco.op.125-vfr-day',
+			baselineCruise: 22,
+			lastOnBoard: 150
+		},
+		{
+			id: '6f1d2a40-0c1b-4c55-8f4e-7d1a00000004',
+			orgId: OTHER_ORG_ID,
+			registration: 'BD-HFA',
+			type: 'Two-seat trainer',
+			engine: '4-cylinder, 100 hp',
+			fuelType: 'avgas' as const,
+			displayUnit: 'usgal' as FuelUnit,
+			capacity: 24,
+			lowerLevel: null,
+			unusable: 2,
+			meterFactor: 1,
+			kFactor: null,
+			lowFuel: 6,
+			lowEnduranceMin: 40,
+			reserveRule: 'faa-91.151-vfr-day',
+			baselineCruise: 5.5,
+			lastOnBoard: 20
+		}
+	],
+	recorders: [
+		{
+			id: '9c7e5b10-3a2d-4e8f-b1c4-000000000001',
+			orgId: DEMO_ORG_ID,
+			aircraftId: '6f1d2a40-0c1b-4c55-8f4e-7d1a00000002',
+			name: 'Panel recorder (tourer)',
+			// A fixed token so the demo can print a ready simulator command. Demo data only.
+			token: 'bdr_demo_kestrel_tourer_0001'
+		}
+	],
+	/** The sample file the printed simulator command replays. */
+	liveSample: 'kestrel-crosscountry-3leg.csv'
+};

@@ -1,0 +1,71 @@
+// From stored rows to the fuel engine's inputs: one mapping used by replay (in the browser), live
+// flights and the server's cached summaries, so every screen computes from the same inputs.
+import type { AlarmThresholds, Declaration, FuelEvent, FuelProfile, ReserveRuleId, ReserveSetting } from '$lib/fuel';
+
+/** The aircraft fields the engine needs (a subset of the aircraft row, safe to send to a browser). */
+export interface AircraftFuelSetup {
+	capacityL: number;
+	lowerLevelL: number | null;
+	unusableL: number;
+	densityKgPerL: number;
+	meterFactor: number;
+	baselineCruiseLph: number | null;
+	lowFuelL: number | null;
+	lowEnduranceMin: number | null;
+	reserveRule: string;
+	reserveCustomMin: number | null;
+}
+
+export interface StoredFuelEvent {
+	t: Date | string | number;
+	kind: FuelEvent['kind'];
+	amountL: number | null;
+	note?: string;
+}
+
+export function fuelSetupOf<T extends AircraftFuelSetup>(a: T): AircraftFuelSetup {
+	const { capacityL, lowerLevelL, unusableL, densityKgPerL, meterFactor, baselineCruiseLph, lowFuelL, lowEnduranceMin, reserveRule, reserveCustomMin } = a;
+	return { capacityL, lowerLevelL, unusableL, densityKgPerL, meterFactor, baselineCruiseLph, lowFuelL, lowEnduranceMin, reserveRule, reserveCustomMin };
+}
+
+export function profileOf(a: AircraftFuelSetup): FuelProfile {
+	return {
+		capacityL: a.capacityL,
+		lowerLevelL: a.lowerLevelL,
+		unusableL: a.unusableL,
+		densityKgPerL: a.densityKgPerL,
+		meterFactor: a.meterFactor,
+		baselineCruiseFlowLph: a.baselineCruiseLph
+	};
+}
+
+export function thresholdsOf(a: AircraftFuelSetup): AlarmThresholds {
+	return { lowFuelL: a.lowFuelL, lowEnduranceMin: a.lowEnduranceMin, negativeReserve: true };
+}
+
+export function reserveOf(a: AircraftFuelSetup): ReserveSetting {
+	return { ruleId: a.reserveRule as ReserveRuleId, customMinutes: a.reserveCustomMin ?? undefined };
+}
+
+const epochSeconds = (t: Date | string | number) => (typeof t === 'number' ? t : new Date(t).getTime() / 1000);
+
+export function eventsOf(rows: readonly StoredFuelEvent[]): FuelEvent[] {
+	return rows
+		.map((e) => ({ t: epochSeconds(e.t), kind: e.kind, amountL: e.amountL ?? undefined, note: e.note }))
+		.sort((a, b) => a.t - b.t);
+}
+
+/** Everything but the samples: the engine's FlightInput without `columns`. */
+export function engineInputsOf(
+	a: AircraftFuelSetup,
+	flight: { declaration: unknown; previousOnBoardL: number | null },
+	events: readonly StoredFuelEvent[]
+) {
+	return {
+		profile: profileOf(a),
+		declaration: flight.declaration as Declaration,
+		previousOnBoardL: flight.previousOnBoardL,
+		events: eventsOf(events),
+		thresholds: thresholdsOf(a)
+	};
+}

@@ -1,0 +1,48 @@
+import { and, desc, eq, isNull } from 'drizzle-orm';
+import { requireUser } from '$lib/server/access';
+import { db } from '$lib/server/db';
+import { apiTokens, users } from '$lib/server/db/schema';
+import { API_TOKEN_PREFIX } from '$lib/server/hooks/authenticate';
+import { hashToken, newToken } from '$lib/server/tokens';
+import { failForm, parseForm } from '$lib/schemas/form';
+import { preferencesSchema } from '$lib/schemas/account';
+import { z } from 'zod';
+import type { Actions, PageServerLoad } from './$types';
+
+const tokenNameSchema = z.object({ name: z.string().trim().min(1, 'Name the token, e.g. "upload script".').max(60, 'Use at most 60 characters.') });
+
+export const load = (async (event) => {
+	const user = requireUser(event);
+	const tokens = await db
+		.select({ id: apiTokens.id, name: apiTokens.name, createdAt: apiTokens.createdAt, lastUsedAt: apiTokens.lastUsedAt })
+		.from(apiTokens)
+		.where(and(eq(apiTokens.userId, user.id), isNull(apiTokens.revokedAt)))
+		.orderBy(desc(apiTokens.createdAt));
+	return { tokens };
+}) satisfies PageServerLoad;
+
+export const actions = {
+	preferences: async (event) => {
+		const user = requireUser(event);
+		const form = parseForm(preferencesSchema, await event.request.formData());
+		if (!form.ok) return failForm(400, form.errors, form.values, 'preferences');
+		await db.update(users).set({ prefFuelUnit: form.data.prefFuelUnit }).where(eq(users.id, user.id));
+		return { action: 'preferences', saved: true };
+	},
+	createToken: async (event) => {
+		const user = requireUser(event);
+		const form = parseForm(tokenNameSchema, await event.request.formData());
+		if (!form.ok) return failForm(400, form.errors, form.values, 'createToken');
+		const token = newToken(API_TOKEN_PREFIX);
+		await db.insert(apiTokens).values({ userId: user.id, name: form.data.name, tokenHash: hashToken(token) });
+		// Shown once: only the hash is stored.
+		return { action: 'createToken', token };
+	},
+	revokeToken: async (event) => {
+		const user = requireUser(event);
+		const id = String((await event.request.formData()).get('id') ?? '');
+		if (!z.uuid().safeParse(id).success) return failForm(400, { id: 'Unknown token.' }, {}, 'revokeToken');
+		await db.update(apiTokens).set({ revokedAt: new Date() }).where(and(eq(apiTokens.id, id), eq(apiTokens.userId, user.id)));
+		return { action: 'revokeToken' };
+	}
+} satisfies Actions;
