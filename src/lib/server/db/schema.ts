@@ -216,7 +216,6 @@ export const uploads = pgTable(
 		fileName: text().notNull(),
 		sizeBytes: integer().notNull(),
 		sha256: text().notNull(),
-		content: bytea().notNull(),
 		/** The parse report: rows read, gaps, the mapping used, warnings. */
 		report: jsonb().notNull(),
 		createdAt: tstz().notNull().defaultNow()
@@ -224,6 +223,23 @@ export const uploads = pgTable(
 	(t) => [uniqueIndex().on(t.aircraftId, t.sha256)]
 );
 export type Upload = typeof uploads.$inferSelect;
+
+/**
+ * The original bytes of an upload, kept for re-parsing and download, in pieces of up to 1 MiB:
+ * a 100 MB file in one bytea value would have to sit in memory several times over on its way in.
+ */
+export const uploadChunks = pgTable(
+	'upload_chunks',
+	{
+		uploadId: uuid()
+			.notNull()
+			.references(() => uploads.id, { onDelete: 'cascade' }),
+		/** 0, 1, 2, … in file order. */
+		n: integer().notNull(),
+		bytes: bytea().notNull()
+	},
+	(t) => [primaryKey({ columns: [t.uploadId, t.n] })]
+);
 
 export const importProfiles = pgTable(
 	'import_profiles',
