@@ -1,0 +1,136 @@
+// Every route × every role: allow (2xx, or 400 for a deliberately empty form), 403 for a member
+// without the permission, 404 for anyone outside the organisation, sign-in or 401 when anonymous.
+// A second test fails when a route is added under src/routes without a row here.
+import fs from 'node:fs';
+import path from 'node:path';
+import pg from 'pg';
+import { expect, test, type APIRequestContext } from '@playwright/test';
+import { apiAs, DEMO_AIRCRAFT, DEMO_ORG, OTHER_ORG, type DemoRole } from './support';
+
+const ROLES: (DemoRole | 'anonymous')[] = ['admin', 'instructor', 'pilot', 'student', 'viewer', 'other', 'anonymous'];
+type Expect = Record<DemoRole | 'anonymous', number>;
+
+// Shorthands: who may, and what the rest get.
+const members = (ok: number, anon = 303): Expect => ({ admin: ok, instructor: ok, pilot: ok, student: ok, viewer: ok, other: 404, anonymous: anon });
+const only = (allowed: DemoRole[], ok: number, anon = 303): Expect => {
+	const e = members(403, anon);
+	for (const r of allowed) e[r] = ok;
+	return e;
+};
+const anyone = (ok: number, anon = 303): Expect => ({ ...members(ok, anon), other: ok });
+
+interface Row {
+	route: string; // the SvelteKit route id, to check coverage
+	method: 'GET' | 'POST';
+	path: (ids: Ids) => string;
+	expect: Expect;
+	form?: Record<string, string>;
+}
+interface Ids {
+	pilotFlight: string;
+}
+
+const O = `/o/${DEMO_ORG}`;
+const FLIGHT_VIEWERS: DemoRole[] = ['admin', 'instructor', 'viewer', 'pilot'];
+const FLIGHT_EDITORS: DemoRole[] = ['admin', 'instructor', 'pilot'];
+
+const MATRIX: Row[] = [
+	{ route: '/orgs', method: 'GET', path: () => '/orgs', expect: anyone(200) },
+	{ route: '/orgs', method: 'POST', path: () => '/orgs?/create', form: { name: '' }, expect: anyone(400, 303) },
+	{ route: '/account', method: 'GET', path: () => '/account', expect: anyone(200) },
+	{ route: '/o/[org]', method: 'GET', path: () => O, expect: members(200) },
+	{ route: '/o/[org]/aircraft', method: 'GET', path: () => `${O}/aircraft`, expect: members(200) },
+	{ route: '/o/[org]/aircraft/new', method: 'GET', path: () => `${O}/aircraft/new`, expect: only(['admin'], 200) },
+	{ route: '/o/[org]/aircraft/new', method: 'POST', path: () => `${O}/aircraft/new`, form: { registration: '' }, expect: only(['admin'], 400) },
+	{ route: '/o/[org]/aircraft/[id]', method: 'GET', path: () => `${O}/aircraft/${DEMO_AIRCRAFT.trainer}`, expect: members(200) },
+	{ route: '/o/[org]/aircraft/[id]', method: 'GET', path: () => `${O}/aircraft/${DEMO_AIRCRAFT.otherOrg}`, expect: { ...members(404), anonymous: 303 } },
+	{ route: '/o/[org]/aircraft/[id]', method: 'GET', path: () => `/o/${OTHER_ORG}/aircraft/${DEMO_AIRCRAFT.otherOrg}`, expect: { admin: 404, instructor: 404, pilot: 404, student: 404, viewer: 404, other: 200, anonymous: 303 } },
+	{ route: '/o/[org]/aircraft/[id]', method: 'POST', path: () => `${O}/aircraft/${DEMO_AIRCRAFT.trainer}?/save`, form: { registration: '' }, expect: only(['admin'], 400) },
+	{ route: '/o/[org]/aircraft/[id]', method: 'POST', path: () => `${O}/aircraft/${DEMO_AIRCRAFT.trainer}?/calibrate`, form: { shown: '' }, expect: only(['admin'], 400) },
+	{ route: '/o/[org]/members', method: 'GET', path: () => `${O}/members`, expect: only(['admin'], 200) },
+	{ route: '/o/[org]/members', method: 'POST', path: () => `${O}/members?/invite`, form: { email: 'not-an-address', role: 'pilot' }, expect: only(['admin'], 400) },
+	{ route: '/o/[org]/members', method: 'POST', path: () => `${O}/members?/role`, form: { userId: '', role: 'admin' }, expect: only(['admin'], 400) },
+	{ route: '/o/[org]/recorders', method: 'GET', path: () => `${O}/recorders`, expect: only(['admin'], 200) },
+	{ route: '/o/[org]/flights', method: 'GET', path: () => `${O}/flights`, expect: members(200) },
+	{ route: '/o/[org]/flights/upload', method: 'GET', path: () => `${O}/flights/upload`, expect: only(['admin', 'instructor', 'pilot', 'student'], 200) },
+	{ route: '/o/[org]/flights/[id]', method: 'GET', path: (i) => `${O}/flights/${i.pilotFlight}`, expect: only(FLIGHT_VIEWERS, 200) },
+	{ route: '/o/[org]/flights/[id]/live', method: 'GET', path: (i) => `${O}/flights/${i.pilotFlight}/live`, expect: only(FLIGHT_VIEWERS, 200) },
+	{ route: '/api/v1/flights/[id]/samples', method: 'GET', path: (i) => `/api/v1/flights/${i.pilotFlight}/samples`, expect: only(FLIGHT_VIEWERS, 200, 401) },
+	{ route: '/api/v1/flights/[id]/export', method: 'GET', path: (i) => `/api/v1/flights/${i.pilotFlight}/export`, expect: only(FLIGHT_VIEWERS, 200, 401) },
+	{ route: '/api/v1/flights', method: 'POST', path: () => `/api/v1/flights?aircraftId=${DEMO_AIRCRAFT.trainer}`, form: {}, expect: only(FLIGHT_EDITORS.concat('student'), 400, 401) }
+];
+
+/** Routes that need no membership, checked elsewhere or public by design. */
+const OUTSIDE_MATRIX = new Set([
+	'/', '/sign-in', '/sign-up', '/sign-out', '/reset-password', '/reset-password/[token]', '/invite/[token]', '/caution', '/dev/mailbox', '/api/health',
+	// Recorder-token routes: tested with valid, revoked and foreign tokens in tests/integration/live*.
+	'/api/v1/live/samples', '/api/v1/live/open', '/api/v1/live/close'
+]);
+
+let ids: Ids;
+
+test.beforeAll(async () => {
+	// A flight that belongs to the demo pilot, so "own" and "someone else's" can both be checked.
+	const client = new pg.Client({ connectionString: process.env.DATABASE_URL });
+	await client.connect();
+	try {
+		const { rows } = await client.query(
+			`insert into flights (org_id, aircraft_id, pilot_id, title, source, status, started_at, ended_at, declaration)
+			 select org_id, id, 'demo-pilot', 'matrix fixture', 'upload', 'closed', now() - interval '2 hours', now() - interval '1 hour', '{"kind":"full"}'
+			 from aircraft where id = $1 returning id`,
+			[DEMO_AIRCRAFT.trainer]
+		);
+		ids = { pilotFlight: rows[0].id };
+		await client.query(
+			`insert into samples (flight_id, seq, t, flow, gs, dtg) select $1, s, now() - interval '2 hours' + s * interval '1 second', 30, 100, 20 from generate_series(0, 9) s`,
+			[ids.pilotFlight]
+		);
+	} finally {
+		await client.end();
+	}
+});
+
+const contexts = new Map<string, APIRequestContext>();
+test.afterAll(async () => {
+	for (const c of contexts.values()) await c.dispose();
+});
+
+for (const role of ROLES) {
+	test(`routes as ${role}`, async () => {
+		const ctx = contexts.get(role) ?? (await apiAs(role));
+		contexts.set(role, ctx);
+		const failures: string[] = [];
+		for (const row of MATRIX) {
+			const url = row.path(ids);
+			const res =
+				row.method === 'GET'
+					? await ctx.get(url, { maxRedirects: 0, headers: { accept: 'text/html' } })
+					: await ctx.post(url, { form: row.form ?? {}, maxRedirects: 0, headers: { accept: 'text/html' } });
+			const want = row.expect[role];
+			if (res.status() !== want) failures.push(`${row.method} ${url}: got ${res.status()}, want ${want}`);
+			if (want === 303 && res.status() === 303) {
+				const location = res.headers()['location'] ?? '';
+				if (!location.startsWith('/sign-in')) failures.push(`${row.method} ${url}: redirected to ${location}, want /sign-in`);
+			}
+		}
+		expect(failures, failures.join('\n')).toEqual([]);
+	});
+}
+
+test('every route under src/routes is in the matrix or listed as outside it', () => {
+	const root = path.resolve('src/routes');
+	const found: string[] = [];
+	const walk = (dir: string) => {
+		for (const entry of fs.readdirSync(dir, { withFileTypes: true })) {
+			if (entry.isDirectory()) walk(path.join(dir, entry.name));
+			else if (/^\+(page|server)(\.server)?\.(ts|svelte)$/.test(entry.name)) {
+				const id = '/' + path.relative(root, dir).split(path.sep).filter((s) => s && !/^\(.*\)$/.test(s)).join('/');
+				found.push(id === '/' ? '/' : id.replace(/\/$/, ''));
+			}
+		}
+	};
+	walk(root);
+	const covered = new Set(MATRIX.map((r) => r.route));
+	const missing = [...new Set(found)].filter((r) => !covered.has(r) && !OUTSIDE_MATRIX.has(r));
+	expect(missing, `routes with no row in the role matrix: ${missing.join(', ')}`).toEqual([]);
+});

@@ -1,0 +1,76 @@
+// An admin invites a new member by e-mail; the invitee follows the link from the demo mailbox,
+// creates an account and lands in the organisation with the invited role.
+import { expect, test } from '@playwright/test';
+import { DEMO_ORG, DEMO_USERS, signIn, uniqueEmail } from './support';
+
+test('invitation by e-mail through the mailbox page', async ({ page, browser }) => {
+	const invitee = uniqueEmail('newpilot');
+	await signIn(page, DEMO_USERS.admin);
+	await page.goto(`/o/${DEMO_ORG}/members`);
+	await page.getByLabel('E-mail').fill(invitee);
+	await page.getByLabel('Role').selectOption('instructor');
+	await page.getByRole('button', { name: 'Send invitation' }).click();
+	await expect(page.getByText(`Invitation sent to ${invitee}.`)).toBeVisible();
+	await expect(page.getByText(`${invitee} · Instructor`)).toBeVisible();
+
+	// A fresh browser without a session, as the invitee would be.
+	const guest = await browser.newContext();
+	const p = await guest.newPage();
+	await p.goto('/dev/mailbox');
+	const mail = p.getByTestId('mail').filter({ hasText: invitee }).first();
+	await expect(mail.getByTestId('mail-subject')).toHaveText('Join Kestrel Field Flying Club on Burndown');
+	const href = await mail.getByTestId('mail-link').first().getAttribute('href');
+	expect(href).toMatch(/\/invite\/inv_/);
+
+	await p.goto(new URL(href!).pathname);
+	await expect(p.getByRole('heading', { name: 'Join Kestrel Field Flying Club' })).toBeVisible();
+	await p.getByRole('link', { name: 'Create an account' }).click();
+	await p.getByLabel('Your name').fill('Rowan Ashdown');
+	await p.getByLabel('E-mail').fill(invitee);
+	await p.getByLabel('Password').fill('invited and welcome');
+	await p.getByRole('button', { name: 'Create account' }).click();
+	await expect(p).toHaveURL(/\/invite\/inv_/);
+	await p.getByRole('button', { name: 'Accept and join' }).click();
+	await expect(p).toHaveURL(new RegExp(`/o/${DEMO_ORG}$`));
+	await expect(p.getByRole('heading', { name: 'Kestrel Field Flying Club' })).toBeVisible();
+
+	// The same link cannot be used twice.
+	const again = await p.goto(new URL(href!).pathname);
+	expect(again?.status()).toBe(404);
+
+	// The admin now sees the new instructor among the members.
+	await page.reload();
+	await expect(page.getByRole('row', { name: /Rowan Ashdown/ })).toBeVisible();
+	await guest.close();
+});
+
+test('password reset by e-mailed link', async ({ page }) => {
+	const email = uniqueEmail('forgetful');
+	await page.goto('/sign-up');
+	await page.getByLabel('Your name').fill('Jules Fenwick');
+	await page.getByLabel('E-mail').fill(email);
+	await page.getByLabel('Password').fill('first passphrase here');
+	await page.getByRole('button', { name: 'Create account' }).click();
+	await page.getByRole('button', { name: 'Sign out' }).click();
+
+	await page.goto('/reset-password');
+	await page.getByLabel('E-mail').fill(email);
+	await page.getByRole('button', { name: 'E-mail me a link' }).click();
+	await expect(page.getByRole('status')).toContainText(email);
+
+	await page.goto('/dev/mailbox');
+	const mail = page.getByTestId('mail').filter({ hasText: email }).first();
+	const href = await mail.getByTestId('mail-link').first().getAttribute('href');
+	await page.goto(new URL(href!).pathname);
+	await page.getByLabel('New password').fill('second passphrase here');
+	await page.getByLabel('The same again').fill('second passphrase here');
+	await page.getByRole('button', { name: 'Save and sign in' }).click();
+	await expect(page).toHaveURL(/\/orgs$/);
+
+	await page.getByRole('button', { name: 'Sign out' }).click();
+	await page.goto('/sign-in');
+	await page.getByLabel('E-mail').fill(email);
+	await page.getByLabel('Password').fill('first passphrase here');
+	await page.getByRole('button', { name: 'Sign in' }).click();
+	await expect(page.getByRole('alert')).toContainText('do not match');
+});
