@@ -8,7 +8,7 @@ test('invitation by e-mail through the mailbox page', async ({ page, browser }) 
 	await signIn(page, DEMO_USERS.admin);
 	await page.goto(`/o/${DEMO_ORG}/members`);
 	await page.getByLabel('E-mail').fill(invitee);
-	await page.getByLabel('Role').selectOption('instructor');
+	await page.getByLabel('Role', { exact: true }).selectOption('instructor');
 	await page.getByRole('button', { name: 'Send invitation' }).click();
 	await expect(page.getByText(`Invitation sent to ${invitee}.`)).toBeVisible();
 	await expect(page.getByText(`${invitee} · Instructor`)).toBeVisible();
