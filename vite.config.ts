@@ -20,6 +20,7 @@ export default defineConfig({
 				test: {
 					name: 'integration',
 					include: ['tests/integration/**/*.test.ts'],
+					setupFiles: ['tests/integration/setup.ts'],
 					environment: 'node',
 					// Each file gets its own database cloned from the migrated template; files run in
 					// parallel on the two cores, tests inside a file in order.
