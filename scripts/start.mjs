@@ -66,7 +66,8 @@ async function main() {
 	}
 
 	const mailboxDir = path.resolve(process.env.MAILBOX_DIR || inRoot('.data', 'mailbox'));
-	const env = { ...process.env, DATABASE_URL: databaseUrl, MAILBOX_DIR: mailboxDir, BURNDOWN_DEMO: process.env.BURNDOWN_DEMO ?? '1' };
+	// ORIGIN too, so the seed's messages and e-mailed links name the address actually served.
+	const env = { ...process.env, DATABASE_URL: databaseUrl, MAILBOX_DIR: mailboxDir, ORIGIN: origin, BURNDOWN_DEMO: process.env.BURNDOWN_DEMO ?? '1' };
 	const services = [];
 	// The sink starts (tsx, about a second) while migrations and the demo data run.
 	let sinkReady = Promise.resolve();
@@ -116,7 +117,6 @@ async function main() {
 				...env,
 				PORT: String(appPort),
 				HOST: '127.0.0.1',
-				ORIGIN: origin,
 				// The app limits uploads to 100 MB itself; adapter-node's own limit must sit above that.
 				BODY_SIZE_LIMIT: process.env.BODY_SIZE_LIMIT || '110M',
 				// Open live streams would otherwise hold Ctrl-C for adapter-node's default 30 s.
