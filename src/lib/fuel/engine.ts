@@ -1,0 +1,646 @@
+// The single pass that turns samples into per-sample fuel state. Batch and live both run this
+// loop over index ranges, carrying every running value in an EngineState, which is why a live
+// flight gives exactly the numbers of a replay of the same samples.
+
+import { createAlarmTracks, updateAlarm, type AlarmTrack } from './alarms';
+import { checkProfile, resolveDeclaration } from './declaration';
+import { eventDelta, normalizeEvents } from './events';
+import { createGapTracker, gapThresholdFor, type GapTracker } from './gaps';
+import { gapFillFlow, segmentLitres } from './integrate';
+import { createPhaseTracker, PHASE_COUNT, PHASE_STOPPED, trackPhase, type PhaseTracker } from './phases';
+import {
+	FLAG_ENDURANCE,
+	FLAG_EVENT,
+	FLAG_FLOW_HELD,
+	FLAG_GAP_FILLED,
+	FLAG_REJECTED,
+	FLAG_WAYPOINT,
+	WPT_NONE,
+	type AlarmEpisode,
+	type AlarmThresholds,
+	type DataGap,
+	type DataProblem,
+	type EngineOptions,
+	type EngineWarning,
+	type FlightComputation,
+	type FlightInput,
+	type FlightStats,
+	type FuelEvent,
+	type ResolvedDeclaration,
+	type ResolvedEvent,
+	type SampleColumns,
+	type UsableProfile
+} from './types';
+import { DEFAULT_LIMITS, describeProblem, problemField, rowProblem, type RowLimits } from './validate';
+import {
+	enduranceH,
+	fuelToWaypointL,
+	reserveMinutes,
+	specificRangeNmPerL,
+	timeToWaypointH
+} from './waypoint';
+
+/** Option defaults (our choice). */
+export const DEFAULT_OPTIONS = {
+	minFlowLph: 0.5,
+	minGsKt: 3,
+	airborneGsKt: 40,
+	phaseHoldS: 10,
+	gapFloorS: 10,
+	gapFactor: 5
+} as const;
+
+export interface ResolvedOptions {
+	minFlowLph: number;
+	minGsKt: number;
+	airborneGsKt: number;
+	waypointMinGsKt: number;
+	phaseHoldS: number;
+	gapFloorS: number;
+	gapFactor: number;
+	gapThresholdS: number | null;
+	limits: RowLimits;
+}
+
+function pick(value: number | undefined, fallback: number): number {
+	return typeof value === 'number' && !Number.isNaN(value) && value >= 0 ? value : fallback;
+}
+
+export function resolveOptions(o: EngineOptions = {}): ResolvedOptions {
+	const fixed = o.gapThresholdS;
+	const airborneGsKt = pick(o.airborneGsKt, DEFAULT_OPTIONS.airborneGsKt);
+	return {
+		minFlowLph: pick(o.minFlowLph, DEFAULT_OPTIONS.minFlowLph),
+		minGsKt: pick(o.minGsKt, DEFAULT_OPTIONS.minGsKt),
+		airborneGsKt,
+		waypointMinGsKt: pick(o.waypointMinGsKt, airborneGsKt),
+		phaseHoldS: pick(o.phaseHoldS, DEFAULT_OPTIONS.phaseHoldS),
+		gapFloorS: pick(o.gapFloorS, DEFAULT_OPTIONS.gapFloorS),
+		gapFactor: pick(o.gapFactor, DEFAULT_OPTIONS.gapFactor),
+		gapThresholdS: typeof fixed === 'number' && fixed > 0 ? fixed : null,
+		limits: {
+			maxFlowLph: pick(o.maxFlowLph, DEFAULT_LIMITS.maxFlowLph),
+			maxGsKt: pick(o.maxGsKt, DEFAULT_LIMITS.maxGsKt),
+			maxDtgNm: pick(o.maxDtgNm, DEFAULT_LIMITS.maxDtgNm),
+			minAltFt: typeof o.minAltFt === 'number' ? o.minAltFt : DEFAULT_LIMITS.minAltFt,
+			maxAltFt: pick(o.maxAltFt, DEFAULT_LIMITS.maxAltFt)
+		}
+	};
+}
+
+/** Everything but the samples: checked once, reused when a live flight recomputes. */
+export interface EngineSetup {
+	profile: UsableProfile;
+	declaration: ResolvedDeclaration;
+	events: FuelEvent[];
+	thresholds: AlarmThresholds | undefined;
+	options: ResolvedOptions;
+	warnings: EngineWarning[];
+}
+
+export type EngineInputs = Omit<FlightInput, 'columns'>;
+
+export function prepare(input: EngineInputs): EngineSetup {
+	const { profile, warnings: profileWarnings } = checkProfile(input.profile);
+	const declaration = resolveDeclaration(input.declaration, profile, input.previousOnBoardL);
+	const { events, warnings: eventWarnings } = normalizeEvents(input.events, profile);
+	return {
+		profile,
+		declaration,
+		events,
+		thresholds: input.thresholds,
+		options: resolveOptions(input.options),
+		warnings: [...profileWarnings, ...declaration.warnings, ...eventWarnings]
+	};
+}
+
+/** The per-sample result arrays; live mode allocates them with spare room and grows them. */
+export interface Outputs {
+	flow: Float64Array;
+	used: Float64Array;
+	onBoard: Float64Array;
+	endurance: Float64Array;
+	timeToWpt: Float64Array;
+	fuelToWpt: Float64Array;
+	reserveAtWpt: Float64Array;
+	reserveAtWptMin: Float64Array;
+	specificRange: Float64Array;
+	phase: Uint8Array;
+	alarmState: Uint8Array;
+	flags: Uint8Array;
+}
+
+const FLOAT_OUTPUTS = [
+	'flow',
+	'used',
+	'onBoard',
+	'endurance',
+	'timeToWpt',
+	'fuelToWpt',
+	'reserveAtWpt',
+	'reserveAtWptMin',
+	'specificRange'
+] as const;
+const BYTE_OUTPUTS = ['phase', 'alarmState', 'flags'] as const;
+
+export function allocOutputs(capacity: number): Outputs {
+	const o = {} as Outputs;
+	for (const k of FLOAT_OUTPUTS) o[k] = new Float64Array(capacity);
+	for (const k of BYTE_OUTPUTS) o[k] = new Uint8Array(capacity);
+	return o;
+}
+
+/** New arrays of `capacity` holding the first `used` values of `o`. */
+export function growOutputs(o: Outputs, used: number, capacity: number): Outputs {
+	const g = allocOutputs(capacity);
+	for (const k of FLOAT_OUTPUTS) g[k].set(o[k].subarray(0, used));
+	for (const k of BYTE_OUTPUTS) g[k].set(o[k].subarray(0, used));
+	return g;
+}
+
+export interface EngineState {
+	setup: EngineSetup;
+	gap: GapTracker;
+	phase: PhaseTracker;
+	alarmTracks: [AlarmTrack, AlarmTrack, AlarmTrack];
+	lastT: number;
+	lastIdx: number;
+	/** Flow at the last accepted sample (after the meter factor, blanks held). */
+	lastFlow: number;
+	lastGs: number;
+	lastPhase: number;
+	lastRealFlowT: number;
+	lastRealFlowIdx: number;
+	flowHeld: boolean;
+	usedTotal: number;
+	usedOffset: number;
+	/**
+	 * Fuel on board is anchored at the last event: anchorOnBoard − (usedTotal − anchorUsed). At
+	 * the event itself that is the anchor exactly, so "filled to full" reads the capacity, not
+	 * the capacity give or take a rounding error.
+	 */
+	anchorOnBoard: number;
+	anchorUsed: number;
+	eventIdx: number;
+	alarmBits: number;
+	belowZeroWarned: boolean;
+	stats: FlightStats;
+	gaps: DataGap[];
+	problems: DataProblem[];
+	warnings: EngineWarning[];
+	alarms: AlarmEpisode[];
+	resolvedEvents: ResolvedEvent[];
+}
+
+function emptyStats(): FlightStats {
+	return {
+		acceptedCount: 0,
+		firstT: NaN,
+		lastT: NaN,
+		lastIndex: -1,
+		usedTotalL: 0,
+		engineTimeS: 0,
+		firstRunT: NaN,
+		lastRunT: NaN,
+		lastRunIndex: -1,
+		lastRunOnBoardL: NaN,
+		lastRunFlowLph: NaN,
+		movingTimeS: 0,
+		firstMoveT: NaN,
+		lastMoveT: NaN,
+		distanceNm: 0,
+		maxFlowLph: 0,
+		phaseTimeS: new Float64Array(PHASE_COUNT),
+		phaseFuelL: new Float64Array(PHASE_COUNT),
+		phaseDistanceNm: new Float64Array(PHASE_COUNT),
+		lowestReserveL: Infinity,
+		lowestReserveMin: NaN,
+		lowestReserveT: NaN,
+		lowestReserveIndex: -1,
+		lowestReserveWpt: null
+	};
+}
+
+export function createState(setup: EngineSetup): EngineState {
+	const o = setup.options;
+	return {
+		setup,
+		gap: createGapTracker(o.gapFloorS, o.gapFactor, o.gapThresholdS),
+		phase: createPhaseTracker({
+			minFlowLph: o.minFlowLph,
+			minGsKt: o.minGsKt,
+			airborneGsKt: o.airborneGsKt,
+			holdS: o.phaseHoldS,
+			baselineLph: setup.profile.baselineCruiseFlowLph
+		}),
+		alarmTracks: createAlarmTracks(setup.thresholds),
+		lastT: NaN,
+		lastIdx: -1,
+		lastFlow: NaN,
+		lastGs: NaN,
+		lastPhase: 0,
+		lastRealFlowT: NaN,
+		lastRealFlowIdx: -1,
+		flowHeld: false,
+		usedTotal: 0,
+		usedOffset: 0,
+		anchorOnBoard: setup.declaration.onBoardL,
+		anchorUsed: 0,
+		eventIdx: 0,
+		alarmBits: 0,
+		belowZeroWarned: false,
+		stats: emptyStats(),
+		gaps: [],
+		problems: [],
+		warnings: [],
+		alarms: [],
+		resolvedEvents: []
+	};
+}
+
+function problemValue(code: number, t: number, flow: number, gs: number, dtg: number, alt: number): number {
+	switch (problemField(code)) {
+		case 't':
+			return t;
+		case 'flow':
+			return flow;
+		case 'gs':
+			return gs;
+		case 'dtg':
+			return dtg;
+		default:
+			return alt;
+	}
+}
+
+/**
+ * Processes samples [from, to). Running values live in locals inside the loop (fast in V8) and
+ * are written back to the state at the end, so the next call continues exactly where this one
+ * stopped. Nothing is allocated per sample except for rare timeline entries.
+ */
+export function runKernel(s: EngineState, cols: SampleColumns, out: Outputs, from: number, to: number): void {
+	const { t, flow, gs, dtg } = cols;
+	const alt = cols.alt;
+	const wpt = cols.wpt;
+	const setup = s.setup;
+	const profile = setup.profile;
+	const o = setup.options;
+	const lim = o.limits;
+	const maxFlowLim = lim.maxFlowLph;
+	const maxGsLim = lim.maxGsKt;
+	const maxDtgLim = lim.maxDtgNm;
+	const minAltLim = lim.minAltFt;
+	const maxAltLim = lim.maxAltFt;
+	const minFlow = o.minFlowLph;
+	const minGs = o.minGsKt;
+	const wptGs = o.waypointMinGsKt;
+	const mf = profile.meterFactor;
+	const events = setup.events;
+	const nEv = events.length;
+	const gap = s.gap;
+	const ph = s.phase;
+	const [alarmFuel, alarmEndurance, alarmReserve] = s.alarmTracks;
+	const episodes = s.alarms;
+	// NaN (alarm off) never compares below, so an off alarm costs nothing here.
+	const fuelThreshold = alarmFuel.threshold;
+	const enduranceThreshold = alarmEndurance.threshold;
+	const reserveThreshold = alarmReserve.threshold;
+	const st = s.stats;
+	const phaseTime = st.phaseTimeS;
+	const phaseFuel = st.phaseFuelL;
+	const phaseDist = st.phaseDistanceNm;
+	const oFlow = out.flow;
+	const oUsed = out.used;
+	const oOnBoard = out.onBoard;
+	const oEndurance = out.endurance;
+	const oTime = out.timeToWpt;
+	const oFuel = out.fuelToWpt;
+	const oReserve = out.reserveAtWpt;
+	const oReserveMin = out.reserveAtWptMin;
+	const oRange = out.specificRange;
+	const oPhase = out.phase;
+	const oAlarm = out.alarmState;
+	const oFlags = out.flags;
+
+	let lastT = s.lastT;
+	let lastIdx = s.lastIdx;
+	let lastFlow = s.lastFlow;
+	let lastGs = s.lastGs;
+	let lastPhase = s.lastPhase;
+	let lastRealT = s.lastRealFlowT;
+	let lastRealIdx = s.lastRealFlowIdx;
+	let held = s.flowHeld;
+	let usedTotal = s.usedTotal;
+	let usedOffset = s.usedOffset;
+	let anchorOnBoard = s.anchorOnBoard;
+	let anchorUsed = s.anchorUsed;
+	let eventIdx = s.eventIdx;
+	let alarmBits = s.alarmBits;
+	let belowZeroWarned = s.belowZeroWarned;
+	let accepted = st.acceptedCount;
+	let engineTime = st.engineTimeS;
+	let moving = st.movingTimeS;
+	let distance = st.distanceNm;
+	let maxFlow = st.maxFlowLph;
+	let firstRunT = st.firstRunT;
+	let lastRunT = st.lastRunT;
+	let lastRunIdx = st.lastRunIndex;
+	let lastRunOnBoard = st.lastRunOnBoardL;
+	let lastRunFlow = st.lastRunFlowLph;
+	let firstMoveT = st.firstMoveT;
+	let lastMoveT = st.lastMoveT;
+	let lowestReserve = st.lowestReserveL;
+
+	for (let i = from; i < to; i++) {
+		const ti = t[i];
+		const rawFlow = flow[i];
+		const g = gs[i];
+		const d = dtg[i];
+		const a = alt !== undefined ? alt[i] : NaN;
+
+		// Fast path for a good row; rowProblem says exactly what is wrong with the others.
+		const suspect =
+			!(ti > lastT && ti < Infinity) ||
+			rawFlow < 0 ||
+			rawFlow > maxFlowLim ||
+			g < 0 ||
+			g > maxGsLim ||
+			d < 0 ||
+			d > maxDtgLim ||
+			a < minAltLim ||
+			a > maxAltLim;
+		const problem = suspect ? rowProblem(ti, lastT, rawFlow, g, d, a, lim) : 0;
+		if (problem !== 0) {
+			s.problems.push(describeProblem(problem, i, problemValue(problem, ti, rawFlow, g, d, a), lastT));
+			// A skipped sample carries the running totals so the arrays stay aligned with the input.
+			oFlow[i] = NaN;
+			oUsed[i] = usedTotal - usedOffset;
+			oOnBoard[i] = anchorOnBoard - (usedTotal - anchorUsed);
+			oEndurance[i] = NaN;
+			oTime[i] = NaN;
+			oFuel[i] = NaN;
+			oReserve[i] = NaN;
+			oReserveMin[i] = NaN;
+			oRange[i] = NaN;
+			oPhase[i] = 0;
+			oAlarm[i] = alarmBits;
+			oFlags[i] = FLAG_REJECTED;
+			continue;
+		}
+
+		let flags = 0;
+		let f: number;
+		if (rawFlow === rawFlow) f = rawFlow * mf;
+		else {
+			// A blank flow cell holds the last reading: a live flight cannot wait for the next one.
+			f = lastFlow;
+			if (f === f) flags |= FLAG_FLOW_HELD;
+		}
+		const p = trackPhase(ph, ti, f, g, a);
+
+		if (lastIdx >= 0) {
+			const dt = ti - lastT;
+			const threshold = gapThresholdFor(gap, dt);
+			const isGap = dt > threshold;
+			const inc = segmentLitres(lastFlow, f, dt, isGap);
+			if (isGap) {
+				flags |= FLAG_GAP_FILLED;
+				s.gaps.push({
+					kind: 'time',
+					start: lastT,
+					end: ti,
+					startIndex: lastIdx,
+					endIndex: i,
+					filledFlowLph: gapFillFlow(lastFlow, f)
+				});
+			}
+			if (rawFlow === rawFlow && held && lastRealIdx >= 0 && ti - lastRealT > threshold) {
+				s.gaps.push({
+					kind: 'flow',
+					start: lastRealT,
+					end: ti,
+					startIndex: lastRealIdx,
+					endIndex: i,
+					filledFlowLph: lastFlow
+				});
+			}
+			usedTotal += inc;
+			// The segment belongs to the sample's phase, except the last stretch before the engine
+			// stops, which belongs to the phase it ended.
+			const seg = p <= PHASE_STOPPED && lastPhase > p ? lastPhase : p;
+			phaseTime[seg] += dt;
+			phaseFuel[seg] += inc;
+			if (g === g && lastGs === lastGs) {
+				const dd = ((g + lastGs) * dt) / 7200;
+				distance += dd;
+				phaseDist[seg] += dd;
+			}
+			moving += ((lastGs >= minGs ? 0.5 : 0) + (g >= minGs ? 0.5 : 0)) * dt;
+			if (lastFlow > minFlow || f > minFlow) engineTime += dt;
+		} else {
+			st.firstT = ti;
+		}
+
+		while (eventIdx < nEv && events[eventIdx].t <= ti) {
+			const ev = events[eventIdx++];
+			const before = anchorOnBoard - (usedTotal - anchorUsed);
+			flags |= FLAG_EVENT;
+			if (ev.kind === 'resetUsed') {
+				s.resolvedEvents.push({
+					event: ev,
+					index: i,
+					deltaL: 0,
+					onBoardBeforeL: before,
+					onBoardAfterL: before,
+					usedBeforeL: usedTotal - usedOffset
+				});
+				usedOffset = usedTotal;
+			} else {
+				const r = eventDelta(ev, before, profile);
+				if (r.warning) s.warnings.push({ ...r.warning, index: i });
+				anchorOnBoard = r.afterL;
+				anchorUsed = usedTotal;
+				s.resolvedEvents.push({
+					event: ev,
+					index: i,
+					deltaL: r.deltaL,
+					onBoardBeforeL: before,
+					onBoardAfterL: r.afterL,
+					usedBeforeL: usedTotal - usedOffset
+				});
+			}
+		}
+
+		const ob = anchorOnBoard - (usedTotal - anchorUsed);
+		oFlow[i] = f;
+		oUsed[i] = usedTotal - usedOffset;
+		oOnBoard[i] = ob;
+		if (ob < 0 && !belowZeroWarned) {
+			belowZeroWarned = true;
+			s.warnings.push({
+				code: 'onBoardBelowZero',
+				message:
+					'Computed fuel on board went below zero: the declared starting fuel or the meter factor is probably wrong.',
+				index: i,
+				t: ti
+			});
+		}
+
+		const endurance = enduranceH(ob, f, minFlow);
+		oEndurance[i] = endurance;
+		if (f > minFlow) {
+			flags |= FLAG_ENDURANCE;
+			if (f > maxFlow) maxFlow = f;
+			if (firstRunT !== firstRunT) firstRunT = ti;
+			lastRunT = ti;
+			lastRunIdx = i;
+			lastRunOnBoard = ob;
+			lastRunFlow = f;
+		}
+		if (g >= minGs) {
+			if (firstMoveT !== firstMoveT) firstMoveT = ti;
+			lastMoveT = ti;
+		}
+
+		// Below the waypoint ground speed every waypoint figure is NaN by construction, never Infinity.
+		const hours = timeToWaypointH(d, g, wptGs);
+		const fuel = fuelToWaypointL(f, hours);
+		const reserve = ob - fuel;
+		const reserveMin = reserveMinutes(reserve, f, minFlow);
+		oTime[i] = hours;
+		oFuel[i] = fuel;
+		oReserve[i] = reserve;
+		oReserveMin[i] = reserveMin;
+		oRange[i] = specificRangeNmPerL(g, f, wptGs, minFlow);
+		if (reserve === reserve) {
+			flags |= FLAG_WAYPOINT;
+			if (reserve < lowestReserve) {
+				lowestReserve = reserve;
+				st.lowestReserveMin = reserveMin;
+				st.lowestReserveT = ti;
+				st.lowestReserveIndex = i;
+				const w = wpt !== undefined ? wpt[i] : WPT_NONE;
+				st.lowestReserveWpt = w === WPT_NONE ? null : w;
+			}
+		}
+
+		// Most samples are nowhere near an alarm: one compare each before the full update.
+		const enduranceMin = endurance * 60;
+		if (alarmBits !== 0 || ob < fuelThreshold || enduranceMin < enduranceThreshold || reserve < reserveThreshold)
+			alarmBits =
+				updateAlarm(alarmFuel, ob, ti, i, episodes) |
+				updateAlarm(alarmEndurance, enduranceMin, ti, i, episodes) |
+				updateAlarm(alarmReserve, reserve, ti, i, episodes);
+
+		oPhase[i] = p;
+		oAlarm[i] = alarmBits;
+		oFlags[i] = flags;
+
+		accepted++;
+		lastT = ti;
+		lastIdx = i;
+		lastFlow = f;
+		lastGs = g;
+		lastPhase = p;
+		if (rawFlow === rawFlow) {
+			lastRealT = ti;
+			lastRealIdx = i;
+			held = false;
+		} else held = true;
+	}
+
+	s.lastT = lastT;
+	s.lastIdx = lastIdx;
+	s.lastFlow = lastFlow;
+	s.lastGs = lastGs;
+	s.lastPhase = lastPhase;
+	s.lastRealFlowT = lastRealT;
+	s.lastRealFlowIdx = lastRealIdx;
+	s.flowHeld = held;
+	s.usedTotal = usedTotal;
+	s.usedOffset = usedOffset;
+	s.anchorOnBoard = anchorOnBoard;
+	s.anchorUsed = anchorUsed;
+	s.eventIdx = eventIdx;
+	s.alarmBits = alarmBits;
+	s.belowZeroWarned = belowZeroWarned;
+	st.acceptedCount = accepted;
+	st.lastT = lastT;
+	st.lastIndex = lastIdx;
+	st.usedTotalL = usedTotal;
+	st.engineTimeS = engineTime;
+	st.movingTimeS = moving;
+	st.distanceNm = distance;
+	st.maxFlowLph = maxFlow;
+	st.firstRunT = firstRunT;
+	st.lastRunT = lastRunT;
+	st.lastRunIndex = lastRunIdx;
+	st.lastRunOnBoardL = lastRunOnBoard;
+	st.lastRunFlowLph = lastRunFlow;
+	st.firstMoveT = firstMoveT;
+	st.lastMoveT = lastMoveT;
+	st.lowestReserveL = lowestReserve;
+}
+
+function view<T extends Float64Array | Uint8Array>(a: T, n: number): T {
+	return (a.length === n ? a : a.subarray(0, n)) as T;
+}
+
+/**
+ * The computation so far as a FlightComputation. Arrays are views on the state's buffers (valid
+ * until the next live append); lists and stats are copies.
+ */
+export function snapshot(s: EngineState, out: Outputs, n: number, extraWarnings: readonly EngineWarning[] = []): FlightComputation {
+	const setup = s.setup;
+	const pending: ResolvedEvent[] = [];
+	const pendingWarnings: EngineWarning[] = [];
+	const onBoardNow = s.anchorOnBoard - (s.usedTotal - s.anchorUsed);
+	for (let k = s.eventIdx; k < setup.events.length; k++) {
+		const ev = setup.events[k];
+		pending.push({
+			event: ev,
+			index: -1,
+			deltaL: 0,
+			onBoardBeforeL: onBoardNow,
+			onBoardAfterL: onBoardNow,
+			usedBeforeL: s.usedTotal - s.usedOffset
+		});
+		pendingWarnings.push({
+			code: 'eventAfterLastSample',
+			message: `Fuel event (${ev.kind}) is later than the last sample; not applied yet.`,
+			t: ev.t
+		});
+	}
+	const st = s.stats;
+	const lowest = st.lowestReserveIndex >= 0;
+	return {
+		length: n,
+		flow: view(out.flow, n),
+		used: view(out.used, n),
+		onBoard: view(out.onBoard, n),
+		endurance: view(out.endurance, n),
+		timeToWpt: view(out.timeToWpt, n),
+		fuelToWpt: view(out.fuelToWpt, n),
+		reserveAtWpt: view(out.reserveAtWpt, n),
+		reserveAtWptMin: view(out.reserveAtWptMin, n),
+		specificRange: view(out.specificRange, n),
+		phase: view(out.phase, n),
+		alarmState: view(out.alarmState, n),
+		flags: view(out.flags, n),
+		alarms: s.alarms.map((e) => ({ ...e })),
+		gaps: s.gaps.slice(),
+		problems: s.problems.slice(),
+		warnings: [...setup.warnings, ...extraWarnings, ...s.warnings, ...pendingWarnings],
+		declaration: setup.declaration,
+		events: [...s.resolvedEvents, ...pending],
+		stats: {
+			...st,
+			lowestReserveL: lowest ? st.lowestReserveL : NaN,
+			phaseTimeS: st.phaseTimeS.slice(),
+			phaseFuelL: st.phaseFuelL.slice(),
+			phaseDistanceNm: st.phaseDistanceNm.slice()
+		},
+		profile: setup.profile,
+		gapThresholdS: s.gap.thresholdS
+	};
+}

@@ -1,0 +1,67 @@
+// The fuel engine: every fuel figure Burndown shows, computed from recorder samples. Pure
+// TypeScript with no I/O, so the same code runs on the server and in the browser.
+//
+// Map of the modules:
+//   types.ts        input columns, profile, declarations, events, thresholds, result shapes
+//   compute.ts      computeFlight(): batch run over a whole flight
+//   live.ts         createLiveComputation(): incremental run for a flight in progress
+//   engine.ts       the single pass both of them run, and its running state
+//   declaration.ts  start-of-flight declaration → litres on board; profile checks
+//   events.ts       fuel added/removed/filled and "used" resets on the timeline
+//   integrate.ts    fuel used between two samples (trapezoid; higher flow across a dropout)
+//   gaps.ts         when the time between samples is a dropout
+//   validate.ts     row checks: time order, negative and absurd values
+//   waypoint.ts     endurance, time/fuel/reserve to the next waypoint, specific range
+//   phases.ts       stopped / taxi / climb / cruise / descent
+//   alarms.ts       low fuel, low endurance, negative reserve episodes with hysteresis
+//   reserve.ts      legal reserve rules as data, and the reserve amount
+//   summary.ts      summarize(): the flight summary for the debrief
+//   calibration.ts  meter factor and K-factor from a fill-up
+// Unit constants and conversions live beside this folder in $lib/units.ts.
+
+export * from './types';
+export { computeFlight, columnLength } from './compute';
+export { createLiveComputation, type LiveComputation, type LiveInit } from './live';
+export { DEFAULT_OPTIONS } from './engine';
+export { checkProfile, resolveDeclaration } from './declaration';
+export { eventDelta, normalizeEvents } from './events';
+export { segmentLitres, gapFillFlow } from './integrate';
+export { DEFAULT_GAP_FACTOR, DEFAULT_GAP_FLOOR_S, MEDIAN_INTERVALS } from './gaps';
+export { DEFAULT_LIMITS } from './validate';
+export {
+	enduranceH,
+	fuelToWaypointL,
+	reserveMinutes,
+	specificRangeNmPerL,
+	timeToWaypointH
+} from './waypoint';
+export {
+	PHASE_CLIMB,
+	PHASE_COUNT,
+	PHASE_CRUISE,
+	PHASE_DESCENT,
+	PHASE_STOPPED,
+	PHASE_TAXI,
+	PHASE_UNKNOWN,
+	phaseNames,
+	type PhaseName
+} from './phases';
+export { DEFAULT_HYSTERESIS } from './alarms';
+export {
+	RESERVE_CAUTION,
+	reserveAmount,
+	reserveRule,
+	reserveRules,
+	type ReserveAmount,
+	type ReserveRule,
+	type ReserveRuleId,
+	type ReserveSetting
+} from './reserve';
+export { summarize, type FlightSummary, type PhaseSummary } from './summary';
+export {
+	MIN_RELIABLE_INDICATED_L,
+	PLAUSIBLE_CORRECTION_PERCENT,
+	calibrate,
+	type CalibrationInput,
+	type CalibrationResult
+} from './calibration';

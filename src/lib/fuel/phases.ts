@@ -1,0 +1,168 @@
+// Flight phase at each sample (stopped, taxi, climb, cruise, descent), from ground speed and flow,
+// and from vertical speed when altitude is recorded. Uses past samples only, so a live flight
+// and its replay get the same phases.
+
+export const PHASE_UNKNOWN = 0;
+export const PHASE_STOPPED = 1;
+export const PHASE_TAXI = 2;
+export const PHASE_CLIMB = 3;
+export const PHASE_CRUISE = 4;
+export const PHASE_DESCENT = 5;
+export const PHASE_COUNT = 6;
+
+export type PhaseName = 'unknown' | 'stopped' | 'taxi' | 'climb' | 'cruise' | 'descent';
+export const phaseNames: readonly PhaseName[] = [
+	'unknown',
+	'stopped',
+	'taxi',
+	'climb',
+	'cruise',
+	'descent'
+];
+
+/*
+ * Detector settings (our choice, tuned on typical four-seat singles, not from a source):
+ * - vertical speed beyond ±300 ft/min, smoothed over about 15 s, is a climb or descent;
+ * - without altitude, flow relative to the aircraft's baseline cruise flow (≥ 1.3× climb,
+ *   ≤ 0.7× descent) or, with no baseline, relative to the highest smoothed flow seen airborne so
+ *   far (≥ 0.8× climb, ≤ 0.4× descent), because take-off and climb use the most power
+ *   (climb flow near twice cruise, common practice).
+ */
+export const VS_CLIMB_FPM = 300;
+export const VS_SMOOTH_S = 15;
+export const FLOW_SMOOTH_S = 30;
+/** Vertical speed older than this is not used. */
+export const VS_STALE_S = 60;
+export const BASELINE_CLIMB_RATIO = 1.3;
+export const BASELINE_DESCENT_RATIO = 0.7;
+export const PEAK_CLIMB_RATIO = 0.8;
+export const PEAK_DESCENT_RATIO = 0.4;
+
+export interface PhaseTracker {
+	minFlowLph: number;
+	minGsKt: number;
+	airborneGsKt: number;
+	holdS: number;
+	baselineLph: number;
+	current: number;
+	/** When the candidate phase first differed from the current one (NaN: it does not). */
+	divergedSince: number;
+	lastT: number;
+	flowDt: number;
+	flowWeight: number;
+	flowSmooth: number;
+	peakAirborneFlow: number;
+	lastAlt: number;
+	lastAltT: number;
+	altDt: number;
+	altWeight: number;
+	altPerMin: number;
+	vsFpm: number;
+	vsT: number;
+}
+
+export function createPhaseTracker(o: {
+	minFlowLph: number;
+	minGsKt: number;
+	airborneGsKt: number;
+	holdS: number;
+	baselineLph: number | null;
+}): PhaseTracker {
+	return {
+		minFlowLph: o.minFlowLph,
+		minGsKt: o.minGsKt,
+		airborneGsKt: o.airborneGsKt,
+		holdS: o.holdS,
+		baselineLph: o.baselineLph ?? NaN,
+		current: -1,
+		divergedSince: NaN,
+		lastT: NaN,
+		flowDt: NaN,
+		flowWeight: NaN,
+		flowSmooth: NaN,
+		peakAirborneFlow: 0,
+		lastAlt: NaN,
+		lastAltT: NaN,
+		altDt: NaN,
+		altWeight: NaN,
+		altPerMin: NaN,
+		vsFpm: NaN,
+		vsT: NaN
+	};
+}
+
+/** What the sample on its own suggests, after updating the smoothed flow and vertical speed. */
+function candidatePhase(p: PhaseTracker, t: number, flowLph: number, gsKt: number, altFt: number): number {
+	const dt = t - p.lastT;
+	if (flowLph === flowLph) {
+		// dt/(τ+dt) is a cheap stand-in for 1 − exp(−dt/τ) that behaves the same at both ends;
+		// recorders mostly keep one interval, so the weight is cached.
+		if (dt !== p.flowDt) {
+			p.flowDt = dt;
+			p.flowWeight = dt / (FLOW_SMOOTH_S + dt);
+		}
+		p.flowSmooth = p.flowSmooth === p.flowSmooth ? p.flowSmooth + p.flowWeight * (flowLph - p.flowSmooth) : flowLph;
+	}
+	if (altFt === altFt) {
+		if (p.lastAlt === p.lastAlt) {
+			const dtAlt = t - p.lastAltT;
+			if (dtAlt !== p.altDt) {
+				p.altDt = dtAlt;
+				p.altWeight = dtAlt / (VS_SMOOTH_S + dtAlt);
+				p.altPerMin = 60 / dtAlt;
+			}
+			const vs = (altFt - p.lastAlt) * p.altPerMin;
+			p.vsFpm = p.vsFpm === p.vsFpm ? p.vsFpm + p.altWeight * (vs - p.vsFpm) : vs;
+			p.vsT = t;
+		}
+		p.lastAlt = altFt;
+		p.lastAltT = t;
+	}
+	p.lastT = t;
+
+	const running = flowLph > p.minFlowLph;
+	if (gsKt !== gsKt) return flowLph === flowLph && !running ? PHASE_STOPPED : PHASE_UNKNOWN;
+	if (gsKt < p.airborneGsKt) {
+		if (running) return PHASE_TAXI;
+		// Moving with no flow reading yet: most likely taxiing before the first reading.
+		return flowLph !== flowLph && gsKt >= p.minGsKt ? PHASE_TAXI : PHASE_STOPPED;
+	}
+	if (p.vsFpm === p.vsFpm && t - p.vsT <= VS_STALE_S) {
+		if (p.vsFpm > VS_CLIMB_FPM) return PHASE_CLIMB;
+		if (p.vsFpm < -VS_CLIMB_FPM) return PHASE_DESCENT;
+		return PHASE_CRUISE;
+	}
+	const f = p.flowSmooth;
+	if (f !== f) return PHASE_UNKNOWN;
+	if (p.baselineLph === p.baselineLph) {
+		if (f >= BASELINE_CLIMB_RATIO * p.baselineLph) return PHASE_CLIMB;
+		if (f <= BASELINE_DESCENT_RATIO * p.baselineLph) return PHASE_DESCENT;
+		return PHASE_CRUISE;
+	}
+	if (f > p.peakAirborneFlow) p.peakAirborneFlow = f;
+	if (f >= PEAK_CLIMB_RATIO * p.peakAirborneFlow) return PHASE_CLIMB;
+	if (f <= PEAK_DESCENT_RATIO * p.peakAirborneFlow) return PHASE_DESCENT;
+	return PHASE_CRUISE;
+}
+
+/**
+ * Phase at a sample. A new phase must be suggested for holdS seconds before it is taken, so a
+ * noisy reading does not flip the phase back and forth.
+ */
+export function trackPhase(p: PhaseTracker, t: number, flowLph: number, gsKt: number, altFt: number): number {
+	const c = candidatePhase(p, t, flowLph, gsKt, altFt);
+	if (p.current < 0) {
+		p.current = c;
+		return c;
+	}
+	if (c === p.current) {
+		p.divergedSince = NaN;
+	} else {
+		if (p.divergedSince !== p.divergedSince) p.divergedSince = t;
+		if (t - p.divergedSince >= p.holdS) {
+			p.current = c;
+			p.divergedSince = NaN;
+		}
+	}
+	return p.current;
+}
