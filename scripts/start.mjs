@@ -6,6 +6,7 @@
 // PostgreSQL keeps running until `npm run db:stop`.
 import fs from 'node:fs';
 import path from 'node:path';
+import { pathToFileURL } from 'node:url';
 import { parseArgs } from 'node:util';
 import { buildStaleReason, ensureKitSync, viteBuild } from './lib/build.mjs';
 import { StepError, info, now, report, seconds, warn } from './lib/log.mjs';
@@ -101,9 +102,13 @@ async function main() {
 	}
 
 	await sinkReady;
+	const watchdog = ['--import', pathToFileURL(inRoot('scripts', 'lib', 'exit-with-parent.mjs')).href];
 	let app;
 	if (opts.dev) {
-		app = startService(bin('vite'), ['dev', '--host', '127.0.0.1', '--port', String(appPort), '--strictPort'], { env, stdin: 'inherit' });
+		app = startService(process.execPath, [...watchdog, inRoot('node_modules', 'vite', 'bin', 'vite.js'), 'dev', '--host', '127.0.0.1', '--port', String(appPort), '--strictPort'], {
+			env: { ...env, BURNDOWN_PARENT_PID: String(process.pid) },
+			stdin: 'inherit'
+		});
 	} else {
 		const stale = opts.build ? 'asked for with --build' : buildStaleReason();
 		if (stale) {
@@ -112,9 +117,10 @@ async function main() {
 		} else {
 			info('build/ is newer than every source file: serving it as it is (npm start -- --build rebuilds)');
 		}
-		app = startService(process.execPath, ['build'], {
+		app = startService(process.execPath, [...watchdog, 'build'], {
 			env: {
 				...env,
+				BURNDOWN_PARENT_PID: String(process.pid),
 				PORT: String(appPort),
 				HOST: '127.0.0.1',
 				// The app limits uploads to 100 MB itself; adapter-node's own limit must sit above that.
