@@ -99,6 +99,7 @@ function inspect(dataDir) {
 }
 
 async function initCluster(pg, dataDir) {
+	const existed = fs.existsSync(dataDir);
 	fs.mkdirSync(dataDir, { recursive: true, mode: 0o700 });
 	const ids = isRoot() ? await postgresIds() : null;
 	if (ids) {
@@ -106,6 +107,7 @@ async function initCluster(pg, dataDir) {
 		fs.chmodSync(dataDir, 0o700);
 		const reach = await run('runuser', ['-u', 'postgres', '--', 'test', '-w', dataDir, '-a', '-x', dataDir], { cwd: '/', capture: true });
 		if (reach.code !== 0) {
+			if (!existed) fs.rmSync(dataDir, { recursive: true, force: true });
 			throw new StepError(
 				`user postgres cannot write to ${dataDir}`,
 				'The data folder must be reachable by user postgres (not under /root). Set BURNDOWN_PGDATA to a folder under /tmp.'
