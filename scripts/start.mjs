@@ -64,6 +64,8 @@ async function main() {
 		const { port, dataDir } = clusterSettings({ prefix: 'burndown-pg', portVar: 'BURNDOWN_PGPORT', dataVar: 'BURNDOWN_PGDATA', defaultPort: 54329 });
 		const cluster = await ensureCluster({ label: 'database', port, dataDir, appDatabase: 'burndown' });
 		databaseUrl = cluster.appUrl('burndown');
+		// A loopback-only cluster with a generated password: shown so psql or drizzle-kit can use it.
+		info(`database: DATABASE_URL=${databaseUrl}`);
 	}
 
 	const mailboxDir = path.resolve(process.env.MAILBOX_DIR || inRoot('.data', 'mailbox'));
