@@ -1,0 +1,158 @@
+// The recorder-facing HTTP API (POST /api/v1/live/samples, /open, /close): the bearer recorder
+// token checked here (the auth hook leaves /api/v1/live/* to us), the body read with its own size
+// limit, validated whole, and every refusal answered as JSON saying what and where.
+import { json } from '@sveltejs/kit';
+import { and, eq, isNull } from 'drizzle-orm';
+import { db } from '../db';
+import { recorders, type Recorder } from '../db/schema';
+import { hashToken } from '../tokens';
+import { readCsvBatch, readJsonBatch, closeSchema, openSchema, type BatchProblem } from './batch';
+import { MAX_BATCH_BYTES, MAX_BATCH_LABEL } from './config';
+import { toDeclaration } from './declaration';
+import { aircraftOf, closeByRecorder, LiveRefusal, openByRecorder, touchRecorder } from './flights';
+import { ingestBatch } from './ingest';
+
+export const RECORDER_TOKEN_PREFIX = 'bdr_';
+
+const unauthorized = () =>
+	json(
+		{ error: 'Unknown or revoked recorder token: send Authorization: Bearer bdr_… as shown when the recorder was registered.' },
+		{ status: 401, headers: { 'www-authenticate': 'Bearer realm="burndown-live"' } }
+	);
+
+/** The recorder a request's bearer token belongs to, if the token is current. */
+export async function recorderOf(request: Request): Promise<Recorder | null> {
+	const header = request.headers.get('authorization') ?? '';
+	const token = header.startsWith('Bearer ') ? header.slice(7).trim() : '';
+	if (!token.startsWith(RECORDER_TOKEN_PREFIX) || token.length > 200) return null;
+	const [r] = await db
+		.select()
+		.from(recorders)
+		.where(and(eq(recorders.tokenHash, hashToken(token)), isNull(recorders.revokedAt)))
+		.limit(1);
+	return r ?? null;
+}
+
+class BodyTooLarge extends Error {}
+
+/** The body as text, refusing more than `limit` bytes while it streams in. */
+async function readText(request: Request, limit: number): Promise<string> {
+	const declared = Number(request.headers.get('content-length') ?? NaN);
+	if (declared > limit) throw new BodyTooLarge();
+	if (!request.body) return '';
+	const reader = request.body.getReader();
+	const parts: Uint8Array[] = [];
+	let size = 0;
+	for (;;) {
+		const { done, value } = await reader.read();
+		if (done) break;
+		size += value.length;
+		if (size > limit) {
+			await reader.cancel().catch(() => {});
+			throw new BodyTooLarge();
+		}
+		parts.push(value);
+	}
+	const all = new Uint8Array(size);
+	let at = 0;
+	for (const p of parts) {
+		all.set(p, at);
+		at += p.length;
+	}
+	return new TextDecoder('utf-8', { fatal: true }).decode(all);
+}
+
+const tooLarge = () => json({ error: `The batch is larger than ${MAX_BATCH_LABEL}: send fewer samples per batch.`, field: 'body' }, { status: 413 });
+
+function refused(error: unknown): Response {
+	if (error instanceof LiveRefusal) return json(error.body, { status: error.status });
+	if (error instanceof BodyTooLarge) return tooLarge();
+	throw error;
+}
+
+async function jsonBody(request: Request): Promise<unknown> {
+	const text = await readText(request, MAX_BATCH_BYTES);
+	if (text.trim() === '') return {};
+	try {
+		return JSON.parse(text);
+	} catch (e) {
+		throw new LiveRefusal(400, { error: `The body is not valid JSON: ${(e as Error).message}`, field: 'body' });
+	}
+}
+
+const badBatch = (problems: BatchProblem[]) =>
+	json({ error: `The batch was not stored: ${problems.length === 1 ? 'one problem' : `${problems.length} problems`}. Nothing of it was stored.`, problems }, { status: 400 });
+
+/**
+ * POST /api/v1/live/samples. JSON ({ flightId?, firstSeq?, units?, samples: [...] }) or text/csv
+ * (a header line of our recorder format with its seq column, then sample lines; flightId and
+ * firstSeq in the query string). Answers the Ack of ingest.ts.
+ */
+export async function handleSamples(request: Request, url: URL): Promise<Response> {
+	const recorder = await recorderOf(request);
+	if (!recorder) return unauthorized();
+	try {
+		await touchRecorder(recorder.id);
+		const a = await aircraftOf(db, recorder);
+		const type = (request.headers.get('content-type') ?? '').split(';')[0].trim().toLowerCase();
+		let result;
+		if (type === 'text/csv' || type === 'text/plain') {
+			const flightId = url.searchParams.get('flightId');
+			const firstSeq = Number(url.searchParams.get('firstSeq') ?? 0);
+			if (flightId !== null && !/^[0-9a-f-]{36}$/i.test(flightId)) return json({ error: 'flightId must be the id an earlier answer gave.', field: 'flightId' }, { status: 400 });
+			if (!Number.isInteger(firstSeq) || firstSeq < 0) return json({ error: 'firstSeq must be a whole number, 0 or more.', field: 'firstSeq' }, { status: 400 });
+			result = readCsvBatch(await readText(request, MAX_BATCH_BYTES), { flightId, firstSeq, densityKgPerL: a.densityKgPerL });
+		} else if (type === 'application/json' || type === '') {
+			result = readJsonBatch(await jsonBody(request), a.densityKgPerL);
+		} else {
+			return json({ error: `Send the batch as application/json or text/csv (got ${type}).`, field: 'content-type' }, { status: 415 });
+		}
+		if (!result.ok) return badBatch(result.problems);
+		return json(await ingestBatch(recorder, result.batch));
+	} catch (error) {
+		return refused(error);
+	}
+}
+
+/** POST /api/v1/live/open: { declaration?, firstSeq?, title?, pilot? } → 201 { flightId, … }. */
+export async function handleOpen(request: Request): Promise<Response> {
+	const recorder = await recorderOf(request);
+	if (!recorder) return unauthorized();
+	try {
+		await touchRecorder(recorder.id);
+		const parsed = openSchema.safeParse(await jsonBody(request));
+		if (!parsed.success)
+			return json(
+				{ error: 'The open request was not understood.', problems: parsed.error.issues.map((i) => ({ field: i.path.join('.'), message: i.message })) },
+				{ status: 400 }
+			);
+		const a = await aircraftOf(db, recorder);
+		const o = parsed.data;
+		const { flight, closedFlightId } = await openByRecorder(recorder, {
+			declaration: o.declaration ? toDeclaration(o.declaration, a) : null,
+			firstSeq: o.firstSeq,
+			title: o.title,
+			pilot: o.pilot
+		});
+		return json(
+			{ flightId: flight.id, firstSeq: flight.lastSeq + 1, declarationConfirmed: flight.declarationConfirmed, closedFlightId },
+			{ status: 201 }
+		);
+	} catch (error) {
+		return refused(error);
+	}
+}
+
+/** POST /api/v1/live/close: { flightId? } → { flightId, closed }. */
+export async function handleClose(request: Request): Promise<Response> {
+	const recorder = await recorderOf(request);
+	if (!recorder) return unauthorized();
+	try {
+		await touchRecorder(recorder.id);
+		const parsed = closeSchema.safeParse(await jsonBody(request));
+		if (!parsed.success) return json({ error: 'flightId must be the id an earlier answer gave.', field: 'flightId' }, { status: 400 });
+		return json(await closeByRecorder(recorder, parsed.data.flightId));
+	} catch (error) {
+		return refused(error);
+	}
+}

@@ -1,0 +1,35 @@
+// The numbers that shape live flights: batch limits, the idle time after which an open flight
+// closes by itself, pings and page sizes. Each can be set from the environment; the defaults are
+// our choice and documented in the README's live section.
+
+const num = (name: string, fallback: number, min: number, max: number): number => {
+	const raw = process.env[name];
+	const v = raw === undefined || raw === '' ? NaN : Number(raw);
+	return Number.isFinite(v) && v >= min && v <= max ? v : fallback;
+};
+
+/** Most samples one batch may carry: at 1 Hz that is over 16 minutes of a backlog per request. */
+export const MAX_BATCH_SAMPLES = 1000;
+/** Largest request body of a batch (JSON or CSV), well under adapter-node's own limit. */
+export const MAX_BATCH_BYTES = 512 * 1024;
+export const MAX_BATCH_LABEL = '512 KiB';
+
+/**
+ * An open live flight with no batch received for this long is closed by the sweeper: longer than
+ * a link outage over open country (the recorder sends its backlog when it reconnects), short
+ * enough that a flight forgotten at shutdown closes before the next one the same day.
+ */
+export function idleCloseMinutes(): number {
+	return num('LIVE_IDLE_CLOSE_MINUTES', 30, 1, 24 * 60);
+}
+/** How often each instance's sweeper looks for idle flights. */
+export function sweepIntervalMs(): number {
+	return num('LIVE_SWEEP_SECONDS', 60, 1, 3600) * 1000;
+}
+
+/** Pings keep proxies from closing a quiet stream and let both ends notice a dead one. */
+export const PING_MS = 15_000;
+/** Samples read per query when a viewer catches up, and per SSE event. */
+export const PAGE_SAMPLES = 2000;
+/** A viewer is "caught up" within this many samples of the head; others are served by pages. */
+export const NEAR_HEAD = PAGE_SAMPLES;

@@ -1,0 +1,40 @@
+// Setting or correcting the declaration of a flight in progress (the pilot or an instructor on
+// the live page): stored, confirmed, alarms brought in line, and every viewer told to recompute.
+import { eq } from 'drizzle-orm';
+import type { Declaration } from '$lib/fuel';
+import { db } from '../db';
+import { aircraft, flights } from '../db/schema';
+import { mailAlarms, syncAlarms, type NewAlarm } from './alarms';
+import { computationFor, dropComputation } from './computation';
+import { lockFlight, notify } from './flights';
+
+export async function setLiveDeclaration(flightId: string, declaration: Declaration, previousOnBoardL: number | null): Promise<void> {
+	let toMail: NewAlarm[] = [];
+	try {
+		await db.transaction(async (tx) => {
+			await lockFlight(tx, flightId);
+			const [f] = await tx
+				.update(flights)
+				.set({ declaration, previousOnBoardL, declarationConfirmed: true, updatedAt: new Date() })
+				.where(eq(flights.id, flightId))
+				.returning();
+			if (!f) return;
+			if (f.status === 'open' && f.source === 'live') {
+				const [a] = await tx.select().from(aircraft).where(eq(aircraft.id, f.aircraftId));
+				const computed = await computationFor(tx, f, a);
+				toMail = (await syncAlarms(tx, f, computed)).toMail;
+			}
+			await notify(tx, { f: f.id, s: f.lastSeq, at: Date.now(), m: 1 });
+		});
+	} catch (error) {
+		dropComputation(flightId);
+		throw error;
+	}
+	if (toMail.length > 0) void mailAlarms(flightId, toMail).catch((error) => console.error('[live] alarm mail failed:', error));
+}
+
+/** Tells every instance's viewers that the flight changed (an acknowledgement, a watch). */
+export async function announceChange(flightId: string): Promise<void> {
+	const [f] = await db.select({ lastSeq: flights.lastSeq }).from(flights).where(eq(flights.id, flightId));
+	if (f) await notify(db, { f: flightId, s: f.lastSeq, at: Date.now(), m: 1 });
+}

@@ -1,0 +1,311 @@
+// Fan-out of live samples to this instance's viewers. One dedicated LISTEN connection per
+// instance (reconnecting, with a heartbeat) hears the NOTIFY each committed batch sends; the hub
+// then reads the new samples once per flight and hands every viewer exactly the run after its own
+// cursor. A viewer's cursor only moves by whole contiguous runs, so nothing is lost or repeated.
+import pg from 'pg';
+import { NEAR_HEAD, PAGE_SAMPLES } from './config';
+import { loadMeta, type FlightMeta } from './meta';
+import { EVENT_META, EVENT_SAMPLES, NOTIFY_CHANNEL, type LiveNotice, type MetaEvent, type SamplesEvent } from './protocol';
+import { readRun, type SampleRun } from './samples';
+
+/** One connected viewer: its cursor (last sequence delivered) and how to send it an event. */
+interface Viewer {
+	cursor: number;
+	/** False once the connection is gone. */
+	send(event: string, data: string): boolean;
+}
+
+interface FlightState {
+	id: string;
+	/** Highest contiguous sequence known to be committed. */
+	head: number;
+	/** Commit time of the newest batch heard of (epoch ms). */
+	at: number;
+	viewers: Set<Viewer>;
+	meta: FlightMeta | null;
+	metaJson: string;
+	metaDirty: boolean;
+	ready: Promise<void>;
+	pumping: boolean;
+	again: boolean;
+}
+
+export interface HubOptions {
+	connectionString?: string;
+	/** A name in log lines, so two hubs in one test process can be told apart. */
+	name?: string;
+	heartbeatMs?: number;
+}
+
+export interface HubStats {
+	flights: number;
+	viewers: number;
+	listening: boolean;
+	notices: number;
+	reconnects: number;
+	queries: number;
+}
+
+let metaVersion = 0;
+
+export class LiveHub {
+	private flights = new Map<string, FlightState>();
+	private client: pg.Client | null = null;
+	private connecting: Promise<void> | null = null;
+	private retryMs = 250;
+	private retryTimer: ReturnType<typeof setTimeout> | null = null;
+	private heartbeat: ReturnType<typeof setInterval> | null = null;
+	private stopped = false;
+	private everConnected = false;
+	private counters = { notices: 0, reconnects: 0, queries: 0 };
+
+	constructor(private readonly options: HubOptions = {}) {}
+
+	stats(): HubStats {
+		let viewers = 0;
+		for (const f of this.flights.values()) viewers += f.viewers.size;
+		return { flights: this.flights.size, viewers, listening: this.client !== null, ...this.counters };
+	}
+
+	/**
+	 * Adds a viewer of `flightId` that has seen everything up to `after`. It gets the flight's meta
+	 * at once, then every sample after its cursor, as catch-up pages and then live runs. Returns
+	 * the function that removes it.
+	 */
+	async subscribe(flightId: string, after: number, send: Viewer['send']): Promise<() => void> {
+		if (this.stopped) throw new Error('The live hub is stopped.');
+		// Listen first: a batch committed between reading the head and listening would be missed.
+		await this.listen();
+		let fs = this.flights.get(flightId);
+		if (!fs) {
+			const created: FlightState = {
+				id: flightId,
+				head: -1,
+				at: 0,
+				viewers: new Set(),
+				meta: null,
+				metaJson: '',
+				metaDirty: false,
+				ready: Promise.resolve(),
+				pumping: false,
+				again: false
+			};
+			created.ready = this.refreshMeta(created).catch((error) => {
+				// A failed first read must not leave a broken entry for the next viewer.
+				if (this.flights.get(flightId) === created) this.flights.delete(flightId);
+				throw error;
+			});
+			this.flights.set(flightId, created);
+			fs = created;
+		}
+		await fs.ready;
+		const state = fs;
+		const viewer: Viewer = { cursor: after, send };
+		state.viewers.add(viewer);
+		if (state.metaJson) viewer.send(EVENT_META, state.metaJson);
+		this.pump(state);
+		return () => {
+			state.viewers.delete(viewer);
+			if (state.viewers.size === 0 && this.flights.get(state.id) === state) this.flights.delete(state.id);
+		};
+	}
+
+	private async refreshMeta(fs: FlightState): Promise<void> {
+		this.counters.queries++;
+		const meta = await loadMeta(fs.id);
+		fs.meta = meta;
+		if (!meta) return;
+		if (meta.flight.lastSeq > fs.head) fs.head = meta.flight.lastSeq;
+		const event: MetaEvent = { v: ++metaVersion, serverTime: Date.now(), ...meta };
+		fs.metaJson = JSON.stringify(event);
+	}
+
+	private onNotice(payload: string | undefined): void {
+		let n: LiveNotice;
+		try {
+			n = JSON.parse(payload ?? '');
+		} catch {
+			return;
+		}
+		this.counters.notices++;
+		const fs = this.flights.get(n.f);
+		if (!fs) return;
+		if (n.s > fs.head) fs.head = n.s;
+		if (n.at > fs.at) fs.at = n.at;
+		if (n.m) fs.metaDirty = true;
+		this.pump(fs);
+	}
+
+	/** Runs delivery rounds for a flight until every viewer is at the head; one at a time. */
+	private pump(fs: FlightState): void {
+		if (fs.pumping) {
+			fs.again = true;
+			return;
+		}
+		fs.pumping = true;
+		void (async () => {
+			try {
+				do {
+					fs.again = false;
+					if (fs.metaDirty) {
+						fs.metaDirty = false;
+						await this.refreshMeta(fs);
+						for (const v of fs.viewers) if (!v.send(EVENT_META, fs.metaJson)) fs.viewers.delete(v);
+					}
+					await this.catchUp(fs);
+				} while ((fs.again || fs.metaDirty) && fs.viewers.size > 0);
+			} catch (error) {
+				console.error(`[live${this.options.name ? ` ${this.options.name}` : ''}] delivery for flight ${fs.id} failed:`, (error as Error).message);
+				// Try again shortly: the cursors did not move, so nothing is lost.
+				setTimeout(() => this.pump(fs), 1000).unref?.();
+			} finally {
+				fs.pumping = false;
+			}
+		})();
+	}
+
+	private async catchUp(fs: FlightState): Promise<void> {
+		for (;;) {
+			let lowNear = Infinity;
+			let lowFar = Infinity;
+			for (const v of fs.viewers) {
+				if (v.cursor >= fs.head) continue;
+				if (v.cursor >= fs.head - NEAR_HEAD) lowNear = Math.min(lowNear, v.cursor);
+				else lowFar = Math.min(lowFar, v.cursor);
+			}
+			// Viewers near the head first (one query serves them all), then one page for the
+			// furthest behind; the loop comes back to the near ones before the next far page.
+			const from = lowNear !== Infinity ? lowNear : lowFar;
+			if (from === Infinity) return;
+			this.counters.queries++;
+			const run = await readRun(fs.id, from, fs.head, PAGE_SAMPLES);
+			if (run.seq.length === 0 || run.seq[0] !== from + 1) return;
+			this.deliver(fs, run);
+		}
+	}
+
+	/** Hands each viewer the part of a contiguous run that starts right after its cursor. */
+	private deliver(fs: FlightState, run: SampleRun): void {
+		const first = run.seq[0];
+		let n = run.seq.length;
+		for (let i = 1; i < n; i++)
+			if (run.seq[i] !== first + i) {
+				n = i;
+				break;
+			}
+		const last = first + n - 1;
+		// Viewers at the same cursor share one serialised payload.
+		const payloads = new Map<number, string>();
+		for (const v of fs.viewers) {
+			const start = v.cursor + 1;
+			if (start < first || start > last) continue;
+			let data = payloads.get(start);
+			if (data === undefined) {
+				const a = start - first;
+				const tMs = run.tMs.slice(a, n);
+				const t0Ms = tMs[0];
+				const event: SamplesEvent = {
+					from: start,
+					to: last,
+					at: fs.at,
+					t0Ms,
+					tMs: tMs.map((t) => t - t0Ms),
+					flow: run.flow.slice(a, n),
+					gs: run.gs.slice(a, n),
+					dtg: run.dtg.slice(a, n),
+					alt: run.alt.slice(a, n),
+					wpt: run.wpt.slice(a, n)
+				};
+				data = JSON.stringify(event);
+				payloads.set(start, data);
+			}
+			if (v.send(EVENT_SAMPLES, data)) v.cursor = last;
+			else fs.viewers.delete(v);
+		}
+	}
+
+	// ---- the LISTEN connection --------------------------------------------------------------
+
+	/** Resolves once listening, or once a first attempt failed (a retry is then scheduled). */
+	private listen(): Promise<void> {
+		if (this.client || this.stopped) return Promise.resolve();
+		this.connecting ??= this.connect().finally(() => {
+			this.connecting = null;
+		});
+		return this.connecting;
+	}
+
+	private async connect(): Promise<void> {
+		const client = new pg.Client({ connectionString: this.options.connectionString ?? process.env.DATABASE_URL, keepAlive: true });
+		client.on('notification', (m) => {
+			if (m.channel === NOTIFY_CHANNEL) this.onNotice(m.payload);
+		});
+		client.on('error', (error) => this.lost(client, error));
+		client.on('end', () => this.lost(client));
+		try {
+			await client.connect();
+			await client.query(`LISTEN ${NOTIFY_CHANNEL}`);
+		} catch (error) {
+			client.removeAllListeners('end');
+			client.end().catch(() => {});
+			this.scheduleReconnect(error as Error);
+			return;
+		}
+		if (this.stopped) {
+			await client.end().catch(() => {});
+			return;
+		}
+		this.client = client;
+		this.retryMs = 250;
+		const reconnected = this.everConnected;
+		this.everConnected = true;
+		this.heartbeat = setInterval(() => {
+			client.query('select 1').catch((error) => this.lost(client, error));
+		}, this.options.heartbeatMs ?? 20_000);
+		this.heartbeat.unref?.();
+		if (reconnected) {
+			this.counters.reconnects++;
+			// Batches committed while we were not listening: re-read each watched flight's head.
+			for (const fs of this.flights.values()) {
+				fs.metaDirty = true;
+				this.pump(fs);
+			}
+		}
+	}
+
+	private lost(client: pg.Client, error?: Error): void {
+		if (this.client !== client) return;
+		this.client = null;
+		if (this.heartbeat) clearInterval(this.heartbeat);
+		this.heartbeat = null;
+		client.end().catch(() => {});
+		this.scheduleReconnect(error);
+	}
+
+	private scheduleReconnect(error?: Error): void {
+		if (this.stopped || this.retryTimer) return;
+		if (error) console.error(`[live${this.options.name ? ` ${this.options.name}` : ''}] LISTEN connection lost (${error.message}); retrying in ${this.retryMs} ms`);
+		this.retryTimer = setTimeout(() => {
+			this.retryTimer = null;
+			void this.listen();
+		}, this.retryMs);
+		this.retryTimer.unref?.();
+		this.retryMs = Math.min(this.retryMs * 2, 10_000);
+	}
+
+	/** For tests: drops the LISTEN connection as a network failure would. */
+	simulateConnectionLoss(): void {
+		const c = this.client;
+		if (c) this.lost(c, new Error('simulated connection loss'));
+	}
+
+	async stop(): Promise<void> {
+		this.stopped = true;
+		if (this.retryTimer) clearTimeout(this.retryTimer);
+		if (this.heartbeat) clearInterval(this.heartbeat);
+		const c = this.client;
+		this.client = null;
+		this.flights.clear();
+		if (c) await c.end().catch(() => {});
+	}
+}

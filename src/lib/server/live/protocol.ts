@@ -1,0 +1,84 @@
+// The live wire formats: the NOTIFY payload one app instance sends the others after a batch
+// commits, and the server-sent events a viewer receives. The browser imports these as types only
+// (import type), so nothing server-side reaches it.
+import type { Declaration } from '$lib/fuel';
+import type { PayloadEvent } from '$lib/components/replay/payload';
+
+/** The one PostgreSQL channel every app instance LISTENs on. */
+export const NOTIFY_CHANNEL = 'burndown_live';
+
+/**
+ * NOTIFY payload, kept small (PostgreSQL caps it at 8000 bytes): the flight, its highest
+ * contiguous sequence after the commit, the commit time in epoch ms, and m=1 when something
+ * other than samples changed (declaration, status, alarms), so viewers re-read the flight.
+ */
+export interface LiveNotice {
+	f: string;
+	s: number;
+	at: number;
+	m?: 1;
+}
+
+/** First event of every stream. */
+export interface HelloEvent {
+	flightId: string;
+	/** The cursor this connection resumes after: samples with seq > after follow. */
+	after: number;
+	serverTime: number;
+}
+
+/**
+ * A run of samples. `from` is always the receiving connection's cursor + 1 and the sequence
+ * numbers run from..to without holes, so a client that keeps `to` as its cursor never loses or
+ * repeats a sample. Times are integer ms after t0Ms (exact); null = not recorded.
+ */
+export interface SamplesEvent {
+	from: number;
+	to: number;
+	/** Commit time (epoch ms) of the newest batch included, for latency figures. */
+	at: number;
+	t0Ms: number;
+	tMs: number[];
+	flow: (number | null)[];
+	gs: (number | null)[];
+	dtg: (number | null)[];
+	alt: (number | null)[];
+	wpt: (string | null)[];
+}
+
+export interface WireAlarm {
+	id: string;
+	kind: 'lowFuel' | 'lowEndurance' | 'negativeReserve';
+	/** Epoch seconds, as the engine's AlarmEpisode. */
+	raisedAt: number;
+	clearedAt: number | null;
+	value: number | null;
+	emailed: boolean;
+}
+
+/** Everything about the flight but its samples; sent on connect and after every change. */
+export interface MetaEvent {
+	/** Changes on every send, so no client ever sees two identical payloads. */
+	v: number;
+	serverTime: number;
+	flight: {
+		id: string;
+		title: string;
+		status: 'open' | 'closed';
+		startedAt: string;
+		endedAt: string | null;
+		lastSeq: number;
+		/** When the server last stored samples for this flight (epoch ms). */
+		receivedAt: number | null;
+		declarationConfirmed: boolean;
+	};
+	declaration: Declaration;
+	previousOnBoardL: number | null;
+	events: PayloadEvent[];
+	alarms: WireAlarm[];
+}
+
+/** Event names on the stream (sveltekit-sse adds its own `ping`). */
+export const EVENT_HELLO = 'hello';
+export const EVENT_META = 'meta';
+export const EVENT_SAMPLES = 'samples';

@@ -1,0 +1,143 @@
+// The samples table as the live path uses it: storing a batch once whatever the retries, the
+// highest contiguous sequence (what a recorder is acknowledged and what viewers may see), the
+// stored neighbours a batch must fit between in time, and reading sequence ranges back.
+import { sql } from 'drizzle-orm';
+import { WPT_NONE, type SampleColumns } from '$lib/fuel';
+import { db, type Db, type Tx } from '../db';
+import type { LiveSample } from './batch';
+
+export type Queryable = Db | Tx;
+
+/** Inserts the batch's samples that are not stored yet; returns how many were new. */
+export async function insertSamples(q: Queryable, flightId: string, samples: readonly LiveSample[]): Promise<number> {
+	const col = <T>(f: (s: LiveSample) => T) => sql.param(samples.map(f));
+	// One statement with array parameters (unnest): ten parameters whatever the batch size.
+	const result = await q.execute(sql`
+		insert into samples (flight_id, seq, t, flow, gs, dtg, wpt, lat, lon, alt)
+		select ${flightId}::uuid, u.* from unnest(
+			${col((s) => s.seq)}::int[],
+			${col((s) => new Date(s.tMs).toISOString())}::timestamptz[],
+			${col((s) => s.flow)}::float8[],
+			${col((s) => s.gs)}::float8[],
+			${col((s) => s.dtg)}::float8[],
+			${col((s) => s.wpt)}::text[],
+			${col((s) => s.lat)}::float8[],
+			${col((s) => s.lon)}::float8[],
+			${col((s) => s.alt)}::float8[]
+		) as u
+		on conflict (flight_id, seq) do nothing`);
+	return result.rowCount ?? 0;
+}
+
+/**
+ * The highest sequence s such that every sequence from the flight's start up to s is stored,
+ * given that everything up to `known` already is. Walks forward from known + 1 over the primary
+ * key: the first stored sequence whose successor is missing ends the run.
+ */
+export async function contiguousFrom(q: Queryable, flightId: string, known: number): Promise<number> {
+	const result = await q.execute<{ s: number | null }>(sql`
+		select case
+			when not exists (select 1 from samples where flight_id = ${flightId} and seq = ${known + 1}) then ${known}
+			else (
+				select min(a.seq) from samples a
+				where a.flight_id = ${flightId} and a.seq > ${known}
+					and not exists (select 1 from samples b where b.flight_id = ${flightId} and b.seq = a.seq + 1)
+			)
+		end as s`);
+	return Number(result.rows[0]?.s ?? known);
+}
+
+export interface Neighbours {
+	/** The stored sample just below the batch's first sequence, if any. */
+	below: { seq: number; tMs: number } | null;
+	above: { seq: number; tMs: number } | null;
+	/** Stored samples with the batch's own sequence numbers (retries), seq → epoch ms. */
+	same: Map<number, number>;
+	/** The highest sequence stored at all (beyond holes too). */
+	highest: number;
+}
+
+/** What is stored around and inside the sequence range lo..hi. */
+export async function neighbours(q: Queryable, flightId: string, lo: number, hi: number): Promise<Neighbours> {
+	const ms = sql`(extract(epoch from t) * 1000)::float8`;
+	const result = await q.execute<{ k: string; seq: number; ms: number }>(sql`
+		(select 'b' as k, seq, ${ms} as ms from samples where flight_id = ${flightId} and seq < ${lo} order by seq desc limit 1)
+		union all
+		(select 'a', seq, ${ms} from samples where flight_id = ${flightId} and seq > ${hi} order by seq limit 1)
+		union all
+		(select 's', seq, ${ms} from samples where flight_id = ${flightId} and seq between ${lo} and ${hi})
+		union all
+		(select 'h', seq, 0 from samples where flight_id = ${flightId} order by seq desc limit 1)`);
+	const out: Neighbours = { below: null, above: null, same: new Map(), highest: -1 };
+	for (const r of result.rows) {
+		const seq = Number(r.seq);
+		const tMs = Math.round(Number(r.ms));
+		if (r.k === 'b') out.below = { seq, tMs };
+		else if (r.k === 'a') out.above = { seq, tMs };
+		else if (r.k === 's') out.same.set(seq, tMs);
+		else out.highest = seq;
+	}
+	return out;
+}
+
+/** Samples with after < seq ≤ upTo in sequence order, at most `limit`, as rows for the wire. */
+export interface SampleRun {
+	seq: number[];
+	tMs: number[];
+	flow: (number | null)[];
+	gs: (number | null)[];
+	dtg: (number | null)[];
+	alt: (number | null)[];
+	wpt: (string | null)[];
+}
+
+export async function readRun(flightId: string, after: number, upTo: number, limit: number, q: Queryable = db): Promise<SampleRun> {
+	const result = await q.execute<{ seq: number; ms: number; flow: number | null; gs: number | null; dtg: number | null; alt: number | null; wpt: string | null }>(sql`
+		select seq, (extract(epoch from t) * 1000)::float8 as ms, flow, gs, dtg, alt, wpt
+		from samples where flight_id = ${flightId} and seq > ${after} and seq <= ${upTo}
+		order by seq limit ${limit}`);
+	const run: SampleRun = { seq: [], tMs: [], flow: [], gs: [], dtg: [], alt: [], wpt: [] };
+	for (const r of result.rows) {
+		run.seq.push(Number(r.seq));
+		run.tMs.push(Math.round(Number(r.ms)));
+		run.flow.push(r.flow);
+		run.gs.push(r.gs);
+		run.dtg.push(r.dtg);
+		run.alt.push(r.alt);
+		run.wpt.push(r.wpt);
+	}
+	return run;
+}
+
+/**
+ * A run as engine columns. Waypoint names become ids in order of first appearance, continuing
+ * `ids` across calls, the same numbering the replay loader ($lib/server/flights/load) gives.
+ */
+export function runColumns(run: SampleRun, ids: Map<string, number>): SampleColumns {
+	const n = run.seq.length;
+	const t = new Float64Array(n);
+	const flow = new Float64Array(n);
+	const gs = new Float64Array(n);
+	const dtg = new Float64Array(n);
+	const alt = new Float64Array(n);
+	const wpt = new Int32Array(n);
+	const num = (v: number | null) => (v === null ? NaN : v);
+	for (let i = 0; i < n; i++) {
+		t[i] = run.tMs[i] / 1000;
+		flow[i] = num(run.flow[i]);
+		gs[i] = num(run.gs[i]);
+		dtg[i] = num(run.dtg[i]);
+		alt[i] = num(run.alt[i]);
+		const w = run.wpt[i];
+		if (w === null || w === '') wpt[i] = WPT_NONE;
+		else {
+			let id = ids.get(w);
+			if (id === undefined) {
+				id = ids.size;
+				ids.set(w, id);
+			}
+			wpt[i] = id;
+		}
+	}
+	return { t, flow, gs, dtg, alt, wpt };
+}

@@ -1,0 +1,12 @@
+// A live flight's server-sent events for a member who may view it: ?after=<last seq held> resumes
+// exactly after the client's cursor. GET for EventSource and curl, POST for sveltekit-sse's client.
+import { requireFlightById } from '$lib/server/access';
+import { liveHub, liveStream, parseAfter } from '$lib/server/live';
+import type { RequestHandler } from './$types';
+
+export const GET: RequestHandler = async (event) => {
+	const { flight } = await requireFlightById(event, event.params.id, 'view');
+	return liveStream(liveHub(), flight.id, parseAfter(event.url.searchParams.get('after')));
+};
+
+export const POST = GET;

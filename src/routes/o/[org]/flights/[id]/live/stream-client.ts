@@ -1,0 +1,185 @@
+// The live page's connection to the flight's event stream, in the browser and in Node (the
+// integration tests drive this same code). It keeps the cursor (last sequence held) itself and
+// reconnects with ?after=<cursor> after any drop or server restart, so it never loses or repeats
+// a sample; a watchdog reconnects when even the pings stop (a dead link looks like silence).
+import type { HelloEvent, MetaEvent, SamplesEvent } from '$lib/server/live/protocol';
+
+export type StreamStatus = 'connecting' | 'open' | 'reconnecting' | 'denied' | 'closed';
+
+export interface LiveStreamOptions {
+	/** The stream URL without the query string, e.g. /api/v1/flights/<id>/stream. */
+	url: string;
+	/** Last sequence already held; -1 for none. */
+	after?: number;
+	fetch?: typeof fetch;
+	headers?: Record<string, string>;
+	onHello?: (hello: HelloEvent) => void;
+	onMeta?: (meta: MetaEvent) => void;
+	/** Runs that continue exactly from the previous cursor: from === previous to + 1. */
+	onSamples?: (run: SamplesEvent) => void;
+	onStatus?: (status: StreamStatus, detail?: string) => void;
+	/** No bytes at all for this long (pings come every 15 s) means the link is dead. */
+	watchdogMs?: number;
+	minRetryMs?: number;
+	maxRetryMs?: number;
+}
+
+export interface LiveStream {
+	readonly cursor: number;
+	/** Connections opened so far (1 + reconnects). */
+	readonly connections: number;
+	/** Drops the current connection and reconnects from the cursor (e.g. the tab came back). */
+	reconnect(): void;
+	close(): void;
+}
+
+/** Splits SSE text into events; returns the unparsed rest. */
+function parseEvents(buffer: string, dispatch: (event: string, data: string) => void): string {
+	for (;;) {
+		const m = /\r?\n\r?\n/.exec(buffer);
+		if (!m) return buffer;
+		const block = buffer.slice(0, m.index);
+		buffer = buffer.slice(m.index + m[0].length);
+		let event = 'message';
+		const data: string[] = [];
+		for (const line of block.split(/\r?\n/)) {
+			if (line === '' || line.startsWith(':')) continue;
+			const colon = line.indexOf(':');
+			const field = colon < 0 ? line : line.slice(0, colon);
+			let value = colon < 0 ? '' : line.slice(colon + 1);
+			if (value.startsWith(' ')) value = value.slice(1);
+			if (field === 'event') event = value;
+			else if (field === 'data') data.push(value);
+		}
+		dispatch(event, data.join('\n'));
+	}
+}
+
+export function openLiveStream(o: LiveStreamOptions): LiveStream {
+	const doFetch = o.fetch ?? fetch;
+	const watchdogMs = o.watchdogMs ?? 45_000;
+	const minRetry = o.minRetryMs ?? 500;
+	const maxRetry = o.maxRetryMs ?? 8000;
+	let cursor = o.after ?? -1;
+	let closed = false;
+	let connections = 0;
+	let current: AbortController | null = null;
+	let wake: (() => void) | null = null;
+
+	const status = (s: StreamStatus, detail?: string) => o.onStatus?.(s, detail);
+
+	/** Returns false when the connection must be dropped (a hole: reconnect from the cursor). */
+	const dispatch = (event: string, data: string): boolean => {
+		if (event === 'samples') {
+			const run = JSON.parse(data) as SamplesEvent;
+			if (run.to <= cursor) return true;
+			if (run.from > cursor + 1) return false;
+			const cut = cursor + 1 - run.from;
+			const part: SamplesEvent =
+				cut === 0
+					? run
+					: {
+							...run,
+							from: cursor + 1,
+							t0Ms: run.t0Ms + run.tMs[cut],
+							tMs: run.tMs.slice(cut).map((t) => t - run.tMs[cut]),
+							flow: run.flow.slice(cut),
+							gs: run.gs.slice(cut),
+							dtg: run.dtg.slice(cut),
+							alt: run.alt.slice(cut),
+							wpt: run.wpt.slice(cut)
+						};
+			cursor = run.to;
+			o.onSamples?.(part);
+		} else if (event === 'meta') o.onMeta?.(JSON.parse(data) as MetaEvent);
+		else if (event === 'hello') o.onHello?.(JSON.parse(data) as HelloEvent);
+		return true;
+	};
+
+	async function once(): Promise<'retry' | 'stop'> {
+		const ctrl = new AbortController();
+		current = ctrl;
+		let timer: ReturnType<typeof setTimeout> | null = null;
+		const arm = () => {
+			if (timer) clearTimeout(timer);
+			timer = setTimeout(() => ctrl.abort(), watchdogMs);
+		};
+		try {
+			arm();
+			const sep = o.url.includes('?') ? '&' : '?';
+			const res = await doFetch(`${o.url}${sep}after=${cursor}`, {
+				headers: { accept: 'text/event-stream', ...o.headers },
+				signal: ctrl.signal,
+				cache: 'no-store'
+			});
+			if (res.status === 401 || res.status === 403 || res.status === 404) {
+				status('denied', `HTTP ${res.status}`);
+				return 'stop';
+			}
+			if (!res.ok || !res.body) throw new Error(`HTTP ${res.status}`);
+			connections++;
+			status('open');
+			const reader = res.body.pipeThrough(new TextDecoderStream()).getReader();
+			let buffer = '';
+			let ok = true;
+			for (;;) {
+				const { done, value } = await reader.read();
+				if (done) break;
+				arm();
+				buffer = parseEvents(buffer + value, (event, data) => {
+					if (ok && !dispatch(event, data)) ok = false;
+				});
+				if (!ok) break;
+			}
+			await reader.cancel().catch(() => {});
+			return 'retry';
+		} catch {
+			return closed ? 'stop' : 'retry';
+		} finally {
+			if (timer) clearTimeout(timer);
+			ctrl.abort();
+			current = null;
+		}
+	}
+
+	void (async () => {
+		let attempt = 0;
+		status('connecting');
+		while (!closed) {
+			const before = connections;
+			const outcome = await once();
+			if (outcome === 'stop' || closed) break;
+			// A connection that opened resets the back-off; refusals and resets back off more.
+			attempt = connections > before ? 0 : attempt + 1;
+			status('reconnecting');
+			const delay = Math.min(maxRetry, minRetry * 2 ** Math.min(attempt, 6)) * (0.75 + Math.random() * 0.5);
+			await new Promise<void>((resolve) => {
+				const t = setTimeout(resolve, delay);
+				wake = () => {
+					clearTimeout(t);
+					resolve();
+				};
+			});
+			wake = null;
+		}
+		if (closed) status('closed');
+	})();
+
+	return {
+		get cursor() {
+			return cursor;
+		},
+		get connections() {
+			return connections;
+		},
+		reconnect() {
+			current?.abort();
+			wake?.();
+		},
+		close() {
+			closed = true;
+			current?.abort();
+			wake?.();
+		}
+	};
+}
