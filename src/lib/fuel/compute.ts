@@ -9,25 +9,23 @@ import type { EngineWarning, FlightComputation, FlightInput, SampleColumns } fro
  * with a warning naming each column's length.
  */
 export function columnLength(cols: SampleColumns, warnings: EngineWarning[]): number {
-	const lengths: [string, number][] = [
-		['t', cols.t?.length ?? 0],
-		['flow', cols.flow?.length ?? 0],
-		['gs', cols.gs?.length ?? 0],
-		['dtg', cols.dtg?.length ?? 0]
-	];
-	if (cols.alt) lengths.push(['alt', cols.alt.length]);
-	if (cols.wpt) lengths.push(['wpt', cols.wpt.length]);
-	let n = Infinity;
-	let max = 0;
-	for (const [, len] of lengths) {
-		if (len < n) n = len;
-		if (len > max) max = len;
-	}
-	if (n !== max)
+	const t = cols.t?.length ?? 0;
+	const flow = cols.flow?.length ?? 0;
+	const gs = cols.gs?.length ?? 0;
+	const dtg = cols.dtg?.length ?? 0;
+	const alt = cols.alt ? cols.alt.length : t;
+	const wpt = cols.wpt ? cols.wpt.length : t;
+	const n = Math.min(t, flow, gs, dtg, alt, wpt);
+	// Live flights call this for every chunk, so the common case allocates nothing.
+	if (n !== Math.max(t, flow, gs, dtg, alt, wpt)) {
+		const lengths = [`t ${t}`, `flow ${flow}`, `gs ${gs}`, `dtg ${dtg}`];
+		if (cols.alt) lengths.push(`alt ${alt}`);
+		if (cols.wpt) lengths.push(`wpt ${wpt}`);
 		warnings.push({
 			code: 'columnLengthMismatch',
-			message: `Sample columns differ in length (${lengths.map(([k, len]) => `${k} ${len}`).join(', ')}); using the first ${n} samples.`
+			message: `Sample columns differ in length (${lengths.join(', ')}); using the first ${n} samples.`
 		});
+	}
 	return n;
 }
 

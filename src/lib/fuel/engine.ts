@@ -299,7 +299,9 @@ export function runKernel(s: EngineState, cols: SampleColumns, out: Outputs, fro
 	const nEv = events.length;
 	const gap = s.gap;
 	const ph = s.phase;
-	const [alarmFuel, alarmEndurance, alarmReserve] = s.alarmTracks;
+	const alarmFuel = s.alarmTracks[0];
+	const alarmEndurance = s.alarmTracks[1];
+	const alarmReserve = s.alarmTracks[2];
 	const episodes = s.alarms;
 	// NaN (alarm off) never compares below, so an off alarm costs nothing here.
 	const fuelThreshold = alarmFuel.threshold;
@@ -335,6 +337,8 @@ export function runKernel(s: EngineState, cols: SampleColumns, out: Outputs, fro
 	let anchorOnBoard = s.anchorOnBoard;
 	let anchorUsed = s.anchorUsed;
 	let eventIdx = s.eventIdx;
+	// Events are sorted: one compare per sample against the next one's time.
+	let nextEventT = eventIdx < nEv ? events[eventIdx].t : Infinity;
 	let alarmBits = s.alarmBits;
 	let belowZeroWarned = s.belowZeroWarned;
 	let accepted = st.acceptedCount;
@@ -441,8 +445,9 @@ export function runKernel(s: EngineState, cols: SampleColumns, out: Outputs, fro
 			st.firstT = ti;
 		}
 
-		while (eventIdx < nEv && events[eventIdx].t <= ti) {
+		while (ti >= nextEventT) {
 			const ev = events[eventIdx++];
+			nextEventT = eventIdx < nEv ? events[eventIdx].t : Infinity;
 			const before = anchorOnBoard - (usedTotal - anchorUsed);
 			flags |= FLAG_EVENT;
 			if (ev.kind === 'resetUsed') {

@@ -62,6 +62,8 @@ class LiveFlight implements LiveComputation {
 	private alt: Float64Array | null = null;
 	private wpt: Int32Array | null = null;
 	private inputWarnings: EngineWarning[] = [];
+	/** The buffers as columns for the engine; rebuilt only when a buffer is replaced. */
+	private full: SampleColumns | null = null;
 
 	constructor(init: LiveInit) {
 		const { initialCapacity, ...inputs } = init;
@@ -94,9 +96,11 @@ class LiveFlight implements LiveComputation {
 	}
 
 	private fullColumns(): SampleColumns {
+		if (this.full) return this.full;
 		const cols: SampleColumns = { t: this.t, flow: this.flow, gs: this.gs, dtg: this.dtg };
 		if (this.alt) cols.alt = this.alt;
 		if (this.wpt) cols.wpt = this.wpt;
+		this.full = cols;
 		return cols;
 	}
 
@@ -123,6 +127,7 @@ class LiveFlight implements LiveComputation {
 		}
 		this.out = growOutputs(this.out, n, cap);
 		this.capacity = cap;
+		this.full = null;
 	}
 
 	append(chunk: SampleColumns): { from: number; to: number } {
@@ -136,11 +141,17 @@ class LiveFlight implements LiveComputation {
 		this.dtg.set(chunk.dtg.subarray(0, m), from);
 		// Optional columns may start part-way through a flight: earlier samples read as blank.
 		if (chunk.alt) {
-			if (!this.alt) this.alt = new Float64Array(this.capacity).fill(NaN);
+			if (!this.alt) {
+				this.alt = new Float64Array(this.capacity).fill(NaN);
+				this.full = null;
+			}
 			this.alt.set(chunk.alt.subarray(0, m), from);
 		} else if (this.alt) this.alt.fill(NaN, from, from + m);
 		if (chunk.wpt) {
-			if (!this.wpt) this.wpt = new Int32Array(this.capacity).fill(WPT_NONE);
+			if (!this.wpt) {
+				this.wpt = new Int32Array(this.capacity).fill(WPT_NONE);
+				this.full = null;
+			}
 			this.wpt.set(chunk.wpt.subarray(0, m), from);
 		} else if (this.wpt) this.wpt.fill(WPT_NONE, from, from + m);
 		runKernel(this.state, this.fullColumns(), this.out, from, from + m);
