@@ -7,7 +7,7 @@ import { randomBytes } from 'node:crypto';
 import { db } from '$lib/server/db';
 import { aircraft, apiTokens, memberships, organisations, recorders, users, watches, type Role } from '$lib/server/db/schema';
 import { hashToken, newToken } from '$lib/server/tokens';
-import { liveStream, parseAfter, type LiveHub } from '$lib/server/live';
+import { handleSamples, liveStream, parseAfter, type LiveHub } from '$lib/server/live';
 import { openLiveStream, type LiveStream } from '../../src/routes/o/[org]/flights/[id]/live/stream-client';
 import type { SamplesEvent, MetaEvent } from '$lib/server/live/protocol';
 import { POST as postSamples } from '../../src/routes/api/v1/live/samples/+server';
@@ -157,12 +157,21 @@ export interface Instance {
 
 /**
  * Serves GET /stream/<flightId>?after=n from `hub` through the same liveStream() the app route
- * returns (access checks are the route's and are tested against the route itself).
+ * returns (access checks are the route's and are tested against the route itself), and the
+ * recorder's POST /api/v1/live/samples through the same handler the app route calls.
  */
 export async function startInstance(hub: LiveHub, port = 0): Promise<Instance> {
 	const sockets = new Set<import('node:net').Socket>();
 	const server = http.createServer(async (req, res) => {
 		const url = new URL(req.url ?? '/', 'http://127.0.0.1');
+		if (req.method === 'POST' && url.pathname === '/api/v1/live/samples') {
+			const chunks: Buffer[] = [];
+			for await (const c of req) chunks.push(c as Buffer);
+			const request = new Request(url, { method: 'POST', headers: req.headers as Record<string, string>, body: Buffer.concat(chunks) });
+			const answer = await handleSamples(request, url);
+			res.writeHead(answer.status, { 'content-type': 'application/json' }).end(await answer.text());
+			return;
+		}
 		const m = /^\/stream\/([0-9a-f-]{36})$/.exec(url.pathname);
 		if (!m) {
 			res.writeHead(404).end();
@@ -210,6 +219,8 @@ export interface Viewer {
 	seqs: number[];
 	metas: MetaEvent[];
 	statuses: string[];
+	/** The cursor each connection asked to resume after (from its hello event). */
+	hellos: number[];
 	waitFor(seq: number, timeoutMs?: number): Promise<void>;
 }
 
@@ -217,6 +228,7 @@ export function viewer(url: string, after = -1, headers?: Record<string, string>
 	const seqs: number[] = [];
 	const metas: MetaEvent[] = [];
 	const statuses: string[] = [];
+	const hellos: number[] = [];
 	const stream = openLiveStream({
 		url,
 		after,
@@ -228,13 +240,15 @@ export function viewer(url: string, after = -1, headers?: Record<string, string>
 			if (run.tMs.length !== run.to - run.from + 1) throw new Error('run length does not match its range');
 		},
 		onMeta: (m) => metas.push(m),
-		onStatus: (s) => statuses.push(s)
+		onStatus: (s) => statuses.push(s),
+		onHello: (h) => hellos.push(h.after)
 	});
 	return {
 		stream,
 		seqs,
 		metas,
 		statuses,
+		hellos,
 		async waitFor(seq, timeoutMs = 10_000) {
 			const deadline = Date.now() + timeoutMs;
 			while (stream.cursor < seq) {

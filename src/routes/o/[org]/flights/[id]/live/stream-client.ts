@@ -28,6 +28,13 @@ export interface LiveStream {
 	readonly cursor: number;
 	/** Connections opened so far (1 + reconnects). */
 	readonly connections: number;
+	/**
+	 * Samples the server sent that this client already held (dropped), and runs that skipped
+	 * ahead of the cursor (the connection is then reopened from the cursor). Both stay 0 when the
+	 * server keeps the protocol; the tests and the live benchmark check it.
+	 */
+	readonly repeated: number;
+	readonly skipped: number;
 	/** Drops the current connection and reconnects from the cursor (e.g. the tab came back). */
 	reconnect(): void;
 	close(): void;
@@ -63,6 +70,8 @@ export function openLiveStream(o: LiveStreamOptions): LiveStream {
 	let cursor = o.after ?? -1;
 	let closed = false;
 	let connections = 0;
+	let repeated = 0;
+	let skipped = 0;
 	let current: AbortController | null = null;
 	let wake: (() => void) | null = null;
 
@@ -72,9 +81,16 @@ export function openLiveStream(o: LiveStreamOptions): LiveStream {
 	const dispatch = (event: string, data: string): boolean => {
 		if (event === 'samples') {
 			const run = JSON.parse(data) as SamplesEvent;
-			if (run.to <= cursor) return true;
-			if (run.from > cursor + 1) return false;
+			if (run.to <= cursor) {
+				repeated += run.to - run.from + 1;
+				return true;
+			}
+			if (run.from > cursor + 1) {
+				skipped++;
+				return false;
+			}
 			const cut = cursor + 1 - run.from;
+			repeated += cut;
 			const part: SamplesEvent =
 				cut === 0
 					? run
@@ -171,6 +187,12 @@ export function openLiveStream(o: LiveStreamOptions): LiveStream {
 		},
 		get connections() {
 			return connections;
+		},
+		get repeated() {
+			return repeated;
+		},
+		get skipped() {
+			return skipped;
 		},
 		reconnect() {
 			current?.abort();
