@@ -7,7 +7,7 @@ import { db } from '../db';
 import { aircraft, flightAlarms, flights, memberships, organisations, users, watches, type Aircraft, type Flight } from '../db/schema';
 import { link, sendMail } from '../mail';
 import { fuel } from '$lib/format';
-import { formatDuration, fromLitresPerHour, flowUnitLabels, type FlowUnit } from '$lib/units';
+import { formatDuration, fromLitres, fromLitresPerHour, flowUnitLabels, fuelUnitLabels, type FlowUnit } from '$lib/units';
 import type { Computed } from './computation';
 import type { Queryable } from './samples';
 
@@ -109,13 +109,19 @@ function flowText(lph: number, unit: string, density: number): string {
 
 export function alarmMail(a: AlarmFigures, ctx: { registration: string; displayUnit: Aircraft['displayUnit']; densityKgPerL: number; url: string }): { subject: string; text: string } {
 	const f = (l: number) => fuel(l, ctx.displayUnit, ctx.densityKgPerL);
+	// Rounded down: the e-mail never shows more fuel than the figure it was raised on.
+	const down = (l: number) => {
+		if (!Number.isFinite(l)) return '—';
+		const v = fromLitres(l, ctx.displayUnit, ctx.densityKgPerL);
+		return `${(Math.floor(v * 10 + 1e-9) / 10).toFixed(1)} ${fuelUnitLabels[ctx.displayUnit]}`;
+	};
 	const when = new Date(Math.round(a.t * 1000)).toISOString().slice(0, 19).replace('T', ' ');
 	const threshold =
 		a.kind === 'lowFuel' ? `below ${f(a.threshold)}` : a.kind === 'lowEndurance' ? `below ${formatDuration(a.threshold / 60)} (h:mm)` : 'below zero';
 	const lines = [
 		`${TITLES[a.kind]} on ${ctx.registration} at ${when} UTC (${threshold}).`,
 		'',
-		`Fuel on board:        ${f(a.onBoardL)}`,
+		`Fuel on board:        ${down(a.onBoardL)}`,
 		`Fuel flow:            ${flowText(a.flowLph, ctx.displayUnit, ctx.densityKgPerL)}`,
 		`Endurance at flow:    ${formatDuration(a.enduranceH, { round: 'down' })} (h:mm)`,
 		`Reserve at waypoint:  ${Number.isFinite(a.reserveL) ? `${f(a.reserveL)}${Number.isFinite(a.reserveMin) ? `, ${Math.round(a.reserveMin)} min` : ''}` : '—'}${a.waypoint ? ` (next waypoint ${a.waypoint})` : ''}`,
