@@ -1,0 +1,204 @@
+// Forms on a flight: the start-of-flight declaration, fuel events on the timeline, and notes.
+// Amounts are typed in a chosen fuel unit and come out in litres; times are UTC. The replay page
+// runs the same schemas in the browser to preview a change before it is saved.
+import { z } from 'zod';
+import type { Declaration, FuelEventKind } from '$lib/fuel';
+import { fuelUnits, toLitres, type FuelUnit } from '$lib/units';
+
+/** Generous upper bound on any typed amount; the engine clamps to the tank capacity and says so. */
+export const MAX_AMOUNT = 100_000;
+
+const unitSchema = z.enum(fuelUnits as [FuelUnit, ...FuelUnit[]], 'Choose a unit.');
+
+/** A number typed in a form: a decimal comma is accepted; blank is null. */
+const amountText = (what: string) =>
+	z
+		.string()
+		.optional()
+		.transform((raw, ctx) => {
+			const s = (raw ?? '').trim();
+			if (s === '') return null;
+			const n = Number(s.replace(',', '.'));
+			if (!Number.isFinite(n)) {
+				ctx.addIssue({ code: 'custom', message: `Enter ${what} as a number.` });
+				return z.NEVER;
+			}
+			if (n < 0 || n > MAX_AMOUNT) {
+				ctx.addIssue({ code: 'custom', message: `Enter ${what} between 0 and ${MAX_AMOUNT}.` });
+				return z.NEVER;
+			}
+			return n;
+		});
+
+const UTC_TIME = /^(\d{4})-(\d{2})-(\d{2})[T ](\d{2}):(\d{2})(?::(\d{2})(?:\.(\d{1,3}))?)?(?:Z|\+00:00)?$/;
+
+/** '2025-05-14T10:32', '2025-05-14 10:32:05' or '…Z': always read as UTC. */
+export function parseUtc(text: string): Date | null {
+	const m = UTC_TIME.exec(text.trim());
+	if (!m) return null;
+	const [, y, mo, d, h, mi, s = '0', ms = '0'] = m;
+	const date = new Date(Date.UTC(+y, +mo - 1, +d, +h, +mi, +s, +ms.padEnd(3, '0')));
+	// Date.UTC rolls 31 April over to 1 May; a real date survives the round trip.
+	if (date.getUTCMonth() !== +mo - 1 || date.getUTCDate() !== +d || +h > 23 || +mi > 59 || +s > 59) return null;
+	return date;
+}
+
+/** The value a datetime-local field shows for an instant, in UTC, to the second. */
+export function utcFieldValue(epochSeconds: number): string {
+	return new Date(Math.round(epochSeconds) * 1000).toISOString().slice(0, 19);
+}
+
+const utcText = (what: string) =>
+	z.string('Enter the time.').transform((raw, ctx) => {
+		const date = parseUtc(raw);
+		if (!date) {
+			ctx.addIssue({ code: 'custom', message: `Enter ${what} as a UTC date and time, e.g. 2025-05-14T10:32:00.` });
+			return z.NEVER;
+		}
+		return date;
+	});
+
+export const DECLARATION_KINDS = ['unchanged', 'onBoard', 'full', 'lower', 'added', 'removed'] as const;
+export type DeclarationChoice = (typeof DECLARATION_KINDS)[number];
+
+export const declarationChoiceLabels: Record<DeclarationChoice, string> = {
+	unchanged: 'Unchanged since the last flight',
+	onBoard: 'Amount on board (dipstick or gauge)',
+	full: 'Filled to full',
+	lower: 'Filled to the lower level (tabs)',
+	added: 'Fuel added',
+	removed: 'Fuel removed'
+};
+
+/** The form fields' values for a stored declaration (amounts in `unit`). */
+export function declarationFormValues(
+	d: Declaration,
+	previousOnBoardL: number | null,
+	unit: FuelUnit,
+	densityKgPerL: number
+): Record<string, string> {
+	const show = (litres: number | null) => (litres === null ? '' : String(Math.round((litres / toLitres(1, unit, densityKgPerL)) * 100) / 100));
+	const kind: DeclarationChoice = d.kind === 'added' && d.amountL === 0 ? 'unchanged' : d.kind;
+	const amount = 'amountL' in d && kind !== 'unchanged' ? show(d.amountL) : '';
+	return { kind, amount, unit, previous: show(previousOnBoardL) };
+}
+
+export const declarationFormSchema = (densityKgPerL: number) =>
+	z
+		.object({
+			kind: z.enum(DECLARATION_KINDS, 'Choose what was done with the fuel before engine start.'),
+			amount: amountText('the amount'),
+			unit: unitSchema,
+			previous: amountText('the fuel on board before')
+		})
+		.superRefine((v, ctx) => {
+			if ((v.kind === 'onBoard' || v.kind === 'added' || v.kind === 'removed') && v.amount === null)
+				ctx.addIssue({ code: 'custom', path: ['amount'], message: v.kind === 'onBoard' ? 'Enter the amount on board.' : `Enter the amount ${v.kind}.` });
+		})
+		.transform((v): { declaration: Declaration; previousOnBoardL: number | null } => {
+			const L = (x: number | null) => (x === null ? null : toLitres(x, v.unit, densityKgPerL));
+			const amountL = L(v.amount) ?? 0;
+			let declaration: Declaration;
+			switch (v.kind) {
+				case 'unchanged':
+					declaration = { kind: 'added', amountL: 0 };
+					break;
+				case 'onBoard':
+				case 'added':
+				case 'removed':
+					declaration = { kind: v.kind, amountL };
+					break;
+				default:
+					declaration = { kind: v.kind };
+			}
+			return { declaration, previousOnBoardL: L(v.previous) };
+		});
+
+export const FUEL_EVENT_KINDS = ['added', 'removed', 'toFull', 'toLower', 'resetUsed'] as const satisfies readonly FuelEventKind[];
+
+export const fuelEventKindLabels: Record<FuelEventKind, string> = {
+	added: 'Fuel added',
+	removed: 'Fuel removed',
+	toFull: 'Filled to full',
+	toLower: 'Filled to the lower level',
+	resetUsed: 'Fuel used counter reset'
+};
+
+export const fuelEventFormSchema = (densityKgPerL: number) =>
+	z
+		.object({
+			kind: z.enum(FUEL_EVENT_KINDS, 'Choose what happened.'),
+			amount: amountText('the amount'),
+			unit: unitSchema,
+			at: utcText('when it happened'),
+			note: z.string().trim().max(200, 'Use at most 200 characters.').default('')
+		})
+		.superRefine((v, ctx) => {
+			if ((v.kind === 'added' || v.kind === 'removed') && v.amount === null)
+				ctx.addIssue({ code: 'custom', path: ['amount'], message: `Enter the amount ${v.kind}.` });
+		})
+		.transform((v) => ({
+			kind: v.kind,
+			amountL: v.kind === 'added' || v.kind === 'removed' ? toLitres(v.amount ?? 0, v.unit, densityKgPerL) : null,
+			t: v.at,
+			note: v.note
+		}));
+
+export const idFormSchema = z.object({ id: z.uuid('That item is not on this flight.') });
+
+export const noteFormSchema = z.object({
+	body: z.string().trim().min(1, 'Write the note.').max(2000, 'Use at most 2000 characters.'),
+	at: z
+		.string()
+		.optional()
+		.transform((raw, ctx) => {
+			if (!raw || raw.trim() === '') return null;
+			const date = parseUtc(raw);
+			if (!date) {
+				ctx.addIssue({ code: 'custom', message: 'Enter the moment as a UTC date and time, or leave it blank.' });
+				return z.NEVER;
+			}
+			return date;
+		})
+});
+
+export type DeclarationInput = z.output<ReturnType<typeof declarationFormSchema>>;
+export type FuelEventInput = z.output<ReturnType<typeof fuelEventFormSchema>>;
+export type NoteInput = z.output<typeof noteFormSchema>;
+
+export const FLIGHT_SORTS = ['date', 'aircraft', 'pilot', 'block', 'used', 'flow', 'onboard', 'alarms'] as const;
+export type FlightSort = (typeof FLIGHT_SORTS)[number];
+export const FLIGHTS_PER_PAGE = 25;
+
+const ISO_DAY = /^\d{4}-\d{2}-\d{2}$/;
+const day = z
+	.string()
+	.optional()
+	.transform((raw) => (raw && ISO_DAY.test(raw) && !Number.isNaN(Date.parse(`${raw}T00:00:00Z`)) ? raw : null));
+
+/**
+ * The flights list's query string. A list is read with whatever a link carries, so anything
+ * unusable falls back to the default instead of failing the page.
+ */
+export const flightListQuerySchema = z.object({
+	aircraft: z.uuid().optional().catch(undefined),
+	pilot: z.string().trim().min(1).max(100).optional().catch(undefined),
+	from: day.catch(null),
+	to: day.catch(null),
+	sort: z.enum(FLIGHT_SORTS).default('date').catch('date'),
+	dir: z.enum(['asc', 'desc']).optional().catch(undefined),
+	page: z.coerce.number().int().min(1).max(100_000).default(1).catch(1)
+});
+export type FlightListQuery = z.output<typeof flightListQuerySchema>;
+
+/** GET /api/v1/flights/[id]/export query: what to export, how often, in which fuel unit. */
+export const exportQuerySchema = z.object({
+	what: z.enum(['log', 'summary'], 'what must be log or summary.').default('log'),
+	every: z.enum(['sample', 'minute'], 'every must be sample or minute.').default('sample'),
+	unit: unitSchema.optional(),
+	format: z.enum(['csv', 'json'], 'format must be csv or json.').default('csv')
+});
+
+export const samplesQuerySchema = z.object({
+	format: z.enum(['json', 'binary'], 'format must be json or binary.').default('json')
+});

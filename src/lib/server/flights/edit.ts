@@ -1,0 +1,63 @@
+// Changes to a flight's fuel inputs and notes. Each change and the recomputed summary commit in
+// one transaction, so the lists never show figures from before a correction.
+import { and, eq, max, min } from 'drizzle-orm';
+import type { DeclarationInput, FuelEventInput, NoteInput } from '$lib/schemas/flight';
+import { db } from '../db';
+import { flightNotes, flights, fuelEvents, samples, type Flight } from '../db/schema';
+import { recomputeSummary } from './summary';
+
+export type EditResult = { ok: true } | { ok: false; field: string; message: string };
+
+/** How far outside the recorded samples a fuel event may lie (a refuel before or after them). */
+export const EVENT_MARGIN_H = 6;
+
+export async function saveDeclaration(flight: Pick<Flight, 'id'>, input: DeclarationInput): Promise<EditResult> {
+	await db.transaction(async (tx) => {
+		await tx
+			.update(flights)
+			.set({ declaration: input.declaration, previousOnBoardL: input.previousOnBoardL, declarationConfirmed: true, updatedAt: new Date() })
+			.where(eq(flights.id, flight.id));
+		await recomputeSummary(flight.id, tx);
+	});
+	return { ok: true };
+}
+
+export async function addFuelEvent(flight: Pick<Flight, 'id' | 'startedAt'>, input: FuelEventInput, userId: string): Promise<EditResult> {
+	const [range] = await db.select({ first: min(samples.t), last: max(samples.t) }).from(samples).where(eq(samples.flightId, flight.id));
+	const first = range?.first ?? flight.startedAt;
+	const last = range?.last ?? flight.startedAt;
+	const margin = EVENT_MARGIN_H * 3600_000;
+	if (input.t.getTime() < first.getTime() - margin || input.t.getTime() > last.getTime() + margin) {
+		const fmt = (d: Date) => d.toISOString().slice(0, 16).replace('T', ' ');
+		return { ok: false, field: 'at', message: `Choose a time between ${fmt(new Date(first.getTime() - margin))} and ${fmt(new Date(last.getTime() + margin))} UTC (this flight's samples, ± ${EVENT_MARGIN_H} h).` };
+	}
+	await db.transaction(async (tx) => {
+		await tx.insert(fuelEvents).values({ flightId: flight.id, t: input.t, kind: input.kind, amountL: input.amountL, note: input.note, createdBy: userId });
+		await recomputeSummary(flight.id, tx);
+	});
+	return { ok: true };
+}
+
+export async function removeFuelEvent(flight: Pick<Flight, 'id'>, eventId: string): Promise<EditResult> {
+	return db.transaction(async (tx) => {
+		const gone = await tx.delete(fuelEvents).where(and(eq(fuelEvents.id, eventId), eq(fuelEvents.flightId, flight.id))).returning({ id: fuelEvents.id });
+		if (gone.length === 0) return { ok: false, field: 'id', message: 'That fuel event is not on this flight (perhaps removed already).' } as const;
+		await recomputeSummary(flight.id, tx);
+		return { ok: true } as const;
+	});
+}
+
+export async function addNote(flight: Pick<Flight, 'id'>, input: NoteInput, userId: string): Promise<EditResult> {
+	await db.insert(flightNotes).values({ flightId: flight.id, authorId: userId, t: input.at, body: input.body });
+	return { ok: true };
+}
+
+/** Authors remove their own notes; whoever may edit any flight may remove any note. */
+export async function removeNote(flight: Pick<Flight, 'id'>, noteId: string, userId: string, mayRemoveAny: boolean): Promise<EditResult> {
+	const where = mayRemoveAny
+		? and(eq(flightNotes.id, noteId), eq(flightNotes.flightId, flight.id))
+		: and(eq(flightNotes.id, noteId), eq(flightNotes.flightId, flight.id), eq(flightNotes.authorId, userId));
+	const gone = await db.delete(flightNotes).where(where).returning({ id: flightNotes.id });
+	if (gone.length === 0) return { ok: false, field: 'id', message: 'That note is not yours to remove, or it is gone already.' };
+	return { ok: true };
+}

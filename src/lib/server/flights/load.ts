@@ -1,0 +1,128 @@
+// Reading one flight for the fuel engine: its samples as columns (waypoint names turned into
+// small integer ids), its fuel events, its aircraft's fuel setup, and the engine input built from
+// them with the same mapping the browser uses ($lib/flight-inputs).
+import { asc, eq, sql } from 'drizzle-orm';
+import { engineInputsOf, fuelSetupOf, type AircraftFuelSetup } from '$lib/flight-inputs';
+import { WPT_NONE, type FlightInput, type SampleColumns } from '$lib/fuel';
+import { PAYLOAD_VERSION, type ReplayData } from '$lib/components/replay/payload';
+import { db, type Db, type Tx } from '../db';
+import { aircraft, flights, fuelEvents, type Aircraft, type Flight, type FuelEventRow } from '../db/schema';
+
+export type Queryable = Db | Tx;
+
+export interface FlightSamples {
+	columns: SampleColumns;
+	seq: Int32Array;
+	/** Waypoint names in order of first appearance; columns.wpt indexes into this list. */
+	waypoints: string[];
+	hasAlt: boolean;
+	hasWpt: boolean;
+}
+
+const num = (v: unknown): number => (v === null || v === undefined ? NaN : Number(v));
+
+/** The flight's samples in sequence order; a null cell becomes NaN ("not recorded"). */
+export async function loadSampleColumns(flightId: string, q: Queryable = db): Promise<FlightSamples> {
+	// Epoch milliseconds as an exact integer: ms ÷ 1000 is the same double Date.getTime() ÷ 1000
+	// gives, so server and browser feed the engine identical times.
+	const result = await q.execute<{ seq: number; ms: number; flow: number | null; gs: number | null; dtg: number | null; alt: number | null; wpt: string | null }>(sql`
+		select seq, (extract(epoch from t) * 1000)::float8 as ms, flow, gs, dtg, alt, wpt
+		from samples where flight_id = ${flightId} order by seq`);
+	const rows = result.rows;
+	const n = rows.length;
+	const t = new Float64Array(n);
+	const flow = new Float64Array(n);
+	const gs = new Float64Array(n);
+	const dtg = new Float64Array(n);
+	const alt = new Float64Array(n);
+	const wpt = new Int32Array(n);
+	const seq = new Int32Array(n);
+	const ids = new Map<string, number>();
+	const waypoints: string[] = [];
+	let hasAlt = false;
+	let hasWpt = false;
+	for (let i = 0; i < n; i++) {
+		const r = rows[i];
+		seq[i] = Number(r.seq);
+		t[i] = Number(r.ms) / 1000;
+		flow[i] = num(r.flow);
+		gs[i] = num(r.gs);
+		dtg[i] = num(r.dtg);
+		alt[i] = num(r.alt);
+		if (r.alt !== null) hasAlt = true;
+		if (r.wpt === null || r.wpt === '') wpt[i] = WPT_NONE;
+		else {
+			hasWpt = true;
+			let id = ids.get(r.wpt);
+			if (id === undefined) {
+				id = waypoints.length;
+				ids.set(r.wpt, id);
+				waypoints.push(r.wpt);
+			}
+			wpt[i] = id;
+		}
+	}
+	const columns: SampleColumns = { t, flow, gs, dtg };
+	if (hasAlt) columns.alt = alt;
+	if (hasWpt) columns.wpt = wpt;
+	return { columns, seq, waypoints, hasAlt, hasWpt };
+}
+
+export interface LoadedFlight {
+	flight: Flight;
+	aircraft: Aircraft;
+	setup: AircraftFuelSetup;
+	events: FuelEventRow[];
+	samples: FlightSamples;
+	/** The engine input, from the same mapping the browser uses. */
+	input: FlightInput;
+}
+
+export async function loadEvents(flightId: string, q: Queryable = db): Promise<FuelEventRow[]> {
+	return q.select().from(fuelEvents).where(eq(fuelEvents.flightId, flightId)).orderBy(asc(fuelEvents.t), asc(fuelEvents.createdAt));
+}
+
+/** Everything the engine needs for one flight; null when there is no such flight. */
+export async function loadFlight(flightId: string, q: Queryable = db): Promise<LoadedFlight | null> {
+	const [row] = await q.select({ flight: flights, aircraft }).from(flights).innerJoin(aircraft, eq(aircraft.id, flights.aircraftId)).where(eq(flights.id, flightId)).limit(1);
+	if (!row) return null;
+	const [events, samples] = await Promise.all([loadEvents(flightId, q), loadSampleColumns(flightId, q)]);
+	const setup = fuelSetupOf(row.aircraft);
+	return {
+		flight: row.flight,
+		aircraft: row.aircraft,
+		setup,
+		events,
+		samples,
+		input: { columns: samples.columns, ...engineInputsOf(setup, row.flight, events) }
+	};
+}
+
+/** The samples API's content for a loaded flight. */
+export function replayDataOf(f: LoadedFlight): ReplayData {
+	const { flight, aircraft: a, samples } = f;
+	return {
+		version: PAYLOAD_VERSION,
+		flight: {
+			id: flight.id,
+			title: flight.title,
+			status: flight.status,
+			source: flight.source,
+			startedAt: flight.startedAt.toISOString(),
+			endedAt: flight.endedAt?.toISOString() ?? null,
+			lastSeq: flight.lastSeq,
+			declarationConfirmed: flight.declarationConfirmed
+		},
+		aircraft: { id: a.id, registration: a.registration, type: a.type, displayUnit: a.displayUnit, fuelType: a.fuelType },
+		setup: f.setup,
+		declaration: f.input.declaration,
+		previousOnBoardL: flight.previousOnBoardL,
+		events: f.events.map((e) => ({ id: e.id, t: e.t.getTime() / 1000, kind: e.kind, amountL: e.amountL, note: e.note })),
+		waypoints: samples.waypoints,
+		count: samples.seq.length,
+		hasAlt: samples.hasAlt,
+		hasWpt: samples.hasWpt,
+		columns: samples.columns,
+		seq: samples.seq
+	};
+}
