@@ -1,0 +1,149 @@
+// The exported fuel log: the engine's figures as CSV, one row per sample or one per minute, in a
+// chosen fuel unit (distances in NM, speeds in kt, times UTC), and the flight summary as CSV.
+import type { FlightComputation, FlightSummary, SampleColumns } from '$lib/fuel';
+import { WPT_NONE } from '$lib/fuel';
+import { fromLitres, type FuelUnit } from '$lib/units';
+import { alarmLabels, flagWords, phaseIds } from '$lib/components/replay/labels';
+
+export type LogEvery = 'sample' | 'minute';
+
+/**
+ * Rows for a per-minute log: the first sample of each UTC minute that has samples, and the last
+ * sample of the flight so the shutdown figures are always there.
+ */
+export function minuteRows(t: Float64Array, n: number): number[] {
+	const rows: number[] = [];
+	let lastMinute = -Infinity;
+	for (let i = 0; i < n; i++) {
+		const minute = Math.floor(t[i] / 60);
+		if (minute > lastMinute) {
+			rows.push(i);
+			lastMinute = minute;
+		}
+	}
+	if (n > 0 && rows[rows.length - 1] !== n - 1) rows.push(n - 1);
+	return rows;
+}
+
+const cell = (x: number, digits: number): string => (Number.isFinite(x) ? x.toFixed(digits) : '');
+const quote = (s: string): string => (/[",\n\r]/.test(s) ? `"${s.replace(/"/g, '""')}"` : s);
+const iso = (epochS: number) => new Date(Math.round(epochS * 1000)).toISOString();
+
+export interface FuelLogInput {
+	columns: SampleColumns;
+	computation: FlightComputation;
+	waypoints: readonly string[];
+	unit: FuelUnit;
+	densityKgPerL: number;
+	every: LogEvery;
+}
+
+/** CSV text; header names carry their units, e.g. on_board_usgal, flow_usgal_per_h. */
+export function fuelLogCsv(x: FuelLogInput): string {
+	const { columns: c, computation: r, unit } = x;
+	const fuel = (litres: number) => fromLitres(litres, unit, x.densityKgPerL);
+	// Specific range is distance per unit of fuel: NM/L × litres per unit.
+	const perUnit = 1 / fromLitres(1, unit, x.densityKgPerL);
+	const header = [
+		'time_utc',
+		'elapsed_s',
+		'phase',
+		`flow_${unit}_per_h`,
+		`used_${unit}`,
+		`on_board_${unit}`,
+		'endurance_min',
+		'gs_kt',
+		'dtg_nm',
+		'waypoint',
+		'time_to_wpt_min',
+		`fuel_to_wpt_${unit}`,
+		`reserve_at_wpt_${unit}`,
+		'reserve_at_wpt_min',
+		`specific_range_nm_per_${unit}`,
+		'alarms',
+		'flags'
+	];
+	const n = r.length;
+	const rows = x.every === 'minute' ? minuteRows(c.t, n) : Array.from({ length: n }, (_, i) => i);
+	const t0 = n > 0 ? c.t[0] : 0;
+	const lines = [header.join(',')];
+	const alarmKinds = ['lowFuel', 'lowEndurance', 'negativeReserve'] as const;
+	for (const i of rows) {
+		const w = c.wpt ? c.wpt[i] : WPT_NONE;
+		const alarms = alarmKinds.filter((_, k) => r.alarmState[i] & (1 << k)).map((k) => alarmLabels[k]);
+		lines.push(
+			[
+				iso(c.t[i]),
+				cell(c.t[i] - t0, 1),
+				phaseIds[r.phase[i]] ?? '',
+				cell(fuel(r.flow[i]), 3),
+				cell(fuel(r.used[i]), 3),
+				cell(fuel(r.onBoard[i]), 3),
+				cell(r.endurance[i] * 60, 1),
+				cell(c.gs[i], 1),
+				cell(c.dtg[i], 2),
+				quote(w === WPT_NONE ? '' : (x.waypoints[w] ?? '')),
+				cell(r.timeToWpt[i] * 60, 1),
+				cell(fuel(r.fuelToWpt[i]), 3),
+				cell(fuel(r.reserveAtWpt[i]), 3),
+				cell(r.reserveAtWptMin[i], 1),
+				cell(r.specificRange[i] * perUnit, 3),
+				quote(alarms.join('; ')),
+				flagWords(r.flags[i]).join(' ')
+			].join(',')
+		);
+	}
+	return lines.join('\r\n') + '\r\n';
+}
+
+/** The flight summary as field,value,unit rows for a spreadsheet. */
+export function summaryCsv(
+	s: FlightSummary,
+	meta: { registration: string; title: string; pilot: string | null; unit: FuelUnit; densityKgPerL: number; waypoints: readonly string[] }
+): string {
+	const u = meta.unit;
+	const fuel = (l: number | null | undefined) => (l === null || l === undefined ? '' : fromLitres(l, u, meta.densityKgPerL).toFixed(3));
+	const num = (x: number | null | undefined, d: number) => (x === null || x === undefined || !Number.isFinite(x) ? '' : x.toFixed(d));
+	const when = (x: number | null | undefined) => (x === null || x === undefined || !Number.isFinite(x) ? '' : iso(x));
+	const perUnit = 1 / fromLitres(1, u, meta.densityKgPerL);
+	const rows: [string, string, string][] = [
+		['aircraft', meta.registration, ''],
+		['title', meta.title, ''],
+		['pilot', meta.pilot ?? '', ''],
+		['start_utc', when(s.start), ''],
+		['end_utc', when(s.end), ''],
+		['samples', String(s.sampleCount), ''],
+		['rejected_samples', String(s.rejectedCount), ''],
+		['block_time_min', num(s.blockTimeS / 60, 1), `min (${s.blockTimeBasis})`],
+		['engine_time_min', num(s.engineTimeS / 60, 1), 'min'],
+		['fuel_used', fuel(s.fuelUsedL), u],
+		['on_board_at_shutdown', fuel(s.onBoardAtShutdownL), u],
+		['average_flow', fuel(s.averageFlowLph), `${u}/h`],
+		['max_flow', fuel(s.maxFlowLph), `${u}/h`],
+		['cruise_flow', fuel(s.cruiseFlowLph), `${u}/h`],
+		['cruise_specific_range', num(s.cruiseSpecificRangeNmPerL === null ? null : s.cruiseSpecificRangeNmPerL * perUnit, 3), `NM/${u}`],
+		['distance', num(s.distanceNm, 1), 'NM'],
+		['average_gs', num(s.averageGsKt, 1), 'kt'],
+		['lowest_reserve_at_wpt', fuel(s.lowestReserveAtWpt?.reserveL), u],
+		['lowest_reserve_at_wpt_min', num(s.lowestReserveAtWpt?.minutes, 1), 'min'],
+		['lowest_reserve_at_wpt_time_utc', when(s.lowestReserveAtWpt?.t), ''],
+		[
+			'lowest_reserve_at_wpt_waypoint',
+			s.lowestReserveAtWpt?.wpt === null || s.lowestReserveAtWpt?.wpt === undefined ? '' : (meta.waypoints[s.lowestReserveAtWpt.wpt] ?? ''),
+			''
+		],
+		['reserve_rule', s.reserve?.rule.label ?? '', s.reserve?.rule.citation ?? ''],
+		['reserve_amount', fuel(s.reserve?.amountL), u],
+		['reserve_basis', s.reserve?.note ?? '', ''],
+		['reserve_reached_utc', when(s.reserveReached?.t), s.reserveReached?.alreadyBelow ? 'already below at the last sample' : 'at the last flow'],
+		['gaps', String(s.gapCount), ''],
+		['gap_time_min', num(s.gapTimeS / 60, 1), 'min'],
+		['alarms', String(s.alarmCount), '']
+	];
+	for (const p of s.phases) {
+		rows.push([`phase_${p.name}_time_min`, num(p.timeS / 60, 1), 'min']);
+		rows.push([`phase_${p.name}_fuel`, fuel(p.fuelL), u]);
+		rows.push([`phase_${p.name}_average_flow`, fuel(p.averageFlowLph), `${u}/h`]);
+	}
+	return ['field,value,unit', ...rows.map((r) => r.map(quote).join(','))].join('\r\n') + '\r\n';
+}

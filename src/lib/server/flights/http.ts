@@ -1,0 +1,40 @@
+// Small pieces the flight API routes share: reading a query string with zod into a 400 that
+// names the parameter, and compressing a large body when the client accepts gzip.
+import { json } from '@sveltejs/kit';
+import { promisify } from 'node:util';
+import { gzip } from 'node:zlib';
+import type { z } from 'zod';
+
+const gzipAsync = promisify(gzip);
+
+export type QueryResult<T> = { ok: true; data: T } | { ok: false; response: Response };
+
+export function parseQuery<S extends z.ZodType>(schema: S, url: URL): QueryResult<z.output<S>> {
+	const result = schema.safeParse(Object.fromEntries(url.searchParams));
+	if (result.success) return { ok: true, data: result.data };
+	const issue = result.error.issues[0];
+	const field = issue.path.join('.') || 'query';
+	return { ok: false, response: json({ error: `Query parameter ${field}: ${issue.message}`, field }, { status: 400 }) };
+}
+
+/** Bodies smaller than this go out as they are: compressing them costs more than it saves. */
+const MIN_GZIP_BYTES = 8 * 1024;
+
+/**
+ * A response body, gzipped when the request accepts it. The Node adapter sends dynamic
+ * responses uncompressed, and the samples of a long flight are megabytes.
+ */
+export async function maybeGzip(request: Request, body: Uint8Array<ArrayBuffer> | string, headers: Record<string, string>): Promise<Response> {
+	const bytes = typeof body === 'string' ? new TextEncoder().encode(body) : body;
+	const h = new Headers(headers);
+	h.set('vary', 'accept-encoding');
+	const accepts = /\bgzip\b/.test(request.headers.get('accept-encoding') ?? '');
+	if (accepts && bytes.length >= MIN_GZIP_BYTES) {
+		const packed = await gzipAsync(bytes, { level: 6 });
+		h.set('content-encoding', 'gzip');
+		h.set('content-length', String(packed.length));
+		return new Response(new Uint8Array(packed), { headers: h });
+	}
+	h.set('content-length', String(bytes.length));
+	return new Response(bytes, { headers: h });
+}
