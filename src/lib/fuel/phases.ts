@@ -91,52 +91,53 @@ export function createPhaseTracker(o: {
 	};
 }
 
-/** What the sample on its own suggests, after updating the smoothed flow and vertical speed. */
-function candidatePhase(p: PhaseTracker, t: number, flowLph: number, gsKt: number, altFt: number): number {
-	const dt = t - p.lastT;
+/** Updates the smoothed flow and vertical speed with one sample. */
+function smooth(p: PhaseTracker, t: number, flowLph: number, altFt: number): void {
 	if (flowLph === flowLph) {
 		// dt/(τ+dt) is a cheap stand-in for 1 − exp(−dt/τ) that behaves the same at both ends;
 		// recorders mostly keep one interval, so the weight is cached.
+		const dt = t - p.lastT;
 		if (dt !== p.flowDt) {
 			p.flowDt = dt;
 			p.flowWeight = dt / (FLOW_SMOOTH_S + dt);
 		}
-		p.flowSmooth = p.flowSmooth === p.flowSmooth ? p.flowSmooth + p.flowWeight * (flowLph - p.flowSmooth) : flowLph;
+		const fs = p.flowSmooth;
+		p.flowSmooth = fs === fs ? fs + p.flowWeight * (flowLph - fs) : flowLph;
 	}
 	if (altFt === altFt) {
-		if (p.lastAlt === p.lastAlt) {
+		const lastAlt = p.lastAlt;
+		if (lastAlt === lastAlt) {
 			const dtAlt = t - p.lastAltT;
 			if (dtAlt !== p.altDt) {
 				p.altDt = dtAlt;
 				p.altWeight = dtAlt / (VS_SMOOTH_S + dtAlt);
 				p.altPerMin = 60 / dtAlt;
 			}
-			const vs = (altFt - p.lastAlt) * p.altPerMin;
-			p.vsFpm = p.vsFpm === p.vsFpm ? p.vsFpm + p.altWeight * (vs - p.vsFpm) : vs;
+			const vs = (altFt - lastAlt) * p.altPerMin;
+			const v = p.vsFpm;
+			p.vsFpm = v === v ? v + p.altWeight * (vs - v) : vs;
 			p.vsT = t;
 		}
 		p.lastAlt = altFt;
 		p.lastAltT = t;
 	}
 	p.lastT = t;
+}
 
-	const running = flowLph > p.minFlowLph;
-	if (gsKt !== gsKt) return flowLph === flowLph && !running ? PHASE_STOPPED : PHASE_UNKNOWN;
-	if (gsKt < p.airborneGsKt) {
-		if (running) return PHASE_TAXI;
-		// Moving with no flow reading yet: most likely taxiing before the first reading.
-		return flowLph !== flowLph && gsKt >= p.minGsKt ? PHASE_TAXI : PHASE_STOPPED;
-	}
-	if (p.vsFpm === p.vsFpm && t - p.vsT <= VS_STALE_S) {
-		if (p.vsFpm > VS_CLIMB_FPM) return PHASE_CLIMB;
-		if (p.vsFpm < -VS_CLIMB_FPM) return PHASE_DESCENT;
+/** Climb, cruise or descent for an airborne sample, from vertical speed or else from flow. */
+function airbornePhase(p: PhaseTracker, t: number): number {
+	const vs = p.vsFpm;
+	if (vs === vs && t - p.vsT <= VS_STALE_S) {
+		if (vs > VS_CLIMB_FPM) return PHASE_CLIMB;
+		if (vs < -VS_CLIMB_FPM) return PHASE_DESCENT;
 		return PHASE_CRUISE;
 	}
 	const f = p.flowSmooth;
 	if (f !== f) return PHASE_UNKNOWN;
-	if (p.baselineLph === p.baselineLph) {
-		if (f >= BASELINE_CLIMB_RATIO * p.baselineLph) return PHASE_CLIMB;
-		if (f <= BASELINE_DESCENT_RATIO * p.baselineLph) return PHASE_DESCENT;
+	const base = p.baselineLph;
+	if (base === base) {
+		if (f >= BASELINE_CLIMB_RATIO * base) return PHASE_CLIMB;
+		if (f <= BASELINE_DESCENT_RATIO * base) return PHASE_DESCENT;
 		return PHASE_CRUISE;
 	}
 	if (f > p.peakAirborneFlow) p.peakAirborneFlow = f;
@@ -145,12 +146,27 @@ function candidatePhase(p: PhaseTracker, t: number, flowLph: number, gsKt: numbe
 	return PHASE_CRUISE;
 }
 
+/** What the sample on its own suggests, from ground speed and flow first. */
+function candidatePhase(p: PhaseTracker, t: number, flowLph: number, gsKt: number): number {
+	const running = flowLph > p.minFlowLph;
+	if (gsKt !== gsKt) return flowLph === flowLph && !running ? PHASE_STOPPED : PHASE_UNKNOWN;
+	if (gsKt < p.airborneGsKt) {
+		if (running) return PHASE_TAXI;
+		// Moving with no flow reading yet: most likely taxiing before the first reading.
+		return flowLph !== flowLph && gsKt >= p.minGsKt ? PHASE_TAXI : PHASE_STOPPED;
+	}
+	return airbornePhase(p, t);
+}
+
 /**
  * Phase at a sample. A new phase must be suggested for holdS seconds before it is taken, so a
  * noisy reading does not flip the phase back and forth.
  */
 export function trackPhase(p: PhaseTracker, t: number, flowLph: number, gsKt: number, altFt: number): number {
-	const c = candidatePhase(p, t, flowLph, gsKt, altFt);
+	// Small functions so the engine's loop can inline them: a call that is not inlined boxes
+	// its number arguments, which at a million samples is most of the cost.
+	smooth(p, t, flowLph, altFt);
+	const c = candidatePhase(p, t, flowLph, gsKt);
 	if (p.current < 0) {
 		p.current = c;
 		return c;
