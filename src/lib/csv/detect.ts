@@ -96,16 +96,17 @@ export function detectDecimal(rows: readonly (readonly string[])[], delimiter: D
 
 /**
  * Everything the column mapper shows about a file, from its first few kilobytes. `whole` says
- * the sample is the entire file, so its last line counts even without a line break.
+ * the sample is the entire file, so its last line counts even without a line break; `delimiter`
+ * overrides the detected one (the user's choice in the mapper).
  */
-export function previewCsv(sample: string, options: { whole?: boolean; maxRows?: number } = {}): Preview {
+export function previewCsv(sample: string, options: { whole?: boolean; maxRows?: number; delimiter?: Delimiter } = {}): Preview {
 	const { whole = false, maxRows = 10 } = options;
 	const text = stripBom(sample);
 	const newline = detectNewline(text);
 	const warnings: string[] = [];
 	const { start, line } = findHeader(text, newline);
 	const body = start < 0 ? '' : text.slice(start);
-	const delimiter = detectDelimiter(body, newline);
+	const delimiter = options.delimiter ?? detectDelimiter(body, newline);
 	const all = splitLines(body, delimiter, newline, maxRows + 1, whole);
 	const headers = (all[0] ?? []).map((h) => h.trim());
 	const rows = all.slice(1).filter((r) => !(r.length === 1 && r[0].trim() === ''));

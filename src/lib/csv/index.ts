@@ -7,3 +7,4 @@ export * from './values';
 export * from './row';
 export * from './detect';
 export * from './parse';
+export * from './answer';

@@ -1,0 +1,16 @@
+// What POST /api/v1/flights answers, shared by the server, the upload page and scripts' authors:
+// a JSON body whose `status` names the case, or NDJSON lines (progress, then that body).
+import type { RowProblem } from './row';
+
+/** Server-side progress: reading (bytes of the file read, rows accepted) and the storing steps. */
+export type UploadProgress =
+	| { phase: 'reading'; bytes: number; rows: number }
+	| { phase: 'storing'; step: 'checks' | 'summary' | 'original' | 'flight' | 'commit'; rows: number };
+
+export type UploadAnswer =
+	| { status: 'stored'; flightId: string; uploadId: string; url: string; rows: number; report: unknown; summary: unknown }
+	| { status: 'duplicate'; flightId: string; uploadId: string; url: string; error: string }
+	| { status: 'rejected'; error: string; problems: RowProblem[]; problemCount: number }
+	| { status: 'invalid' | 'tooLarge' | 'error'; error: string; field: string | null; errors?: Record<string, string>; limitBytes?: number };
+
+export type UploadLine = ({ type: 'progress' } & UploadProgress) | ({ type: 'result'; httpStatus: number } & UploadAnswer);

@@ -1,0 +1,122 @@
+// The upload answer, shared by the API route and the upload page: the same ingest result as a JSON
+// body with its HTTP status, or as a stream of NDJSON lines (progress, then the result) for a
+// browser that shows the server's parsing and storing as it happens.
+import { eq } from 'drizzle-orm';
+import { error, isHttpError, json, type RequestEvent } from '@sveltejs/kit';
+import { MAX_UPLOAD_BYTES, type UploadAnswer, type UploadLine } from '$lib/csv';
+import { requireAircraft } from '../access';
+import { db } from '../db';
+import { aircraft, organisations } from '../db/schema';
+import { ingestRecorderFile, type IngestProgress, type IngestResult } from './ingest';
+
+export type { UploadAnswer, UploadLine };
+import { UploadRequestError, checkFields, openUploadRequest } from './request';
+
+export const NDJSON = 'application/x-ndjson';
+
+function answerOf(result: IngestResult, slug: string): { httpStatus: number; body: UploadAnswer } {
+	const url = (id: string) => `/o/${slug}/flights/${id}`;
+	switch (result.status) {
+		case 'stored':
+			return {
+				httpStatus: 201,
+				body: { status: 'stored', flightId: result.flightId, uploadId: result.uploadId, url: url(result.flightId), rows: result.report.rows, report: result.report, summary: result.summary }
+			};
+		case 'duplicate':
+			return { httpStatus: 200, body: { status: 'duplicate', flightId: result.flightId, uploadId: result.uploadId, url: url(result.flightId), error: result.message } };
+		case 'rejected':
+			return { httpStatus: 400, body: { status: 'rejected', error: result.message, problems: result.problems, problemCount: result.problemCount } };
+		case 'invalid':
+			return { httpStatus: result.field === 'file' ? 409 : 400, body: { status: 'invalid', error: result.message, field: result.field } };
+		case 'tooLarge':
+			return { httpStatus: 413, body: { status: 'tooLarge', error: result.message, field: 'file', limitBytes: result.limitBytes } };
+	}
+}
+
+/** The organisation of an aircraft, so the usual membership check can run; unknown id → 404. */
+async function orgSlugOfAircraft(aircraftId: string): Promise<string> {
+	const [row] = await db
+		.select({ slug: organisations.slug })
+		.from(aircraft)
+		.innerJoin(organisations, eq(organisations.id, aircraft.orgId))
+		.where(eq(aircraft.id, aircraftId))
+		.limit(1);
+	if (!row) error(404, 'Aircraft not found.');
+	return row.slug;
+}
+
+/**
+ * Handles an upload request from start to answer. The caller must be a member of the aircraft's
+ * organisation with the upload permission; to anyone else the aircraft is "not found".
+ */
+export async function handleUpload(event: Pick<RequestEvent, 'request' | 'url' | 'locals' | 'route'>): Promise<Response> {
+	try {
+		const upload = await openUploadRequest(event.request, event.url);
+		const fields = checkFields(upload.fields);
+		const slug = await orgSlugOfAircraft(fields.aircraftId);
+		let ctx;
+		try {
+			ctx = await requireAircraft(event, slug, fields.aircraftId, 'upload');
+		} catch (e) {
+			// A member of another organisation learns nothing about the aircraft, not even its club.
+			if (isHttpError(e) && e.status === 404) error(404, 'Aircraft not found.');
+			throw e;
+		}
+		if (ctx.aircraft.archivedAt) throw new UploadRequestError(409, `${ctx.aircraft.registration} is archived; restore it before uploading flights.`, 'aircraftId');
+		const run = (onProgress?: (p: IngestProgress) => void) =>
+			ingestRecorderFile({
+				orgId: ctx.org.id,
+				aircraft: ctx.aircraft,
+				userId: ctx.user.id,
+				fileName: upload.fileName,
+				source: upload.file,
+				declaration: fields.declaration,
+				mapping: fields.mapping,
+				profileId: fields.profileId,
+				timeBase: fields.timeBase,
+				title: fields.title,
+				notes: fields.notes,
+				onProgress
+			});
+
+		if ((event.request.headers.get('accept') ?? '').includes(NDJSON)) {
+			const encoder = new TextEncoder();
+			let open = true;
+			const stream = new ReadableStream<Uint8Array>({
+				start(controller) {
+					const send = (line: UploadLine) => {
+						if (open) controller.enqueue(encoder.encode(JSON.stringify(line) + '\n'));
+					};
+					run((p) => send({ type: 'progress', ...p }))
+						.then((result) => {
+							const { httpStatus, body } = answerOf(result, ctx.org.slug);
+							send({ type: 'result', httpStatus, ...body });
+						})
+						.catch((e) => {
+							console.error('[upload]', e);
+							send({ type: 'result', httpStatus: 500, status: 'error', error: 'Something went wrong on our side. Nothing was stored.', field: null });
+						})
+						.finally(() => {
+							if (open) controller.close();
+							open = false;
+						});
+				},
+				cancel() {
+					// The browser went away; the ingest notices when the request body ends early.
+					open = false;
+				}
+			});
+			return new Response(stream, { status: 200, headers: { 'content-type': NDJSON, 'cache-control': 'no-store', 'x-content-type-options': 'nosniff' } });
+		}
+		const { httpStatus, body } = answerOf(await run(), ctx.org.slug);
+		return json(body, { status: httpStatus });
+	} catch (e) {
+		if (e instanceof UploadRequestError)
+			return json(
+				{ status: e.status === 413 ? 'tooLarge' : 'invalid', error: e.message, field: e.field, errors: e.errors, ...(e.status === 413 ? { limitBytes: MAX_UPLOAD_BYTES } : {}) } satisfies UploadAnswer,
+				{ status: e.status }
+			);
+		if (isHttpError(e)) return json({ status: 'error', error: e.body.message, field: null } satisfies UploadAnswer, { status: e.status });
+		throw e;
+	}
+}

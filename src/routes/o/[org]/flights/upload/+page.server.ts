@@ -1,0 +1,96 @@
+// The upload page: the organisation's active aircraft and import profiles for the browser's
+// column mapper; saving a mapping as a named profile. The file itself goes to POST /api/v1/flights.
+import { and, asc, eq, isNull } from 'drizzle-orm';
+import { z } from 'zod';
+import { requireMember } from '$lib/server/access';
+import { db } from '$lib/server/db';
+import { aircraft, importProfiles } from '$lib/server/db/schema';
+import { failForm, formValues } from '$lib/schemas/form';
+import { MAX_UPLOAD_BYTES, MAX_UPLOAD_LABEL, columnMappingSchema, createRowReader, headerSignature, profileMapping, type ColumnMapping } from '$lib/csv';
+import type { Actions, PageServerLoad } from './$types';
+
+// Aircraft with what the declaration needs; profiles with what matching needs.
+export const load = (async (event) => {
+	const { org } = await requireMember(event, event.params.org, 'upload');
+	const fleet = await db
+		.select({
+			id: aircraft.id,
+			registration: aircraft.registration,
+			type: aircraft.type,
+			fuelType: aircraft.fuelType,
+			displayUnit: aircraft.displayUnit,
+			densityKgPerL: aircraft.densityKgPerL,
+			capacityL: aircraft.capacityL,
+			lowerLevelL: aircraft.lowerLevelL,
+			lastOnBoardL: aircraft.lastOnBoardL
+		})
+		.from(aircraft)
+		.where(and(eq(aircraft.orgId, org.id), isNull(aircraft.archivedAt)))
+		.orderBy(asc(aircraft.registration));
+	const profiles = await db
+		.select({ id: importProfiles.id, name: importProfiles.name, headerSignature: importProfiles.headerSignature, mapping: importProfiles.mapping })
+		.from(importProfiles)
+		.where(eq(importProfiles.orgId, org.id))
+		.orderBy(asc(importProfiles.name));
+	return {
+		fleet,
+		profiles: profiles.map((p) => ({ ...p, mapping: p.mapping as ColumnMapping })),
+		preselect: event.url.searchParams.get('aircraft'),
+		maxBytes: MAX_UPLOAD_BYTES,
+		maxLabel: MAX_UPLOAD_LABEL
+	};
+}) satisfies PageServerLoad;
+
+const profileFormSchema = z.object({
+	name: z.string().trim().min(1, 'Give the profile a name.').max(60, 'Use at most 60 characters.'),
+	headers: z.string().transform((raw, ctx) => {
+		try {
+			const v = z.array(z.string().max(200)).min(1).max(200).parse(JSON.parse(raw));
+			return v;
+		} catch {
+			ctx.addIssue({ code: 'custom', message: 'Choose a file first: the profile is saved for its columns.' });
+			return z.NEVER;
+		}
+	}),
+	mapping: z.string().transform((raw, ctx) => {
+		let json: unknown;
+		try {
+			json = JSON.parse(raw);
+		} catch {
+			ctx.addIssue({ code: 'custom', message: 'The mapping could not be read.' });
+			return z.NEVER;
+		}
+		const m = columnMappingSchema.safeParse(json);
+		if (m.success) return m.data;
+		ctx.addIssue({ code: 'custom', message: m.error.issues[0].message });
+		return z.NEVER;
+	}),
+	replace: z.string().optional()
+});
+
+export const actions = {
+	saveProfile: async (event) => {
+		const { org, user } = await requireMember(event, event.params.org, 'upload');
+		const form = await event.request.formData();
+		const values = formValues(form);
+		const parsed = profileFormSchema.safeParse(values);
+		if (!parsed.success) {
+			const issue = parsed.error.issues[0];
+			return failForm(400, { [String(issue.path[0] ?? 'name')]: issue.message }, values, 'saveProfile');
+		}
+		const { name, headers, mapping } = parsed.data;
+		// A profile naming columns its own header lacks could never apply.
+		const check = createRowReader(mapping, headers, 1, { densityKgPerL: 0.72 });
+		if ('problems' in check) return failForm(400, { mapping: check.problems[0].message }, values, 'saveProfile');
+		const stored = profileMapping(mapping);
+		const existing = await db.query.importProfiles.findFirst({ where: and(eq(importProfiles.orgId, org.id), eq(importProfiles.name, name)) });
+		if (existing && parsed.data.replace !== '1')
+			return failForm(400, { name: `A profile named "${name}" exists already. Tick "Replace" to overwrite it, or choose another name.` }, values, 'saveProfile');
+		const [row] = await db
+			.insert(importProfiles)
+			.values({ orgId: org.id, name, headerSignature: headerSignature(headers), mapping: stored, createdBy: user.id })
+			.onConflictDoUpdate({ target: [importProfiles.orgId, importProfiles.name], set: { headerSignature: headerSignature(headers), mapping: stored, createdBy: user.id, createdAt: new Date() } })
+			.returning({ id: importProfiles.id, name: importProfiles.name, headerSignature: importProfiles.headerSignature });
+		return { action: 'saveProfile', saved: { ...row, mapping: stored } };
+	}
+} satisfies Actions;
