@@ -1,0 +1,111 @@
+import { asc, eq, inArray } from 'drizzle-orm';
+import { fuelSetupOf } from '$lib/flight-inputs';
+import { mayOnFlight, requireFlight } from '$lib/server/access';
+import { db } from '$lib/server/db';
+import { aircraft, flightNotes, users, type Flight } from '$lib/server/db/schema';
+import { addFuelEvent, addNote, removeFuelEvent, removeNote, saveDeclaration } from '$lib/server/flights/edit';
+import { loadEvents } from '$lib/server/flights/load';
+import { can } from '$lib/permissions';
+import { declarationFormSchema, declarationFormValues, fuelEventFormSchema, idFormSchema, noteFormSchema } from '$lib/schemas/flight';
+import { failForm, parseForm } from '$lib/schemas/form';
+import type { Declaration } from '$lib/fuel';
+import type { Actions, PageServerLoad } from './$types';
+
+async function aircraftOf(flight: Flight) {
+	const a = await db.query.aircraft.findFirst({ where: eq(aircraft.id, flight.aircraftId) });
+	// The foreign key makes this impossible; say so plainly if it ever happens.
+	if (!a) throw new Error(`flight ${flight.id} has no aircraft ${flight.aircraftId}`);
+	return a;
+}
+
+// The flight's fuel inputs, people and notes; the samples come from the samples API in the browser.
+export const load = (async (event) => {
+	const ctx = await requireFlight(event, event.params.org, event.params.id, 'view');
+	const { flight, user, role } = ctx;
+	const [a, events, notes] = await Promise.all([
+		aircraftOf(flight),
+		loadEvents(flight.id),
+		db
+			.select({ id: flightNotes.id, t: flightNotes.t, body: flightNotes.body, createdAt: flightNotes.createdAt, authorId: flightNotes.authorId, author: users.name })
+			.from(flightNotes)
+			.leftJoin(users, eq(users.id, flightNotes.authorId))
+			.where(eq(flightNotes.flightId, flight.id))
+			.orderBy(asc(flightNotes.createdAt))
+	]);
+	const people = [flight.pilotId, flight.instructorId].filter((x): x is string => x !== null);
+	const names = people.length ? await db.select({ id: users.id, name: users.name }).from(users).where(inArray(users.id, people)) : [];
+	const nameOf = (id: string | null) => names.find((n) => n.id === id)?.name ?? null;
+	const unit = user.prefFuelUnit ?? a.displayUnit;
+	return {
+		flight: {
+			id: flight.id,
+			title: flight.title,
+			status: flight.status,
+			source: flight.source,
+			startedAt: flight.startedAt,
+			endedAt: flight.endedAt,
+			declaration: flight.declaration as Declaration,
+			previousOnBoardL: flight.previousOnBoardL,
+			declarationConfirmed: flight.declarationConfirmed,
+			sampleCount: flight.sampleCount,
+			notes: flight.notes,
+			pilot: nameOf(flight.pilotId),
+			instructor: nameOf(flight.instructorId)
+		},
+		aircraft: { id: a.id, registration: a.registration, type: a.type, displayUnit: a.displayUnit, densityKgPerL: a.densityKgPerL, fuelType: a.fuelType },
+		setup: fuelSetupOf(a),
+		events: events.map((e) => ({ id: e.id, t: e.t.getTime() / 1000, kind: e.kind, amountL: e.amountL, note: e.note })),
+		notes,
+		declarationValues: declarationFormValues(flight.declaration as Declaration, flight.previousOnBoardL, unit, a.densityKgPerL),
+		unit,
+		may: {
+			edit: mayOnFlight(ctx, flight, 'edit'),
+			annotate: mayOnFlight(ctx, flight, 'annotate'),
+			removeAnyNote: can(role, 'editAnyFlight')
+		},
+		userId: user.id
+	};
+}) satisfies PageServerLoad;
+
+export const actions = {
+	declaration: async (event) => {
+		const { flight } = await requireFlight(event, event.params.org, event.params.id, 'edit');
+		const a = await aircraftOf(flight);
+		const form = parseForm(declarationFormSchema(a.densityKgPerL), await event.request.formData());
+		if (!form.ok) return failForm(400, form.errors, form.values, 'declaration');
+		await saveDeclaration(flight, form.data);
+		return { action: 'declaration', saved: true };
+	},
+	addEvent: async (event) => {
+		const { flight, user } = await requireFlight(event, event.params.org, event.params.id, 'edit');
+		const a = await aircraftOf(flight);
+		const form = parseForm(fuelEventFormSchema(a.densityKgPerL), await event.request.formData());
+		if (!form.ok) return failForm(400, form.errors, form.values, 'addEvent');
+		const done = await addFuelEvent(flight, form.data, user.id);
+		if (!done.ok) return failForm(400, { [done.field]: done.message }, form.values, 'addEvent');
+		return { action: 'addEvent', saved: true };
+	},
+	removeEvent: async (event) => {
+		const { flight } = await requireFlight(event, event.params.org, event.params.id, 'edit');
+		const form = parseForm(idFormSchema, await event.request.formData());
+		if (!form.ok) return failForm(400, form.errors, form.values, 'removeEvent');
+		const done = await removeFuelEvent(flight, form.data.id);
+		if (!done.ok) return failForm(404, { [done.field]: done.message }, form.values, 'removeEvent');
+		return { action: 'removeEvent', saved: true };
+	},
+	addNote: async (event) => {
+		const { flight, user } = await requireFlight(event, event.params.org, event.params.id, 'annotate');
+		const form = parseForm(noteFormSchema, await event.request.formData());
+		if (!form.ok) return failForm(400, form.errors, form.values, 'addNote');
+		await addNote(flight, form.data, user.id);
+		return { action: 'addNote', saved: true };
+	},
+	removeNote: async (event) => {
+		const { flight, user, role } = await requireFlight(event, event.params.org, event.params.id, 'annotate');
+		const form = parseForm(idFormSchema, await event.request.formData());
+		if (!form.ok) return failForm(400, form.errors, form.values, 'removeNote');
+		const done = await removeNote(flight, form.data.id, user.id, can(role, 'editAnyFlight'));
+		if (!done.ok) return failForm(404, { [done.field]: done.message }, form.values, 'removeNote');
+		return { action: 'removeNote', saved: true };
+	}
+} satisfies Actions;
