@@ -221,6 +221,26 @@ describe('catch-up and clean-up', () => {
 		await inst.stop();
 	});
 
+	it('ends the stream of a closed flight once the viewer holds all of it, and a live viewer with it', async () => {
+		const flightId = await openFlight();
+		await send(flightId, 0, 40);
+		const hub = new LiveHub();
+		const inst = await startInstance(hub);
+		const following = viewer(`${inst.url}/stream/${flightId}`);
+		await following.waitFor(39);
+		expect((await call('close', w.tokenA, { flightId })).status).toBe(200);
+		const late = viewer(`${inst.url}/stream/${flightId}`, 9);
+		const deadline = Date.now() + 5000;
+		while (!(following.statuses.includes('ended') && late.statuses.includes('ended')) && Date.now() < deadline) await sleep(20);
+		expect(following.statuses.at(-1)).toBe('ended');
+		expect(late.statuses.at(-1)).toBe('ended');
+		expect(late.seqs).toEqual(range(10, 39));
+		expect(following.metas.at(-1)?.flight.status).toBe('closed');
+		expect(following.stream.connections + late.stream.connections).toBe(2);
+		expect(hub.stats()).toMatchObject({ viewers: 0, flights: 0 });
+		await inst.stop();
+	});
+
 	it('leaves no server-side state after many connect/disconnect cycles', async () => {
 		const flightId = await openFlight();
 		await send(flightId, 0, 10);

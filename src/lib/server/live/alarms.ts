@@ -7,6 +7,7 @@ import { db } from '../db';
 import { aircraft, flightAlarms, flights, memberships, organisations, users, watches, type Aircraft, type Flight } from '../db/schema';
 import { link, sendMail } from '../mail';
 import { fuel } from '$lib/format';
+import { alarmLabels } from '$lib/components/replay/labels';
 import { formatDuration, fromLitres, fromLitresPerHour, flowUnitLabels, fuelUnitLabels, type FlowUnit } from '$lib/units';
 import type { Computed } from './computation';
 import type { Queryable } from './samples';
@@ -95,11 +96,8 @@ export async function syncAlarms(q: Queryable, flight: Flight, computed: Compute
 	return { changed, toMail };
 }
 
-const TITLES: Record<AlarmKind, string> = {
-	lowFuel: 'Low fuel on board',
-	lowEndurance: 'Low endurance',
-	negativeReserve: 'Negative reserve at the next waypoint'
-};
+// The words the replay and live pages use for the same alarms.
+const TITLES: Record<AlarmKind, string> = alarmLabels;
 
 function flowText(lph: number, unit: string, density: number): string {
 	if (!Number.isFinite(lph)) return '—';

@@ -13,6 +13,8 @@ interface Viewer {
 	cursor: number;
 	/** False once the connection is gone. */
 	send(event: string, data: string): boolean;
+	/** Ends the connection: the flight is closed and this viewer holds all of it. */
+	end?(): void;
 }
 
 interface FlightState {
@@ -72,7 +74,7 @@ export class LiveHub {
 	 * at once, then every sample after its cursor, as catch-up pages and then live runs. Returns
 	 * the function that removes it.
 	 */
-	async subscribe(flightId: string, after: number, send: Viewer['send']): Promise<() => void> {
+	async subscribe(flightId: string, after: number, send: Viewer['send'], end?: Viewer['end']): Promise<() => void> {
 		if (this.stopped) throw new Error('The live hub is stopped.');
 		// Listen first: a batch committed between reading the head and listening would be missed.
 		await this.listen();
@@ -100,7 +102,7 @@ export class LiveHub {
 		}
 		await fs.ready;
 		const state = fs;
-		const viewer: Viewer = { cursor: after, send };
+		const viewer: Viewer = { cursor: after, send, end };
 		state.viewers.add(viewer);
 		if (state.metaJson) viewer.send(EVENT_META, state.metaJson);
 		this.pump(state);
@@ -153,6 +155,7 @@ export class LiveHub {
 						for (const v of fs.viewers) if (!v.send(EVENT_META, fs.metaJson)) fs.viewers.delete(v);
 					}
 					await this.catchUp(fs);
+					if (fs.meta?.flight.status === 'closed') this.endCaughtUp(fs);
 				} while ((fs.again || fs.metaDirty) && fs.viewers.size > 0);
 			} catch (error) {
 				console.error(`[live${this.options.name ? ` ${this.options.name}` : ''}] delivery for flight ${fs.id} failed:`, (error as Error).message);
@@ -162,6 +165,16 @@ export class LiveHub {
 				fs.pumping = false;
 			}
 		})();
+	}
+
+	/** A closed flight changes no more: viewers holding all of it are told so and let go. */
+	private endCaughtUp(fs: FlightState): void {
+		for (const v of fs.viewers) {
+			if (v.cursor < fs.head || !v.end) continue;
+			fs.viewers.delete(v);
+			v.end();
+		}
+		if (fs.viewers.size === 0 && this.flights.get(fs.id) === fs) this.flights.delete(fs.id);
 	}
 
 	private async catchUp(fs: FlightState): Promise<void> {

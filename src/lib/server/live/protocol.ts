@@ -82,3 +82,5 @@ export interface MetaEvent {
 export const EVENT_HELLO = 'hello';
 export const EVENT_META = 'meta';
 export const EVENT_SAMPLES = 'samples';
+/** The flight is closed and the client holds every sample: do not reconnect. */
+export const EVENT_END = 'end';

@@ -4,7 +4,7 @@
 import { produce } from 'sveltekit-sse';
 import { PING_MS } from './config';
 import type { LiveHub } from './hub';
-import { EVENT_HELLO, type HelloEvent } from './protocol';
+import { EVENT_END, EVENT_HELLO, type HelloEvent } from './protocol';
 
 /** The cursor from the query string: -1 (nothing seen yet) when absent or unusable. */
 export function parseAfter(raw: string | null): number {
@@ -13,7 +13,10 @@ export function parseAfter(raw: string | null): number {
 	return Number.isInteger(n) && n >= -1 && n <= 2_147_483_647 ? n : -1;
 }
 
-/** A text/event-stream response: hello, meta, then sample runs after `after`, and pings. */
+/**
+ * A text/event-stream response: hello, meta, then sample runs after `after`, and pings; for a
+ * closed flight, `end` once the client holds all of it, and the stream closes.
+ */
 export function liveStream(hub: LiveHub, flightId: string, after: number): Response {
 	let unsubscribe: (() => void) | null = null;
 	let gone = false;
@@ -36,7 +39,11 @@ export function liveStream(hub: LiveHub, flightId: string, after: number): Respo
 			const hello: HelloEvent = { flightId, after, serverTime: Date.now() };
 			if (!send(EVENT_HELLO, JSON.stringify(hello))) return stop;
 			try {
-				const off = await hub.subscribe(flightId, after, send);
+				const end = () => {
+					send(EVENT_END, '{}');
+					lock.set(false);
+				};
+				const off = await hub.subscribe(flightId, after, send, end);
 				if (gone) off();
 				else unsubscribe = off;
 			} catch (error) {

@@ -4,7 +4,8 @@
 // a sample; a watchdog reconnects when even the pings stop (a dead link looks like silence).
 import type { HelloEvent, MetaEvent, SamplesEvent } from '$lib/server/live/protocol';
 
-export type StreamStatus = 'connecting' | 'open' | 'reconnecting' | 'denied' | 'closed';
+/** ended: the flight is closed and everything was received; closed: close() was called. */
+export type StreamStatus = 'connecting' | 'open' | 'reconnecting' | 'denied' | 'ended' | 'closed';
 
 export interface LiveStreamOptions {
 	/** The stream URL without the query string, e.g. /api/v1/flights/<id>/stream. */
@@ -69,6 +70,7 @@ export function openLiveStream(o: LiveStreamOptions): LiveStream {
 	const maxRetry = o.maxRetryMs ?? 8000;
 	let cursor = o.after ?? -1;
 	let closed = false;
+	let ended = false;
 	let connections = 0;
 	let repeated = 0;
 	let skipped = 0;
@@ -109,6 +111,10 @@ export function openLiveStream(o: LiveStreamOptions): LiveStream {
 			o.onSamples?.(part);
 		} else if (event === 'meta') o.onMeta?.(JSON.parse(data) as MetaEvent);
 		else if (event === 'hello') o.onHello?.(JSON.parse(data) as HelloEvent);
+		else if (event === 'end') {
+			ended = true;
+			return false;
+		}
 		return true;
 	};
 
@@ -148,6 +154,10 @@ export function openLiveStream(o: LiveStreamOptions): LiveStream {
 				if (!ok) break;
 			}
 			await reader.cancel().catch(() => {});
+			if (ended) {
+				status('ended');
+				return 'stop';
+			}
 			return 'retry';
 		} catch {
 			return closed ? 'stop' : 'retry';
