@@ -6,6 +6,8 @@ import { securityHeaders } from '$lib/server/hooks/security-headers';
 import { closeDb } from '$lib/server/db';
 
 export const handle = sequence(securityHeaders, authenticate, originGuard);
+// Live flights: starts the idle sweeper; the live module closes its LISTEN connection on shutdown.
+export { init } from '$lib/server/live';
 
 export const handleError: HandleServerError = ({ error, status, message }) => {
 	if (status >= 500) console.error('[server]', error);

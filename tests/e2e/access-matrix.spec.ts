@@ -56,6 +56,8 @@ const MATRIX: Row[] = [
 	{ route: '/o/[org]/flights/[id]', method: 'GET', path: (i) => `${O}/flights/${i.pilotFlight}`, expect: only(FLIGHT_VIEWERS, 200) },
 	{ route: '/o/[org]/flights/[id]/live', method: 'GET', path: (i) => `${O}/flights/${i.pilotFlight}/live`, expect: only(FLIGHT_VIEWERS, 200) },
 	{ route: '/api/v1/flights/[id]/samples', method: 'GET', path: (i) => `/api/v1/flights/${i.pilotFlight}/samples`, expect: only(FLIGHT_VIEWERS, 200, 401) },
+	// A closed flight's stream ends once it has sent every sample, so a GET returns.
+	{ route: '/api/v1/flights/[id]/stream', method: 'GET', path: (i) => `/api/v1/flights/${i.pilotFlight}/stream`, expect: only(FLIGHT_VIEWERS, 200, 401) },
 	{ route: '/api/v1/flights/[id]/export', method: 'GET', path: (i) => `/api/v1/flights/${i.pilotFlight}/export`, expect: only(FLIGHT_VIEWERS, 200, 401) },
 	{ route: '/api/v1/flights', method: 'POST', path: () => `/api/v1/flights?aircraftId=${DEMO_AIRCRAFT.trainer}`, form: {}, expect: only(FLIGHT_EDITORS.concat('student'), 400, 401) }
 ];

@@ -4,18 +4,27 @@ import { db } from '$lib/server/db';
 import { calibrations } from '$lib/server/db/schema';
 import { aircraftFormValues, setArchived, updateAircraft } from '$lib/server/services/aircraft';
 import { recordCalibration } from '$lib/server/services/calibration';
+import { isWatching, setWatching } from '$lib/server/live/watches';
 import { failForm, parseForm } from '$lib/schemas/form';
 import { aircraftFormSchema } from '$lib/schemas/aircraft';
 import { calibrationFormSchema } from '$lib/schemas/calibration';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load = (async (event) => {
-	const { aircraft } = await requireAircraft(event, event.params.org, event.params.id, 'viewFleet');
+	const { aircraft, user } = await requireAircraft(event, event.params.org, event.params.id, 'viewFleet');
 	const history = await db.select().from(calibrations).where(eq(calibrations.aircraftId, aircraft.id)).orderBy(desc(calibrations.createdAt)).limit(20);
-	return { aircraft, values: aircraftFormValues(aircraft), calibrations: history };
+	const watching = await isWatching(user.id, { aircraftId: aircraft.id });
+	return { aircraft, values: aircraftFormValues(aircraft), calibrations: history, watching };
 }) satisfies PageServerLoad;
 
 export const actions = {
+	// Alarm e-mails for every live flight of this aircraft (src/lib/server/live).
+	watch: async (event) => {
+		const { aircraft, user } = await requireAircraft(event, event.params.org, event.params.id, 'viewFleet');
+		const on = (await event.request.formData()).get('on') === '1';
+		await setWatching(user.id, { aircraftId: aircraft.id }, on);
+		return { action: 'watch', watching: on };
+	},
 	save: async (event) => {
 		const { org, aircraft } = await requireAircraft(event, event.params.org, event.params.id, 'manageAircraft');
 		const form = parseForm(aircraftFormSchema, await event.request.formData());

@@ -1,0 +1,132 @@
+// The live page's state: the stream connection, the flight's meta (declaration, events, alarms)
+// and the incremental fuel computation fed by each run of samples, so every figure updates with
+// the same engine a replay runs. Redraws are batched to a few per second however fast data comes.
+import { engineInputsOf, type AircraftFuelSetup } from '$lib/flight-inputs';
+import { createLiveComputation, WPT_NONE, type Declaration, type FlightComputation, type LiveComputation, type SampleColumns } from '$lib/fuel';
+import type { MetaEvent, SamplesEvent } from '$lib/server/live/protocol';
+import { openLiveStream, type LiveStream, type StreamStatus } from './stream-client';
+
+/** Longest pause between redraws while samples stream in. */
+const REDRAW_MS = 250;
+
+export class LiveFlight {
+	status = $state<StreamStatus>('connecting');
+	/** True once a connection has been open: later drops are "link lost", not "connecting". */
+	everOpen = $state(false);
+	meta = $state.raw<MetaEvent | null>(null);
+	/** Bumped when the figures changed; read it to recompute derived values. */
+	version = $state(0);
+	/** When the server stored the newest samples we hold (server clock, epoch ms). */
+	lastReceivedAt = $state<number | null>(null);
+	waypoints = $state.raw<string[]>([]);
+	/** Server clock minus this browser's clock, from the stream's hello. */
+	offsetMs = 0;
+
+	private comp: LiveComputation;
+	private ids = new Map<string, number>();
+	private stream: LiveStream | null = null;
+	private inputsKey = '';
+	private redraw: ReturnType<typeof setTimeout> | null = null;
+
+	constructor(
+		private readonly setup: AircraftFuelSetup,
+		private readonly url: string,
+		start: { declaration: Declaration; previousOnBoardL: number | null }
+	) {
+		this.comp = createLiveComputation({ ...engineInputsOf(setup, start, []), initialCapacity: 8192 });
+		this.inputsKey = JSON.stringify([start.declaration, start.previousOnBoardL, []]);
+	}
+
+	start(): void {
+		this.stream = openLiveStream({
+			url: this.url,
+			after: -1,
+			onHello: (h) => {
+				this.offsetMs = h.serverTime - Date.now();
+			},
+			onMeta: (m) => this.applyMeta(m),
+			onSamples: (run) => this.append(run),
+			onStatus: (s) => {
+				this.status = s;
+				if (s === 'open') this.everOpen = true;
+			}
+		});
+	}
+
+	stop(): void {
+		this.stream?.close();
+		this.stream = null;
+		if (this.redraw) clearTimeout(this.redraw);
+	}
+
+	/** After the tab slept or the network came back: reconnect now rather than at the next retry. */
+	nudge(): void {
+		this.stream?.reconnect();
+	}
+
+	get length(): number {
+		return this.comp.length;
+	}
+	get cursor(): number {
+		return this.stream?.cursor ?? -1;
+	}
+
+	/** The figures so far; views valid until the next change (read `version` first). */
+	result(): FlightComputation {
+		return this.comp.result();
+	}
+	columns(): SampleColumns {
+		return this.comp.columns();
+	}
+
+	private applyMeta(m: MetaEvent): void {
+		const key = JSON.stringify([m.declaration, m.previousOnBoardL, m.events.map((e) => [e.t, e.kind, e.amountL])]);
+		if (key !== this.inputsKey) {
+			// A declaration set or corrected by anyone, or a fuel event: recompute from the start.
+			this.inputsKey = key;
+			const inputs = engineInputsOf(this.setup, m, m.events);
+			this.comp.setEvents(inputs.events);
+			this.comp.setDeclaration(inputs.declaration, inputs.previousOnBoardL);
+		}
+		if (m.flight.receivedAt !== null && (this.lastReceivedAt === null || m.flight.receivedAt > this.lastReceivedAt)) this.lastReceivedAt = m.flight.receivedAt;
+		this.meta = m;
+		this.version++;
+	}
+
+	private append(run: SamplesEvent): void {
+		const n = run.tMs.length;
+		const t = new Float64Array(n);
+		const flow = new Float64Array(n);
+		const gs = new Float64Array(n);
+		const dtg = new Float64Array(n);
+		const alt = new Float64Array(n);
+		const wpt = new Int32Array(n);
+		let newNames = false;
+		for (let i = 0; i < n; i++) {
+			// (t0 + offset) ms ÷ 1000: the same double the server's engine is fed.
+			t[i] = (run.t0Ms + run.tMs[i]) / 1000;
+			flow[i] = run.flow[i] ?? NaN;
+			gs[i] = run.gs[i] ?? NaN;
+			dtg[i] = run.dtg[i] ?? NaN;
+			alt[i] = run.alt[i] ?? NaN;
+			const w = run.wpt[i];
+			if (w === null || w === '') wpt[i] = WPT_NONE;
+			else {
+				let id = this.ids.get(w);
+				if (id === undefined) {
+					id = this.ids.size;
+					this.ids.set(w, id);
+					newNames = true;
+				}
+				wpt[i] = id;
+			}
+		}
+		this.comp.append({ t, flow, gs, dtg, alt, wpt });
+		if (newNames) this.waypoints = [...this.ids.keys()];
+		if (this.lastReceivedAt === null || run.at > this.lastReceivedAt) this.lastReceivedAt = run.at;
+		this.redraw ??= setTimeout(() => {
+			this.redraw = null;
+			this.version++;
+		}, REDRAW_MS);
+	}
+}

@@ -1,0 +1,56 @@
+import { and, asc, eq, isNull } from 'drizzle-orm';
+import { z } from 'zod';
+import { requireMember } from '$lib/server/access';
+import { db } from '$lib/server/db';
+import { aircraft } from '$lib/server/db/schema';
+import { listRecorders, registerRecorder, revokeRecorder, rotateRecorder } from '$lib/server/live/recorders';
+import { idleCloseMinutes } from '$lib/server/live/config';
+import { failForm, parseForm } from '$lib/schemas/form';
+import type { Actions, PageServerLoad } from './$types';
+
+const registerSchema = z.object({
+	aircraftId: z.uuid('Choose the aircraft the recorder is fitted to.'),
+	name: z.string().trim().min(1, 'Give the recorder a name, e.g. "Panel recorder".').max(80, 'Use at most 80 characters.')
+});
+const idSchema = z.object({ id: z.uuid('That recorder is not in this organisation.') });
+
+// The organisation's recorders with their last contact, and the aircraft a new one can go to.
+export const load = (async (event) => {
+	const { org } = await requireMember(event, event.params.org, 'manageRecorders');
+	const [list, fleet] = await Promise.all([
+		listRecorders(org.id),
+		db
+			.select({ id: aircraft.id, registration: aircraft.registration })
+			.from(aircraft)
+			.where(and(eq(aircraft.orgId, org.id), isNull(aircraft.archivedAt)))
+			.orderBy(asc(aircraft.registration))
+	]);
+	return { recorders: list, fleet, idleCloseMinutes: idleCloseMinutes() };
+}) satisfies PageServerLoad;
+
+// The new token is in the action's answer only: it is never stored and never shown again.
+export const actions = {
+	register: async (event) => {
+		const { org } = await requireMember(event, event.params.org, 'manageRecorders');
+		const form = parseForm(registerSchema, await event.request.formData());
+		if (!form.ok) return failForm(400, form.errors, form.values, 'register');
+		const made = await registerRecorder(org.id, form.data.aircraftId, form.data.name);
+		if ('error' in made) return failForm(400, { [made.field]: made.error }, form.values, 'register');
+		return { action: 'register', recorderId: made.id, token: made.token, name: form.data.name };
+	},
+	rotate: async (event) => {
+		const { org } = await requireMember(event, event.params.org, 'manageRecorders');
+		const form = parseForm(idSchema, await event.request.formData());
+		if (!form.ok) return failForm(400, form.errors, form.values, 'rotate');
+		const token = await rotateRecorder(org.id, form.data.id);
+		if (!token) return failForm(400, { id: 'That recorder is revoked or not in this organisation.' }, form.values, 'rotate');
+		return { action: 'rotate', recorderId: form.data.id, token };
+	},
+	revoke: async (event) => {
+		const { org } = await requireMember(event, event.params.org, 'manageRecorders');
+		const form = parseForm(idSchema, await event.request.formData());
+		if (!form.ok) return failForm(400, form.errors, form.values, 'revoke');
+		if (!(await revokeRecorder(org.id, form.data.id))) return failForm(400, { id: 'That recorder is already revoked or not in this organisation.' }, form.values, 'revoke');
+		return { action: 'revoke', recorderId: form.data.id };
+	}
+} satisfies Actions;
