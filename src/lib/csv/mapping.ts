@@ -33,7 +33,7 @@ export const timeMappingSchema = z.object({
 	format: z.enum(timeFormats, 'Choose how the time is written.'),
 	/** For elapsedS: the date-time of elapsed 0, ISO 8601 with Z or an offset. */
 	start: z.string().trim().regex(ISO_WITH_ZONE, 'Give the start as a date-time with Z or an offset, e.g. 2026-05-02T09:00:00Z.').optional(),
-	/** For clock: the UTC date of the first sample, YYYY-MM-DD. */
+	/** For clock: the date of the first sample on the recorder's clock, YYYY-MM-DD. */
 	date: z.string().trim().regex(/^\d{4}-\d{2}-\d{2}$/, 'Give the date as YYYY-MM-DD.').optional(),
 	/** For clock: minutes to add to UTC to get the recorder's clock (e.g. 120 for UTC+2). */
 	utcOffsetMin: z.number().int().min(-14 * 60).max(14 * 60).optional()
