@@ -43,9 +43,9 @@ export function parseUtc(text: string): Date | null {
 	return date;
 }
 
-/** The value a datetime-local field shows for an instant, in UTC, to the second. */
+/** An instant as a form field shows it: UTC, to the second, "2025-05-14 10:32:05". */
 export function utcFieldValue(epochSeconds: number): string {
-	return new Date(Math.round(epochSeconds) * 1000).toISOString().slice(0, 19);
+	return new Date(Math.round(epochSeconds) * 1000).toISOString().slice(0, 19).replace('T', ' ');
 }
 
 const utcText = (what: string) =>

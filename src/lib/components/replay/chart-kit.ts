@@ -167,14 +167,21 @@ export function dot(u: uPlot, t: number, value: number, colour: string, label: s
 }
 
 /** A label at the right edge of the plot, at `value` on the y scale (kept inside the plot). */
-export function edgeLabel(u: uPlot, value: number, colour: string, label: string) {
+export function edgeLabel(u: uPlot, value: number, colour: string, label: string, background?: string) {
 	const { ctx, bbox } = u;
-	const y = Math.max(bbox.top + px(u, 14), Math.min(bbox.top + bbox.height - px(u, 4), u.valToPos(value, 'y', true)));
+	const y = Math.max(bbox.top + px(u, 20), Math.min(bbox.top + bbox.height - px(u, 4), u.valToPos(value, 'y', true) - px(u, 8)));
 	clip(u, () => {
 		ctx.font = font(u, 11, 600);
+		const w = ctx.measureText(label).width;
+		const right = bbox.left + bbox.width - px(u, 4);
+		if (background) {
+			// A plate behind the words, so they stay readable over the line they sit on.
+			ctx.fillStyle = background;
+			ctx.fillRect(right - w - px(u, 4), y - px(u, 15), w + px(u, 8), px(u, 16));
+		}
 		ctx.fillStyle = colour;
 		ctx.textAlign = 'right';
 		ctx.textBaseline = 'bottom';
-		ctx.fillText(label, bbox.left + bbox.width - px(u, 4), y - px(u, 4));
+		ctx.fillText(label, right, y - px(u, 2));
 	});
 }
