@@ -7,8 +7,13 @@ import type pg from 'pg';
 export interface FixtureOptions {
 	/** First sample, epoch seconds UTC. */
 	start?: number;
-	/** Cruise length in seconds; the rest of the profile adds 2,070 s. */
+	/** Cruise length in seconds; the rest of the profile adds PROFILE_OVERHEAD_S. */
 	cruiseS?: number;
+	/**
+	 * 'usgal': the recorder logged US gal/h to one decimal, stored converted to L/h (full doubles,
+	 * as an upload from a US recorder is); 'l' (default): L/h to two decimals.
+	 */
+	recordedIn?: 'l' | 'usgal';
 	/** Leave out this many samples from this offset (a recorder dropout). */
 	dropout?: { at: number; seconds: number } | null;
 }
@@ -37,6 +42,12 @@ const profile = (cruiseS: number): [number, number, number, number, number][] =>
 	[30, 0, 0, 420, 420]
 ];
 
+/** Seconds of taxi, climb, descent, taxi-in and shutdown around the cruise. */
+export const PROFILE_OVERHEAD_S = profile(0).reduce((a, p) => a + p[0], 0);
+
+/** 1 US gallon = 3.785411784 L (NIST Handbook 44, Appendix C). */
+const L_PER_USGAL = 3.785411784;
+
 export function generateFlight(o: FixtureOptions = {}): FixtureSamples {
 	const start = o.start ?? Date.UTC(2025, 4, 14, 9, 0, 0) / 1000;
 	const plan = profile(o.cruiseS ?? 3600);
@@ -58,7 +69,7 @@ export function generateFlight(o: FixtureOptions = {}): FixtureSamples {
 			if (!keep(s)) continue;
 			out.t[k] = start + s;
 			out.gs[k] = Math.round(g * 10) / 10;
-			out.flow[k] = Math.round(f * 100) / 100;
+			out.flow[k] = o.recordedIn === 'usgal' ? (Math.round((f / L_PER_USGAL) * 10) / 10) * L_PER_USGAL : Math.round(f * 100) / 100;
 			out.dtg[k] = Math.max(0, Math.round(((leg + 1) * LEG_NM - flown) * 100) / 100);
 			out.alt[k] = Math.round(alt0 + ((alt1 - alt0) * j) / len);
 			out.wpt[k] = WAYPOINTS[leg];
