@@ -15,8 +15,8 @@ import { rm } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { finished } from 'node:stream/promises';
-import { and, desc, eq } from 'drizzle-orm';
-import { drizzle, type NodePgDatabase } from 'drizzle-orm/node-postgres';
+import { eq } from 'drizzle-orm';
+import { drizzle } from 'drizzle-orm/node-postgres';
 import { from as copyFrom } from 'pg-copy-streams';
 import type pg from 'pg';
 import {
@@ -36,9 +36,9 @@ import {
 } from '$lib/csv';
 import { computeFlight, summarize, WPT_NONE, type FlightSummary, type SampleColumns } from '$lib/fuel';
 import { engineInputsOf, reserveOf } from '$lib/flight-inputs';
-import { pool } from '../db';
+import { db as poolDb, pool } from '../db';
 import * as schema from '../db/schema';
-import { aircraft as aircraftTable, flights, importProfiles, uploads, type Aircraft } from '../db/schema';
+import { aircraft as aircraftTable, flights, importProfiles, uploads, type Aircraft, type ImportProfile } from '../db/schema';
 import { SAMPLE_COPY_COLUMNS, SampleCopyEncoder, chunkTuple, copyHeader, copyTrailer, writeWithBackpressure } from './binary-copy';
 import { declarationProblem, toDeclaration, type DeclarationInput } from './declaration';
 
@@ -159,8 +159,14 @@ function titleFrom(fileName: string): string {
 	return fileName.replace(/\.(csv|txt|log)$/i, '').slice(0, 120);
 }
 
-/** Picks the mapping: the one given, the chosen profile, our own format, or a profile matching the header. */
-function mappingResolver(db: NodePgDatabase<typeof schema>, req: IngestRequest): MappingResolver {
+type Profile = Pick<ImportProfile, 'id' | 'name' | 'headerSignature' | 'mapping' | 'createdAt'>;
+
+/**
+ * Picks the mapping: the one given, the chosen profile, our own format, or the newest profile
+ * matching the header. The profiles are read before the upload takes its connection: a query
+ * needing a second connection while every pooled one waits for it would never finish.
+ */
+function mappingResolver(req: IngestRequest, profiles: readonly Profile[]): MappingResolver {
 	const withTimeBase = (m: ColumnMapping, origin: MappingOrigin, line: number): MappingChoice => {
 		const merged = { ...m, time: { ...m.time, ...(req.timeBase?.date ? { date: req.timeBase.date } : {}), ...(req.timeBase?.start ? { start: req.timeBase.start } : {}) } };
 		const checked = columnMappingSchema.safeParse(merged);
@@ -168,22 +174,18 @@ function mappingResolver(db: NodePgDatabase<typeof schema>, req: IngestRequest):
 		const issue = checked.error.issues[0];
 		return { problem: { line, column: '', value: '', message: `${origin.profileName ? `Import profile "${origin.profileName}": ` : ''}${issue.message}` } };
 	};
-	return async (header) => {
+	const fromProfile = (p: Profile, line: number) => withTimeBase(p.mapping as ColumnMapping, { kind: 'profile', profileId: p.id, profileName: p.name }, line);
+	return (header) => {
 		if (req.mapping) return withTimeBase(req.mapping, { kind: 'given' }, header.line);
 		if (req.profileId) {
-			const p = await db.query.importProfiles.findFirst({ where: and(eq(importProfiles.id, req.profileId), eq(importProfiles.orgId, req.orgId)) });
+			const p = profiles.find((x) => x.id === req.profileId);
 			if (!p) return { problem: { line: header.line, column: '', value: req.profileId, message: 'The chosen import profile does not exist in this organisation.' } };
-			return withTimeBase(p.mapping as ColumnMapping, { kind: 'profile', profileId: p.id, profileName: p.name }, header.line);
+			return fromProfile(p, header.line);
 		}
 		const ours = burndownMapping(header.names);
 		if ('mapping' in ours) return { mapping: ours.mapping, origin: { kind: 'burndown' } };
-		const [p] = await db
-			.select()
-			.from(importProfiles)
-			.where(and(eq(importProfiles.orgId, req.orgId), eq(importProfiles.headerSignature, header.signature)))
-			.orderBy(desc(importProfiles.createdAt))
-			.limit(1);
-		if (p) return withTimeBase(p.mapping as ColumnMapping, { kind: 'profile', profileId: p.id, profileName: p.name }, header.line);
+		const match = profiles.filter((x) => x.headerSignature === header.signature).sort((a, b) => b.createdAt.getTime() - a.createdAt.getTime())[0];
+		if (match) return fromProfile(match, header.line);
 		return {
 			problem: {
 				line: header.line,
@@ -198,6 +200,10 @@ function mappingResolver(db: NodePgDatabase<typeof schema>, req: IngestRequest):
 /** Stores a recorder file as a flight of `aircraft`, or says exactly why not. */
 export async function ingestRecorderFile(req: IngestRequest): Promise<IngestResult> {
 	const startedAt = performance.now();
+	const profiles = await poolDb
+		.select({ id: importProfiles.id, name: importProfiles.name, headerSignature: importProfiles.headerSignature, mapping: importProfiles.mapping, createdAt: importProfiles.createdAt })
+		.from(importProfiles)
+		.where(eq(importProfiles.orgId, req.orgId));
 	const client = await pool.connect();
 	const db = drizzle(client, { schema, casing: 'snake_case' });
 	const spoolPath = join(tmpdir(), `burndown-upload-${randomUUID()}`);
@@ -239,7 +245,7 @@ export async function ingestRecorderFile(req: IngestRequest): Promise<IngestResu
 		let rowIndex = 0;
 		let lastSeq = -1;
 
-		const summary = await parseRecorderCsv(tap(), mappingResolver(db, req), {
+		const summary = await parseRecorderCsv(tap(), mappingResolver(req, profiles), {
 			densityKgPerL: req.aircraft.densityKgPerL,
 			onRows: async (batch) => {
 				if (copyFailure.error) throw copyFailure.error;
