@@ -1,0 +1,231 @@
+// `npm run bench:live`: live fan-out under load, on loopback only. Serves the built app on its own
+// port against a scratch database, connects as many SSE viewers as this process holds (up to
+// 1,000) to one live flight, ingests batches 10 times a second, and prints commit-to-viewer latency
+// p50/p95/p99, samples lost and repeated (both must be 0), and the server's memory.
+// A benchmark, not a test: it prints figures and fails only when samples were lost or repeated.
+//
+//   npm run bench:live [-- --viewers 1000 --seconds 30 --per-batch 5 --rate 10]
+import { spawn } from 'node:child_process';
+import fs from 'node:fs';
+import { parseArgs } from 'node:util';
+import pg from 'pg';
+import { buildStaleReason, viteBuild } from './lib/build.mjs';
+import { inRoot } from './lib/paths.mjs';
+import { withDatabase } from './lib/pgclient.mjs';
+import { clusterSettings, ensureCluster } from './lib/postgres.mjs';
+import { hashToken, newToken } from '../src/lib/server/tokens';
+import { openLiveStream, type LiveStream } from '../src/routes/o/[org]/flights/[id]/live/stream-client';
+
+const { values: opt } = parseArgs({
+	options: {
+		viewers: { type: 'string', default: '1000' },
+		seconds: { type: 'string', default: '30' },
+		'per-batch': { type: 'string', default: '5' },
+		rate: { type: 'string', default: '10' },
+		port: { type: 'string', default: '4191' }
+	}
+});
+const VIEWERS = Math.min(1000, Math.max(1, Number(opt.viewers)));
+const SECONDS = Math.min(300, Math.max(5, Number(opt.seconds)));
+const PER_BATCH = Math.min(1000, Math.max(1, Number(opt['per-batch'])));
+const RATE = Math.min(50, Math.max(1, Number(opt.rate)));
+const PORT = Number(opt.port);
+const ORIGIN = `http://127.0.0.1:${PORT}`;
+const BENCH_DB = 'burndown_bench_live';
+
+const log = (s: string) => console.log(`bench:live: ${s}`);
+const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
+
+function memoryOf(pid: number): { rssMb: number; peakMb: number } {
+	const status = fs.readFileSync(`/proc/${pid}/status`, 'utf8');
+	const kb = (key: string) => Number(new RegExp(`${key}:\\s+(\\d+)`).exec(status)?.[1] ?? NaN);
+	return { rssMb: kb('VmRSS') / 1024, peakMb: kb('VmHWM') / 1024 };
+}
+
+function percentile(sorted: number[], p: number): number {
+	if (sorted.length === 0) return NaN;
+	return sorted[Math.min(sorted.length - 1, Math.floor((p / 100) * sorted.length))];
+}
+
+// ---- a scratch database on the project's disposable test cluster ---------------------------
+
+let adminUrl = process.env.BENCH_ADMIN_DATABASE_URL;
+if (!adminUrl) {
+	const { port, dataDir } = clusterSettings({ prefix: 'burndown-pgtest', portVar: 'BURNDOWN_TEST_PGPORT', dataVar: 'BURNDOWN_TEST_PGDATA', defaultPort: 54339 });
+	const cluster = await ensureCluster({ label: 'bench database', port, dataDir, fast: true, disposable: true, createdb: true });
+	adminUrl = cluster.appUrl('postgres');
+}
+const dbUrl = withDatabase(adminUrl, BENCH_DB);
+{
+	const c = new pg.Client({ connectionString: adminUrl });
+	await c.connect();
+	await c.query(`DROP DATABASE IF EXISTS ${BENCH_DB} WITH (FORCE)`);
+	await c.query(`CREATE DATABASE ${BENCH_DB}`);
+	await c.end();
+}
+await new Promise<void>((resolve, reject) => {
+	const p = spawn(inRoot('node_modules', '.bin', 'tsx'), ['scripts/migrate.ts'], { cwd: inRoot(), env: { ...process.env, DATABASE_URL: dbUrl }, stdio: 'inherit' });
+	p.on('exit', (code) => (code === 0 ? resolve() : reject(new Error(`migrate exit ${code}`))));
+});
+
+const recorderToken = newToken('bdr_');
+const viewerToken = newToken('bdk_');
+{
+	const c = new pg.Client({ connectionString: dbUrl });
+	await c.connect();
+	const org = (await c.query(`insert into organisations (name, slug) values ('Bench Hollow Flying Group', 'bench') returning id`)).rows[0].id;
+	await c.query(`insert into users (id, email, name, password_hash) values ('bench-viewer', 'viewer@bench.example', 'Bench viewer', 'x')`);
+	await c.query(`insert into memberships (org_id, user_id, role) values ($1, 'bench-viewer', 'viewer')`, [org]);
+	await c.query(`insert into api_tokens (user_id, name, token_hash) values ('bench-viewer', 'bench', $1)`, [hashToken(viewerToken)]);
+	const ac = (
+		await c.query(
+			`insert into aircraft (org_id, registration, type, fuel_type, density_kg_per_l, capacity_l, display_unit, reserve_rule, low_fuel_l, low_endurance_min, last_on_board_l)
+			 values ($1, 'BD-BEN', 'Four-seat trainer', 'avgas', 0.719, 151.4, 'usgal', 'faa-91.151-vfr-day', 20, 30, 140) returning id`,
+			[org]
+		)
+	).rows[0].id;
+	await c.query(`insert into recorders (org_id, aircraft_id, name, token_hash, token_hint) values ($1, $2, 'bench', $3, 'bdr_bench')`, [org, ac, hashToken(recorderToken)]);
+	await c.end();
+}
+
+// ---- the app ---------------------------------------------------------------------------------
+
+const stale = buildStaleReason();
+if (stale) {
+	log(`building the app first (${stale})`);
+	await viteBuild();
+}
+const server = spawn(process.execPath, ['build'], {
+	cwd: inRoot(),
+	env: { ...process.env, DATABASE_URL: dbUrl, PORT: String(PORT), HOST: '127.0.0.1', ORIGIN, SHUTDOWN_TIMEOUT: '2', SMTP_HOST: '127.0.0.1', SMTP_PORT: '9', BURNDOWN_DEMO: '0' },
+	stdio: ['ignore', 'pipe', 'pipe']
+});
+let serverLog = '';
+server.stdout.on('data', (d) => (serverLog += d));
+server.stderr.on('data', (d) => (serverLog += d));
+const stopServer = async () => {
+	if (server.exitCode !== null) return;
+	server.kill('SIGTERM');
+	await Promise.race([new Promise((r) => server.once('exit', r)), sleep(5000)]);
+	if (server.exitCode === null) server.kill('SIGKILL');
+};
+process.once('SIGINT', () => {
+	void stopServer().then(() => process.exit(130));
+});
+for (let i = 0; ; i++) {
+	try {
+		if ((await fetch(`${ORIGIN}/api/health`)).ok) break;
+	} catch {
+		/* not up yet */
+	}
+	if (i > 150 || server.exitCode !== null) {
+		console.error(serverLog);
+		throw new Error('the app did not start');
+	}
+	await sleep(200);
+}
+const idle = memoryOf(server.pid!);
+log(`app on ${ORIGIN} (pid ${server.pid}), ${idle.rssMb.toFixed(0)} MB resident when idle`);
+
+async function post(route: string, body: unknown): Promise<Record<string, unknown>> {
+	const res = await fetch(`${ORIGIN}/api/v1/live/${route}`, { method: 'POST', headers: { authorization: `Bearer ${recorderToken}`, 'content-type': 'application/json' }, body: JSON.stringify(body) });
+	if (!res.ok) throw new Error(`${route} answered ${res.status}: ${await res.text()}`);
+	return (await res.json()) as Record<string, unknown>;
+}
+const flightId = String((await post('open', { declaration: { kind: 'full' } })).flightId);
+
+// ---- viewers ---------------------------------------------------------------------------------
+
+interface Viewer {
+	stream: LiveStream;
+	received: number;
+	lat: number[];
+	failed: boolean;
+}
+const viewers: Viewer[] = [];
+let measuring = false;
+const t0 = Date.now();
+for (let i = 0; i < VIEWERS; i++) {
+	const v: Viewer = { stream: null as unknown as LiveStream, received: 0, lat: [], failed: false };
+	v.stream = openLiveStream({
+		url: `${ORIGIN}/api/v1/flights/${flightId}/stream`,
+		headers: { authorization: `Bearer ${viewerToken}` },
+		minRetryMs: 200,
+		maxRetryMs: 2000,
+		onSamples: (run) => {
+			v.received += run.to - run.from + 1;
+			if (measuring) v.lat.push(Date.now() - run.at);
+		},
+		onStatus: (s) => {
+			if (s === 'denied') v.failed = true;
+		}
+	});
+	viewers.push(v);
+	if (i % 50 === 49) await sleep(50);
+}
+// Wait until every viewer's connection is open (or give up on the ones that cannot).
+for (let i = 0; i < 200 && viewers.some((v) => v.stream.connections === 0 && !v.failed); i++) await sleep(100);
+const connected = viewers.filter((v) => v.stream.connections > 0).length;
+log(`${connected} of ${VIEWERS} viewers connected in ${((Date.now() - t0) / 1000).toFixed(1)} s`);
+const withViewers = memoryOf(server.pid!);
+
+// ---- ingest ----------------------------------------------------------------------------------
+
+const startMs = Date.UTC(2026, 6, 1, 9, 0, 0);
+let seq = 0;
+let batches = 0;
+let postMs: number[] = [];
+measuring = true;
+const endAt = Date.now() + SECONDS * 1000;
+const period = 1000 / RATE;
+let nextAt = Date.now();
+while (Date.now() < endAt) {
+	const samples = [];
+	for (let k = 0; k < PER_BATCH; k++, seq++) samples.push({ seq, t: new Date(startMs + seq * 200).toISOString(), flow: 34 + Math.sin(seq / 50), gs: 110, dtg: Math.max(0, 90 - seq * 0.006), wpt: 'BENCH' });
+	const sent = Date.now();
+	await post('samples', { flightId, samples });
+	postMs.push(Date.now() - sent);
+	batches++;
+	nextAt += period;
+	const wait = nextAt - Date.now();
+	if (wait > 0) await sleep(wait);
+}
+const lastSeq = seq - 1;
+for (let i = 0; i < 300 && viewers.some((v) => v.stream.connections > 0 && v.stream.cursor < lastSeq); i++) await sleep(100);
+measuring = false;
+const atEnd = memoryOf(server.pid!);
+
+// ---- figures ---------------------------------------------------------------------------------
+
+const all = viewers.filter((v) => v.stream.connections > 0).flatMap((v) => v.lat).sort((a, b) => a - b);
+let lost = 0;
+let repeated = 0;
+let skipped = 0;
+for (const v of viewers) {
+	if (v.stream.connections === 0) continue;
+	lost += lastSeq + 1 - v.received;
+	repeated += v.stream.repeated;
+	skipped += v.stream.skipped;
+}
+postMs = postMs.sort((a, b) => a - b);
+const reconnects = viewers.reduce((n, v) => n + Math.max(0, v.stream.connections - 1), 0);
+console.log(`
+Live fan-out benchmark (loopback, ${new Date().toISOString().slice(0, 10)}, Node ${process.version}, one app instance)
+  viewers held          ${connected} of ${VIEWERS} asked (one process), ${reconnects} reconnects
+  ingest                ${batches} batches of ${PER_BATCH} samples at ${RATE}/s for ${SECONDS} s (${lastSeq + 1} samples); POST p50 ${percentile(postMs, 50)} ms, p95 ${percentile(postMs, 95)} ms
+  commit → viewer       p50 ${percentile(all, 50)} ms   p95 ${percentile(all, 95)} ms   p99 ${percentile(all, 99)} ms   max ${all.at(-1)} ms  (${all.length} deliveries)
+  samples lost          ${lost}
+  samples repeated      ${repeated}   (runs skipping ahead: ${skipped})
+  server memory (RSS)   idle ${idle.rssMb.toFixed(0)} MB · with viewers ${withViewers.rssMb.toFixed(0)} MB · at the end ${atEnd.rssMb.toFixed(0)} MB · peak ${atEnd.peakMb.toFixed(0)} MB
+  target                p95 ≤ 1000 ms at 1,000 viewers: ${percentile(all, 95) <= 1000 && connected >= 1000 ? 'met' : 'NOT met'}`);
+
+for (const v of viewers) v.stream.close();
+await sleep(300);
+await stopServer();
+{
+	const c = new pg.Client({ connectionString: adminUrl });
+	await c.connect();
+	await c.query(`DROP DATABASE IF EXISTS ${BENCH_DB} WITH (FORCE)`);
+	await c.end();
+}
+process.exit(lost === 0 && repeated === 0 ? 0 : 1);
