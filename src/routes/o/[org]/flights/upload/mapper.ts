@@ -68,8 +68,9 @@ export function mappingFromDraft(d: MappingDraft): { mapping: ColumnMapping } | 
 		time: {
 			column: d.time.column,
 			format: d.time.format,
-			...(d.time.format === 'clock' ? { date: d.time.date, utcOffsetMin: Math.round(offsetH * 60) } : {}),
-			...(d.time.format === 'elapsedS' ? { start: d.time.start } : {})
+			// Left out while empty, so the message asks for the date rather than its format.
+			...(d.time.format === 'clock' ? { ...(d.time.date ? { date: d.time.date } : {}), utcOffsetMin: Math.round(offsetH * 60) } : {}),
+			...(d.time.format === 'elapsedS' && d.time.start ? { start: d.time.start } : {})
 		},
 		flow: d.flow,
 		gs: opt(d.gs),
