@@ -4,7 +4,7 @@
 // Outside it, after the commit, the alarm e-mails.
 import { eq, sql } from 'drizzle-orm';
 import { formatTimeMs } from '$lib/csv';
-import { db } from '../db';
+import { db, type Tx } from '../db';
 import { flights, type Flight, type Recorder } from '../db/schema';
 import { mailAlarms, syncAlarms, type NewAlarm } from './alarms';
 import type { Batch, BatchProblem } from './batch';
@@ -27,7 +27,8 @@ export interface Ack {
 	declarationConfirmed: boolean;
 }
 
-async function targetFlight(tx: Parameters<Parameters<typeof db.transaction>[0]>[0], recorder: Recorder, batch: Batch) {
+/** The flight a batch goes to: the one it names, the recorder's open one, or a new one. */
+async function targetFlight(tx: Tx, recorder: Recorder, batch: Batch) {
 	if (batch.flightId) {
 		const [f] = await tx.select().from(flights).where(eq(flights.id, batch.flightId)).for('update').limit(1);
 		if (!f) throw new LiveRefusal(404, { error: 'No such flight: send the flightId an earlier answer gave, or leave it out.', field: 'flightId' });
