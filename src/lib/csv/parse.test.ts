@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { LITRES_PER_US_GALLON, LITRES_PER_IMPERIAL_GALLON, KG_PER_POUND } from '$lib/units';
 import { columnMappingSchema, type ColumnMapping } from './mapping';
-import { parseRecorderCsv, parseRecorderText, type MappingResolver } from './parse';
+import { parseRecorderCsv, parseRecorderText, splitCsvLines, type MappingResolver } from './parse';
 import { MAX_FLOW_LPH } from './format';
 
 const HEADER = 'time_utc,fuel_flow_usgph,ground_speed_kt,distance_to_go_nm,waypoint,latitude,longitude,altitude_ft';
@@ -301,5 +301,24 @@ describe('mapped files from other recorders', () => {
 		const m = columnMappingSchema.parse({ delimiter: ',', decimal: '.', time: { column: 't', format: 'epochS' }, flow: { column: 'f', unit: 'l/h' }, wpt: { column: 'w' } });
 		const res = await parseRecorderText(`t,f,w\n${T0 / 1000},20,"two\nlines"\n${T0 / 1000 + 1},x,W\n`, m);
 		expect(res.problems[0]).toMatchObject({ line: 4, column: 'f', value: 'x' });
+	});
+});
+
+describe('live batches', () => {
+	it('split headerless lines, quotes and CRLF included', () => {
+		expect(splitCsvLines('a,1\r\n"b,2",3\r\n')).toEqual([
+			['a', '1'],
+			['b,2', '3']
+		]);
+		expect(splitCsvLines('x;1,5', ';')).toEqual([['x', '1,5']]);
+		expect(splitCsvLines('')).toEqual([]);
+	});
+
+	it('may hold a single sample when asked', async () => {
+		const one = `${HEADER}\n${iso(0)},9,100,40,W,51,-1,1000\n`;
+		expect((await parseRecorderText(one, null)).ok).toBe(false);
+		const res = await parseRecorderText(one, null, { minSamples: 1, afterTMs: T0 - 1000 });
+		expect(res.ok).toBe(true);
+		expect((await parseRecorderText(one, null, { minSamples: 1, afterTMs: T0 })).problems[0].message).toMatch(/repeats the previous sample's \(the samples already stored\)/);
 	});
 });

@@ -4,7 +4,7 @@
 import Papa from 'papaparse';
 import { MAX_LISTED_PROBLEMS } from './format';
 import { detectDecimal, detectDelimiter, detectNewline, findHeader, stripBom, type Layout } from './detect';
-import { burndownMapping, headerSignature, type ColumnMapping } from './mapping';
+import { burndownMapping, headerSignature, type ColumnMapping, type Delimiter } from './mapping';
 import { createRowReader, type RecorderRow, type RowProblem, type RowReader, type RowReaderOptions } from './row';
 
 export type CsvInput = string | Iterable<string | Uint8Array> | AsyncIterable<string | Uint8Array>;
@@ -42,6 +42,8 @@ export interface ParseOptions extends RowReaderOptions {
 	onRows?: (rows: RecorderRow[]) => void | Promise<void>;
 	/** Called after each chunk of input with the lines read and rows accepted so far. */
 	onProgress?: (progress: { lines: number; rows: number }) => void;
+	/** Fewer good samples than this is a problem. Default 2 (a flight); a live batch may take 1. */
+	minSamples?: number;
 }
 
 export interface ParseSummary {
@@ -277,7 +279,7 @@ export async function parseRecorderCsv(
 	options.onProgress?.({ lines: line - 1, rows: summary.rowCount });
 
 	summary.lineCount = Math.max(0, line - 1);
-	if (summary.problemCount === 0 && reader && summary.rowCount < 2)
+	if (summary.problemCount === 0 && reader && summary.rowCount < (options.minSamples ?? 2))
 		report({
 			line: summary.lineCount,
 			column: '',
@@ -302,6 +304,18 @@ export async function parseRecorderText(
 		}
 	});
 	return { ...summary, rows: summary.ok ? rows : [] };
+}
+
+/**
+ * The cells of each line of a headerless CSV fragment (a live batch), quote-aware; a final line
+ * break does not add an empty line. Pair it with createRowReader for the checks.
+ */
+export function splitCsvLines(text: string, delimiter: Delimiter = ','): string[][] {
+	const body = stripBom(text);
+	const newline = detectNewline(body);
+	const trimmed = body.endsWith(newline) ? body.slice(0, -newline.length) : body;
+	if (trimmed === '') return [];
+	return new Papa.Parser({ delimiter, newline, quoteChar: '"' }).parse(trimmed, 0, false).data as string[][];
 }
 
 /** BOM-free text for code that reads a file whole (the browser's preview). */

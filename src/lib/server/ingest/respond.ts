@@ -4,7 +4,7 @@
 import { eq } from 'drizzle-orm';
 import { error, isHttpError, json, type RequestEvent } from '@sveltejs/kit';
 import { MAX_UPLOAD_BYTES, type UploadAnswer, type UploadLine } from '$lib/csv';
-import { requireAircraft } from '../access';
+import { requireAircraft, requireUser } from '../access';
 import { db } from '../db';
 import { aircraft, organisations } from '../db/schema';
 import { ingestRecorderFile, type IngestProgress, type IngestResult } from './ingest';
@@ -51,6 +51,8 @@ async function orgSlugOfAircraft(aircraftId: string): Promise<string> {
  */
 export async function handleUpload(event: Pick<RequestEvent, 'request' | 'url' | 'locals' | 'route'>): Promise<Response> {
 	try {
+		// Who is asking comes first: nobody reads a stranger's upload.
+		requireUser(event);
 		const upload = await openUploadRequest(event.request, event.url);
 		const fields = checkFields(upload.fields);
 		const slug = await orgSlugOfAircraft(fields.aircraftId);
