@@ -8,6 +8,7 @@ import { db, pool } from '$lib/server/db';
 import { aircraft, flights, samples, uploadChunks, uploads } from '$lib/server/db/schema';
 import { LITRES_PER_US_GALLON } from '$lib/units';
 import { readUploadOriginal } from '$lib/server/ingest/ingest';
+import { recomputeSummary } from '$lib/server/flights/summary';
 import { POST } from '../../src/routes/api/v1/flights/+server';
 import { apiEvent, makeClub, sample, steadyFile, tableCounts, upload, type Club } from './upload-fixture';
 
@@ -95,6 +96,11 @@ describe('good files', () => {
 			const res = await upload(club.pilot, { aircraftId: a.id, file, fileName: name, declaration: 'full' });
 			expect(res.status, `${name}: ${JSON.stringify(res.body).slice(0, 300)}`).toBe(201);
 			expect(await sampleCount(res.body.flightId)).toBe(dataLines(file));
+		}
+		// The summary stored with the upload is the one the replay side computes from the stored rows.
+		for (const f of await db.select().from(flights).where(eq(flights.orgId, club.orgId))) {
+			const stored = f.summary;
+			expect(await recomputeSummary(f.id), f.title).toEqual(stored);
 		}
 		// The rich flight burnt more than the leaned one over the same route (the demo's point).
 		const byTitle = async (t: string) => ((await db.select().from(flights).where(eq(flights.title, t)))[0].summary as { fuelUsedL: number }).fuelUsedL;

@@ -115,6 +115,7 @@ class ColumnBuilder {
 	alt = new Float64Array(this.cap);
 	wpt = new Int32Array(this.cap);
 	private wptIds = new Map<string, number>();
+	private hasAlt = false;
 
 	push(r: RecorderRow): void {
 		if (this.n === this.cap) this.grow();
@@ -124,6 +125,7 @@ class ColumnBuilder {
 		this.gs[i] = r.gs ?? NaN;
 		this.dtg[i] = r.dtg ?? NaN;
 		this.alt[i] = r.alt ?? NaN;
+		if (r.alt !== null) this.hasAlt = true;
 		if (r.wpt === null) this.wpt[i] = WPT_NONE;
 		else {
 			let id = this.wptIds.get(r.wpt);
@@ -149,9 +151,17 @@ class ColumnBuilder {
 		this.wpt = w;
 	}
 
+	/**
+	 * The columns as the replay's loader builds them from the stored rows (altitude and waypoints
+	 * only when the flight has any, ids in order of first appearance), so the summary stored
+	 * here is the one a later recompute gives.
+	 */
 	columns(): SampleColumns {
 		const n = this.n;
-		return { t: this.t.subarray(0, n), flow: this.flow.subarray(0, n), gs: this.gs.subarray(0, n), dtg: this.dtg.subarray(0, n), alt: this.alt.subarray(0, n), wpt: this.wpt.subarray(0, n) };
+		const cols: SampleColumns = { t: this.t.subarray(0, n), flow: this.flow.subarray(0, n), gs: this.gs.subarray(0, n), dtg: this.dtg.subarray(0, n) };
+		if (this.hasAlt) cols.alt = this.alt.subarray(0, n);
+		if (this.wptIds.size > 0) cols.wpt = this.wpt.subarray(0, n);
+		return cols;
 	}
 }
 
