@@ -30,3 +30,15 @@ export function flagWords(flags: number): string[] {
 	if (flags & FLAG_EVENT) words.push('fuel-event');
 	return words;
 }
+
+/**
+ * Our words for a stretch without samples: with the engine stopped on both sides it is a stop
+ * with the recorder off, otherwise a dropout in flight (filled with the higher adjacent flow).
+ */
+export function gapTitle(g: { kind: 'time' | 'flow'; start: number; end: number; filledFlowLph: number }): string {
+	const minutes = (g.end - g.start) / 60;
+	const length = minutes >= 2 ? `${Math.round(minutes)} min` : `${Math.round(g.end - g.start)} s`;
+	if (g.kind === 'flow') return `No flow readings for ${length}`;
+	if (!(g.filledFlowLph > 0)) return `No samples for ${length}, engine stopped (a stop with the recorder off)`;
+	return `Recorder dropout, ${length}`;
+}
