@@ -100,6 +100,8 @@ test('open a flight from the list, scrub, and read figures that match the engine
 	// The recorder dropout is on the timeline; picking it moves the scrubber there.
 	await page.getByTestId('timeline-list').getByRole('button', { name: /Recorder dropout/ }).click();
 	await expect(page.getByTestId('scrub-time')).toHaveText('09:41:39');
+	// From the top, so the sticky scrubber sits where it belongs in a full-page picture.
+	await page.evaluate(() => window.scrollTo(0, 0));
 	await page.screenshot({ path: 'test-results/replay-desktop.png', fullPage: true });
 
 	// Switching units converts every figure: litres now.
@@ -232,5 +234,6 @@ test('cockpit tablet width at night', async ({ page }) => {
 	// Nothing wider than the screen: the page does not scroll sideways.
 	expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(768);
 	await page.screenshot({ path: 'test-results/replay-tablet-night.png', fullPage: false });
+	await page.evaluate(() => window.scrollTo(0, 0));
 	await page.screenshot({ path: 'test-results/replay-tablet-night-full.png', fullPage: true });
 });
