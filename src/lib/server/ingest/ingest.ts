@@ -267,7 +267,10 @@ export async function ingestRecorderFile(req: IngestRequest): Promise<IngestResu
 					rowIndex++;
 					columns.push(r);
 				}
-				rows += batch.length;
+			},
+			// Per chunk of input, good rows or not, so a file full of problems shows progress too.
+			onProgress: (p) => {
+				rows = p.rows;
 				const now = performance.now();
 				if (now - lastProgress > 100) {
 					lastProgress = now;
