@@ -10,8 +10,7 @@
 // COPY: INSERT … SELECT does not batch rows the way COPY does, and each row's foreign-key check
 // costs the same either way. The direct COPY also runs while the file is still being parsed.
 import { createHash, randomUUID } from 'node:crypto';
-import { createReadStream, createWriteStream } from 'node:fs';
-import { rm } from 'node:fs/promises';
+import { open, unlink, type FileHandle } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { finished } from 'node:stream/promises';
@@ -214,12 +213,19 @@ export async function ingestRecorderFile(req: IngestRequest): Promise<IngestResu
 		.select({ id: importProfiles.id, name: importProfiles.name, headerSignature: importProfiles.headerSignature, mapping: importProfiles.mapping, createdAt: importProfiles.createdAt })
 		.from(importProfiles)
 		.where(eq(importProfiles.orgId, req.orgId));
-	const client = await pool.connect();
-	const db = drizzle(client, { schema, casing: 'snake_case' });
+	// The spool has no name once open: whatever ends this process, no copy of the file stays behind.
 	const spoolPath = join(tmpdir(), `burndown-upload-${randomUUID()}`);
-	const spool = createWriteStream(spoolPath);
-	const spoolError: { error: Error | null } = { error: null };
-	spool.on('error', (e) => (spoolError.error = e));
+	const spool = await open(spoolPath, 'w+', 0o600);
+	let client: pg.PoolClient;
+	try {
+		await unlink(spoolPath);
+		client = await pool.connect();
+	} catch (error) {
+		await spool.close();
+		throw error;
+	}
+	const db = drizzle(client, { schema, casing: 'snake_case' });
+	let spooled = 0;
 	const hash = createHash('sha256');
 	let bytes = 0;
 	let rows = 0;
@@ -233,8 +239,8 @@ export async function ingestRecorderFile(req: IngestRequest): Promise<IngestResu
 			bytes += chunk.length;
 			if (bytes > MAX_UPLOAD_BYTES) throw new UploadTooLargeError();
 			hash.update(chunk);
-			if (spoolError.error) throw spoolError.error;
-			await writeWithBackpressure(spool, Buffer.from(chunk));
+			await spool.write(chunk, 0, chunk.length, spooled);
+			spooled += chunk.length;
 			yield chunk;
 		}
 	}
@@ -285,8 +291,6 @@ export async function ingestRecorderFile(req: IngestRequest): Promise<IngestResu
 		await finished(stream);
 		copy = null;
 		if (copyFailure.error) throw copyFailure.error;
-		spool.end();
-		await finished(spool);
 		progress({ phase: 'reading', bytes, rows });
 		const parseMs = performance.now() - startedAt;
 
@@ -376,7 +380,7 @@ export async function ingestRecorderFile(req: IngestRequest): Promise<IngestResu
 			storeMs: 0
 		};
 		await db.insert(uploads).values({ id: uploadId, orgId: req.orgId, aircraftId: a.id, uploadedBy: req.userId, fileName: req.fileName.slice(0, 255), sizeBytes: bytes, sha256, report });
-		await storeOriginal(client, uploadId, spoolPath);
+		await storeOriginal(client, uploadId, spool, spooled);
 
 		progress({ phase: 'storing', step: 'flight', rows });
 		await db
@@ -424,21 +428,24 @@ export async function ingestRecorderFile(req: IngestRequest): Promise<IngestResu
 		throw error;
 	} finally {
 		client.release(clientBroken ? new Error('connection left in an unknown state') : undefined);
-		spool.destroy();
-		await rm(spoolPath, { force: true });
+		await spool.close().catch(() => {});
 	}
 }
 
 /** The original bytes, read back from the spool file into upload_chunks by binary COPY. */
-async function storeOriginal(client: pg.PoolClient, uploadId: string, spoolPath: string): Promise<void> {
+async function storeOriginal(client: pg.PoolClient, uploadId: string, spool: FileHandle, size: number): Promise<void> {
 	const stream = client.query(copyFrom('COPY upload_chunks (upload_id, n, bytes) FROM STDIN (FORMAT binary)'));
 	const failure: { error: Error | null } = { error: null };
 	stream.on('error', (e: Error) => (failure.error = e));
 	await writeWithBackpressure(stream, copyHeader());
 	let n = 0;
-	for await (const piece of createReadStream(spoolPath, { highWaterMark: CHUNK_BYTES })) {
+	for (let at = 0; at < size; at += CHUNK_BYTES) {
 		if (failure.error) throw failure.error;
-		for (const part of chunkTuple(uploadId, n++, piece as Buffer)) await writeWithBackpressure(stream, part);
+		// A fresh buffer per piece: the COPY stream may still hold the previous one.
+		const piece = Buffer.allocUnsafe(Math.min(CHUNK_BYTES, size - at));
+		const { bytesRead } = await spool.read(piece, 0, piece.length, at);
+		if (bytesRead !== piece.length) throw new Error('The spooled upload was shorter than what was received.');
+		for (const part of chunkTuple(uploadId, n++, piece)) await writeWithBackpressure(stream, part);
 	}
 	await writeWithBackpressure(stream, copyTrailer());
 	stream.end();
