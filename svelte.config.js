@@ -14,7 +14,8 @@ const config = {
 				// Svelte and uPlot set element styles; inline style attributes need this.
 				'style-src': ['self', 'unsafe-inline'],
 				'img-src': ['self', 'data:', 'blob:'],
-				'font-src': ['self'],
+				// Vite inlines the smallest font subsets as data: URIs.
+				'font-src': ['self', 'data:'],
 				'connect-src': ['self'],
 				'object-src': ['none'],
 				'base-uri': ['self'],
