@@ -1,5 +1,70 @@
-// Loads the demo flights from samples/ through the same ingest path an upload takes.
-// Filled in once the ingest service lands; until then the demo has aircraft and no flights.
+// Loads demo flights from samples/ through the same ingest path an upload takes, then adds what a
+// pilot would have entered afterwards: the refuel at the middle stop and the instructor.
+// The diesel panel log and the broken file stay out, so a visitor can try the column mapper and
+// the error report with them.
+import fs from 'node:fs';
+import path from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { eq } from 'drizzle-orm';
+import { db } from '../src/lib/server/db';
+import { aircraft, flights } from '../src/lib/server/db/schema';
+import { ingestRecorderFile } from '../src/lib/server/ingest/ingest';
+import type { DeclarationInput } from '../src/lib/server/ingest/declaration';
+import { addFuelEvent } from '../src/lib/server/flights/edit';
+import { DEMO_ORG_ID } from './demo-scenario';
+
+const samplesDir = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..', 'samples');
+
+interface DemoFlight {
+	file: string;
+	registration: string;
+	pilot: string;
+	instructor?: string;
+	title: string;
+	declaration: DeclarationInput;
+	/** A refuel entered after landing, at a time during a stop (UTC). */
+	refuel?: { at: string; kind: 'toFull' | 'toLower'; note: string };
+}
+
+// Oldest first, so each upload is the aircraft's newest and "unchanged" follows the last one.
+const FLIGHTS: DemoFlight[] = [
+	{ file: 'kestrel-local-training.csv', registration: 'BD-KTR', pilot: 'demo-student', instructor: 'demo-instructor', title: 'Local training area and circuits', declaration: { kind: 'lower', amount: null } },
+	{ file: 'kestrel-tourer-dropout.csv', registration: 'BD-KTT', pilot: 'demo-pilot', title: 'Fenway and back (recorder connector came loose)', declaration: { kind: 'full', amount: null } },
+	{
+		file: 'kestrel-crosscountry-3leg.csv',
+		registration: 'BD-KTT',
+		pilot: 'demo-student',
+		instructor: 'demo-instructor',
+		title: 'Solo cross-country: Kestrel Field – Saltmere – Bramble Down – Kestrel Field',
+		declaration: { kind: 'unchanged', amount: null },
+		refuel: { at: '2026-06-20T09:50:00Z', kind: 'toFull', note: 'Filled to full at Saltmere' }
+	},
+	{ file: 'kestrel-trainer-merrow-leaned.csv', registration: 'BD-KTR', pilot: 'demo-pilot', title: 'Merrow and back, leaned in cruise', declaration: { kind: 'full', amount: null } },
+	{ file: 'kestrel-trainer-merrow-rich.csv', registration: 'BD-KTR', pilot: 'demo-pilot', title: 'Merrow and back, never leaned', declaration: { kind: 'full', amount: null } }
+];
+
 export async function loadDemoFlights(): Promise<number> {
-	return 0;
+	let stored = 0;
+	for (const f of FLIGHTS) {
+		const a = await db.query.aircraft.findFirst({ where: eq(aircraft.registration, f.registration) });
+		if (!a || a.orgId !== DEMO_ORG_ID) throw new Error(`demo aircraft ${f.registration} is missing`);
+		const result = await ingestRecorderFile({
+			orgId: a.orgId,
+			aircraft: a,
+			userId: f.pilot,
+			fileName: f.file,
+			source: fs.createReadStream(path.join(samplesDir, f.file)),
+			declaration: f.declaration,
+			title: f.title
+		});
+		if (result.status !== 'stored') throw new Error(`demo flight ${f.file} was not stored: ${'message' in result ? result.message : result.status}`);
+		if (f.instructor) await db.update(flights).set({ instructorId: f.instructor }).where(eq(flights.id, result.flightId));
+		if (f.refuel) {
+			const flight = (await db.query.flights.findFirst({ where: eq(flights.id, result.flightId) }))!;
+			const saved = await addFuelEvent(flight, { t: new Date(f.refuel.at), kind: f.refuel.kind, amountL: null, note: f.refuel.note }, f.pilot);
+			if (!saved.ok) throw new Error(`demo refuel on ${f.file}: ${saved.message}`);
+		}
+		stored++;
+	}
+	return stored;
 }

@@ -63,7 +63,7 @@ Demo sign-ins (password: ${DEMO.password})
 ${DEMO.users.map((u) => `  ${u.email.padEnd(30)} ${u.blurb}`).join('\n')}
 
 Watch a live flight: sign in, open ${origin}/o/${DEMO.organisations[0].slug}, then in another terminal
-  npm run simulate -- --file samples/${DEMO.liveSample} --token ${recorder.token} --speed 30
+  npm run simulate -- --file samples/${DEMO.liveSample} --token ${recorder.token} --speed 30 --now --url ${origin}
 (the recorder token of ${reg}; demo mode only).`);
 }
 

@@ -4,7 +4,7 @@
 //
 //   npm run simulate -- --file samples/<file>.csv --token <bdr_…> [--speed 30] [--drop 0.1]
 //        [--duplicate 0.1] [--url http://127.0.0.1:5180] [--declare 30usgal|full|lower|unchanged]
-//        [--pilot <e-mail>] [--batch-ms 1000] [--csv] [--keep-open] [--no-open]
+//        [--pilot <e-mail>] [--batch-ms 1000] [--csv] [--keep-open] [--no-open] [--now]
 import fs from 'node:fs';
 import path from 'node:path';
 import { parseArgs } from 'node:util';
@@ -20,7 +20,8 @@ const usage = `Usage: npm run simulate -- --file samples/<file>.csv --token <rec
   --batch-ms <ms>    how often a batch goes out, in wall-clock ms (default 1000)
   --csv              send CSV lines of our recorder format instead of JSON
   --no-open          let the first batch open the flight (the last known fuel is assumed)
-  --keep-open        do not close the flight at the end`;
+  --keep-open        do not close the flight at the end
+  --now              move the recording in time so that it starts now (JSON batches only)`;
 
 function fail(message: string): never {
 	console.error(`simulate: ${message}`);
@@ -43,6 +44,7 @@ const { values: opt } = (() => {
 				csv: { type: 'boolean', default: false },
 				'no-open': { type: 'boolean', default: false },
 				'keep-open': { type: 'boolean', default: false },
+				now: { type: 'boolean', default: false },
 				help: { type: 'boolean', short: 'h' }
 			}
 		});
@@ -95,6 +97,9 @@ const lines = text.replace(/^\uFEFF/, '').split(/\r?\n/);
 const header = lines[(parsed.header?.line ?? 1) - 1];
 const hasSeq = parsed.mapping?.seq !== null && parsed.mapping?.seq !== undefined;
 const seqOf = (i: number) => (hasSeq ? (rows[i].seq as number) : i);
+if (opt.now && opt.csv) fail('--now rewrites sample times, which --csv sends as they are in the file: use one or the other.');
+// With --now the flight happens today: every time moves by the same amount, spacing unchanged.
+const shiftMs = opt.now && rows.length > 0 ? Date.now() - rows[0].tMs : 0;
 
 // ---- talking to the server ----------------------------------------------------------------
 
@@ -137,7 +142,7 @@ function body(b: Batch): { text: string; type: string; query: string } {
 	const samples = [];
 	for (let i = b.from; i <= b.to; i++) {
 		const r = rows[i];
-		samples.push({ seq: seqOf(i), t: new Date(r.tMs).toISOString(), flow: r.flow, gs: r.gs, dtg: r.dtg, alt: r.alt, wpt: r.wpt, lat: r.lat, lon: r.lon });
+		samples.push({ seq: seqOf(i), t: new Date(r.tMs + shiftMs).toISOString(), flow: r.flow, gs: r.gs, dtg: r.dtg, alt: r.alt, wpt: r.wpt, lat: r.lat, lon: r.lon });
 	}
 	return { text: JSON.stringify(flightId ? { flightId, samples } : { samples }), type: 'application/json', query: '' };
 }
@@ -207,7 +212,7 @@ function progress(force = false) {
 	const nowMs = Date.now();
 	if (!force && nowMs - lastPrint < 2000) return;
 	lastPrint = nowMs;
-	const at = next > 0 ? new Date(rows[next - 1].tMs).toISOString().slice(11, 19) : '--:--:--';
+	const at = next > 0 ? new Date(rows[next - 1].tMs + shiftMs).toISOString().slice(11, 19) : '--:--:--';
 	console.log(
 		`simulate: ${at} UTC  sent ${next}/${rows.length} (${Math.round((100 * next) / rows.length)} %)  acknowledged up to ${ack}  resent ${stats.resent}  dropped ${stats.dropped}  duplicated ${stats.duplicated}${stats.errors ? `  errors ${stats.errors}` : ''}`
 	);
