@@ -25,6 +25,8 @@ interface Row {
 	path: (ids: Ids) => string;
 	expect: Expect;
 	form?: Record<string, string>;
+	/** A raw body instead of a form, e.g. an empty CSV upload. */
+	body?: { data: string; type: string };
 }
 interface Ids {
 	pilotFlight: string;
@@ -33,6 +35,7 @@ interface Ids {
 const O = `/o/${DEMO_ORG}`;
 const FLIGHT_VIEWERS: DemoRole[] = ['admin', 'instructor', 'viewer', 'pilot'];
 const FLIGHT_EDITORS: DemoRole[] = ['admin', 'instructor', 'pilot'];
+const F = (i: Ids) => `${O}/flights/${i.pilotFlight}`;
 
 const MATRIX: Row[] = [
 	{ route: '/orgs', method: 'GET', path: () => '/orgs', expect: anyone(200) },
@@ -59,7 +62,22 @@ const MATRIX: Row[] = [
 	// A closed flight's stream ends once it has sent every sample, so a GET returns.
 	{ route: '/api/v1/flights/[id]/stream', method: 'GET', path: (i) => `/api/v1/flights/${i.pilotFlight}/stream`, expect: only(FLIGHT_VIEWERS, 200, 401) },
 	{ route: '/api/v1/flights/[id]/export', method: 'GET', path: (i) => `/api/v1/flights/${i.pilotFlight}/export`, expect: only(FLIGHT_VIEWERS, 200, 401) },
-	{ route: '/api/v1/flights', method: 'POST', path: () => `/api/v1/flights?aircraftId=${DEMO_AIRCRAFT.trainer}`, form: {}, expect: only(FLIGHT_EDITORS.concat('student'), 400, 401) }
+	{ route: '/o/[org]/flights/[id]', method: 'POST', path: (i) => `${F(i)}?/declaration`, form: {}, expect: only(FLIGHT_EDITORS, 400) },
+	{ route: '/o/[org]/flights/[id]', method: 'POST', path: (i) => `${F(i)}?/addEvent`, form: {}, expect: only(FLIGHT_EDITORS, 400) },
+	{ route: '/o/[org]/flights/[id]', method: 'POST', path: (i) => `${F(i)}?/removeEvent`, form: { id: '' }, expect: only(FLIGHT_EDITORS, 400) },
+	{ route: '/o/[org]/flights/[id]', method: 'POST', path: (i) => `${F(i)}?/addNote`, form: { body: '' }, expect: only(FLIGHT_EDITORS, 400) },
+	{ route: '/o/[org]/flights/[id]', method: 'POST', path: (i) => `${F(i)}?/removeNote`, form: { id: '' }, expect: only(FLIGHT_EDITORS, 400) },
+	{ route: '/o/[org]/flights/[id]/live', method: 'POST', path: (i) => `${F(i)}/live?/declaration`, form: {}, expect: only(FLIGHT_EDITORS, 400) },
+	{ route: '/o/[org]/flights/[id]/live', method: 'POST', path: (i) => `${F(i)}/live?/ack`, form: { alarmId: '' }, expect: only(FLIGHT_VIEWERS, 400) },
+	{ route: '/o/[org]/flights/[id]/live', method: 'POST', path: (i) => `${F(i)}/live?/watch`, form: { on: 'maybe' }, expect: only(FLIGHT_VIEWERS, 400) },
+	{ route: '/o/[org]/aircraft/[id]', method: 'POST', path: () => `${O}/aircraft/${DEMO_AIRCRAFT.trainer}?/watch`, form: { on: '0' }, expect: members(200) },
+	{ route: '/o/[org]/recorders', method: 'POST', path: () => `${O}/recorders?/register`, form: { name: '' }, expect: only(['admin'], 400) },
+	{ route: '/o/[org]/recorders', method: 'POST', path: () => `${O}/recorders?/rotate`, form: { id: '' }, expect: only(['admin'], 400) },
+	{ route: '/o/[org]/recorders', method: 'POST', path: () => `${O}/recorders?/revoke`, form: { id: '' }, expect: only(['admin'], 400) },
+	{ route: '/o/[org]/flights/upload', method: 'POST', path: () => `${O}/flights/upload?/saveProfile`, form: { name: '' }, expect: only(['admin', 'instructor', 'pilot', 'student'], 400) },
+	{ route: '/account', method: 'POST', path: () => '/account?/createToken', form: { name: '' }, expect: anyone(400) },
+	// An empty CSV for the trainer: members who may upload get the file's error, the rest are refused first.
+	{ route: '/api/v1/flights', method: 'POST', path: () => `/api/v1/flights?aircraftId=${DEMO_AIRCRAFT.trainer}&declaration=full`, body: { data: '', type: 'text/csv' }, expect: only(FLIGHT_EDITORS.concat('student'), 400, 401) }
 ];
 
 /** Routes that need no membership, checked elsewhere or public by design. */
@@ -107,7 +125,9 @@ for (const role of ROLES) {
 			const res =
 				row.method === 'GET'
 					? await ctx.get(url, { maxRedirects: 0, headers: { accept: 'text/html' } })
-					: await ctx.post(url, { form: row.form ?? {}, maxRedirects: 0, headers: { accept: 'text/html' } });
+					: row.body
+						? await ctx.post(url, { data: row.body.data, maxRedirects: 0, headers: { 'content-type': row.body.type } })
+						: await ctx.post(url, { form: row.form ?? {}, maxRedirects: 0, headers: { accept: 'text/html' } });
 			const want = row.expect[role];
 			if (res.status() !== want) failures.push(`${row.method} ${url}: got ${res.status()}, want ${want}`);
 			if (want === 303 && res.status() === 303) {
