@@ -418,3 +418,27 @@ describe('flights list', () => {
 		expect(mine.list.total).toBe(28);
 	});
 });
+
+describe('viewers of a flight hear about corrections', () => {
+	it('announces a saved declaration and fuel event on the live channel, once each', async () => {
+		const listener = await pool.connect();
+		const heard: { f: string; m?: number }[] = [];
+		listener.on('notification', (n) => {
+			if (n.channel === 'burndown_live' && n.payload) heard.push(JSON.parse(n.payload));
+		});
+		try {
+			await listener.query('LISTEN burndown_live');
+			await post(U.pilot, 'declaration', { kind: 'full', amount: '', unit: 'l', previous: '' });
+			const [f] = await db.select({ startedAt: flights.startedAt }).from(flights).where(eq(flights.id, flightId));
+			const at = new Date(f.startedAt.getTime() + 600_000).toISOString().slice(0, 19).replace('T', ' ');
+			expect(await post(U.pilot, 'addEvent', { kind: 'added', amount: '5', unit: 'l', at, note: 'top-up' })).toMatchObject({ action: 'addEvent' });
+			// Refused edits say nothing.
+			await post(U.pilot, 'declaration', { kind: 'onBoard', amount: '', unit: 'l', previous: '' });
+			await new Promise((r) => setTimeout(r, 200));
+			expect(heard.filter((h) => h.f === flightId && h.m === 1)).toHaveLength(2);
+		} finally {
+			await listener.query('UNLISTEN burndown_live');
+			listener.release();
+		}
+	});
+});

@@ -5,6 +5,7 @@ import type { DeclarationInput, FuelEventInput, NoteInput } from '$lib/schemas/f
 import { db } from '../db';
 import { flightNotes, flights, fuelEvents, samples, type Flight } from '../db/schema';
 import { recomputeSummary } from './summary';
+import { fuelInputsChanged } from '../live/declare';
 
 export type EditResult = { ok: true } | { ok: false; field: string; message: string };
 
@@ -19,6 +20,7 @@ export async function saveDeclaration(flight: Pick<Flight, 'id'>, input: Declara
 			.where(eq(flights.id, flight.id));
 		await recomputeSummary(flight.id, tx);
 	});
+	await fuelInputsChanged(flight.id);
 	return { ok: true };
 }
 
@@ -35,16 +37,19 @@ export async function addFuelEvent(flight: Pick<Flight, 'id' | 'startedAt'>, inp
 		await tx.insert(fuelEvents).values({ flightId: flight.id, t: input.t, kind: input.kind, amountL: input.amountL, note: input.note, createdBy: userId });
 		await recomputeSummary(flight.id, tx);
 	});
+	await fuelInputsChanged(flight.id);
 	return { ok: true };
 }
 
 export async function removeFuelEvent(flight: Pick<Flight, 'id'>, eventId: string): Promise<EditResult> {
-	return db.transaction(async (tx) => {
+	const result = await db.transaction(async (tx) => {
 		const gone = await tx.delete(fuelEvents).where(and(eq(fuelEvents.id, eventId), eq(fuelEvents.flightId, flight.id))).returning({ id: fuelEvents.id });
 		if (gone.length === 0) return { ok: false, field: 'id', message: 'That fuel event is not on this flight (perhaps removed already).' } as const;
 		await recomputeSummary(flight.id, tx);
 		return { ok: true } as const;
 	});
+	if (result.ok) await fuelInputsChanged(flight.id);
+	return result;
 }
 
 export async function addNote(flight: Pick<Flight, 'id'>, input: NoteInput, userId: string): Promise<EditResult> {

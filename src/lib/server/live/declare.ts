@@ -33,6 +33,15 @@ export async function setLiveDeclaration(flightId: string, declaration: Declarat
 	if (toMail.length > 0) void mailAlarms(flightId, toMail).catch((error) => console.error('[live] alarm mail failed:', error));
 }
 
+/**
+ * A declaration or fuel event changed from the replay page: this instance's cached live
+ * computation is dropped and every viewer re-reads the flight's inputs.
+ */
+export async function fuelInputsChanged(flightId: string): Promise<void> {
+	dropComputation(flightId);
+	await announceChange(flightId);
+}
+
 /** Tells every instance's viewers that the flight changed (an acknowledgement, a watch). */
 export async function announceChange(flightId: string): Promise<void> {
 	const [f] = await db.select({ lastSeq: flights.lastSeq }).from(flights).where(eq(flights.id, flightId));
