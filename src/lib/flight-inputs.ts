@@ -1,6 +1,6 @@
 // From stored rows to the fuel engine's inputs: one mapping used by replay (in the browser), live
 // flights and the server's cached summaries, so every screen computes from the same inputs.
-import type { AlarmThresholds, Declaration, FuelEvent, FuelProfile, ReserveRuleId, ReserveSetting } from '$lib/fuel';
+import type { AlarmThresholds, Declaration, EngineOptions, FuelEvent, FuelProfile, ReserveRuleId, ReserveSetting } from '$lib/fuel';
 
 /** The aircraft fields the engine needs (a subset of the aircraft row, safe to send to a browser). */
 export interface AircraftFuelSetup {
@@ -59,13 +59,15 @@ export function eventsOf(rows: readonly StoredFuelEvent[]): FuelEvent[] {
 export function engineInputsOf(
 	a: AircraftFuelSetup,
 	flight: { declaration: unknown; previousOnBoardL: number | null },
-	events: readonly StoredFuelEvent[]
+	events: readonly StoredFuelEvent[],
+	options?: EngineOptions
 ) {
 	return {
 		profile: profileOf(a),
 		declaration: flight.declaration as Declaration,
 		previousOnBoardL: flight.previousOnBoardL,
 		events: eventsOf(events),
-		thresholds: thresholdsOf(a)
+		thresholds: thresholdsOf(a),
+		options
 	};
 }

@@ -100,3 +100,21 @@ describe('degenerate inputs', () => {
 		expect(c.warnings[0].index).toBe(51);
 	});
 });
+
+describe('warnings in the unit on screen', () => {
+	it('writes fuel amounts with the caller’s formatter, and in litres by default', () => {
+		const rows = series(20, () => ({ flow: 30, gs: 100, dtg: 50 }));
+		const cap = profile().capacityL;
+		const over = { declaration: { kind: 'onBoard' as const, amountL: cap + 50 }, events: [{ t: rows[10].t, kind: 'added' as const, amountL: 500 }] };
+		const inLitres = computeFlight(input(columns(rows), over));
+		const usGal = (l: number) => `${(l / 3.785411784).toFixed(1)} US gal`; // NIST Handbook 44, Appendix C
+		const inGallons = computeFlight(input(columns(rows), { ...over, options: { formatFuel: usGal } }));
+		const texts = (c: typeof inLitres) => c.warnings.map((w) => w.message).join(' | ');
+		expect(texts(inLitres)).toContain(`(${Math.round(cap * 10) / 10} L)`);
+		expect(texts(inGallons)).toContain(`(${usGal(cap)})`);
+		expect(texts(inGallons)).toContain(`capped at ${usGal(cap)}`);
+		expect(texts(inGallons)).not.toMatch(/\d L\b/);
+		// Only the words change: the figures are the same.
+		expect(Array.from(inGallons.onBoard)).toEqual(Array.from(inLitres.onBoard));
+	});
+});

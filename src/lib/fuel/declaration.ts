@@ -54,7 +54,8 @@ export function checkProfile(profile: FuelProfile): { profile: UsableProfile; wa
 	return { profile: { capacityL, lowerLevelL, meterFactor, baselineCruiseFlowLph }, warnings };
 }
 
-function fmt(litres: number): string {
+/** How warnings write fuel unless the caller says otherwise: litres, one decimal. */
+export function litresText(litres: number): string {
 	return `${Math.round(litres * 10) / 10} L`;
 }
 
@@ -65,7 +66,8 @@ function fmt(litres: number): string {
 export function resolveDeclaration(
 	declaration: Declaration,
 	profile: UsableProfile,
-	previousOnBoardL: number | null | undefined
+	previousOnBoardL: number | null | undefined,
+	fmt: (litres: number) => string = litresText
 ): ResolvedDeclaration {
 	const warnings: EngineWarning[] = [];
 	const cap = profile.capacityL;
@@ -132,7 +134,7 @@ export function resolveDeclaration(
 			const unknown: never = declaration;
 			warnings.push({
 				code: 'declarationInvalidAmount',
-				message: `Unknown declaration ${JSON.stringify(unknown)}; using 0 L.`
+				message: `Unknown declaration ${JSON.stringify(unknown)}; using ${fmt(0)}.`
 			});
 			raw = 0;
 		}
@@ -148,7 +150,7 @@ export function resolveDeclaration(
 	} else if (onBoardL < 0) {
 		warnings.push({
 			code: 'declarationBelowZero',
-			message: `Declared fuel works out at ${fmt(raw)}; using 0 L.`
+			message: `Declared fuel works out at ${fmt(raw)}; using ${fmt(0)}.`
 		});
 		onBoardL = 0;
 	}

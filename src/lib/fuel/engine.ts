@@ -3,7 +3,7 @@
 // flight gives exactly the numbers of a replay of the same samples.
 
 import { createAlarmTracks, updateAlarm, type AlarmTrack } from './alarms';
-import { checkProfile, resolveDeclaration } from './declaration';
+import { checkProfile, litresText, resolveDeclaration } from './declaration';
 import { eventDelta, normalizeEvents } from './events';
 import { createGapTracker, gapThresholdFor, type GapTracker } from './gaps';
 import { gapFillFlow, segmentLitres } from './integrate';
@@ -60,6 +60,7 @@ export interface ResolvedOptions {
 	gapFactor: number;
 	gapThresholdS: number | null;
 	limits: RowLimits;
+	formatFuel: (litres: number) => string;
 }
 
 function pick(value: number | undefined, fallback: number): number {
@@ -78,6 +79,7 @@ export function resolveOptions(o: EngineOptions = {}): ResolvedOptions {
 		gapFloorS: pick(o.gapFloorS, DEFAULT_OPTIONS.gapFloorS),
 		gapFactor: pick(o.gapFactor, DEFAULT_OPTIONS.gapFactor),
 		gapThresholdS: typeof fixed === 'number' && fixed > 0 ? fixed : null,
+		formatFuel: typeof o.formatFuel === 'function' ? o.formatFuel : litresText,
 		limits: {
 			maxFlowLph: pick(o.maxFlowLph, DEFAULT_LIMITS.maxFlowLph),
 			maxGsKt: pick(o.maxGsKt, DEFAULT_LIMITS.maxGsKt),
@@ -102,14 +104,15 @@ export type EngineInputs = Omit<FlightInput, 'columns'>;
 
 export function prepare(input: EngineInputs): EngineSetup {
 	const { profile, warnings: profileWarnings } = checkProfile(input.profile);
-	const declaration = resolveDeclaration(input.declaration, profile, input.previousOnBoardL);
+	const options = resolveOptions(input.options);
+	const declaration = resolveDeclaration(input.declaration, profile, input.previousOnBoardL, options.formatFuel);
 	const { events, warnings: eventWarnings } = normalizeEvents(input.events, profile);
 	return {
 		profile,
 		declaration,
 		events,
 		thresholds: input.thresholds,
-		options: resolveOptions(input.options),
+		options,
 		warnings: [...profileWarnings, ...declaration.warnings, ...eventWarnings]
 	};
 }
@@ -461,7 +464,7 @@ export function runKernel(s: EngineState, cols: SampleColumns, out: Outputs, fro
 				});
 				usedOffset = usedTotal;
 			} else {
-				const r = eventDelta(ev, before, profile);
+				const r = eventDelta(ev, before, profile, s.setup.options.formatFuel);
 				if (r.warning) s.warnings.push({ ...r.warning, index: i });
 				anchorOnBoard = r.afterL;
 				anchorUsed = usedTotal;

@@ -1,6 +1,7 @@
 // Fuel events on the timeline (fuel taken on or removed at a stop, a reset of "used"):
 // checking and ordering them, and working out what each one changes when it is applied.
 
+import { litresText } from './declaration';
 import type { EngineWarning, FuelEvent, UsableProfile } from './types';
 
 const KINDS = new Set(['added', 'removed', 'toFull', 'toLower', 'resetUsed']);
@@ -59,7 +60,8 @@ export function normalizeEvents(
 export function eventDelta(
 	event: FuelEvent,
 	onBoardL: number,
-	profile: UsableProfile
+	profile: UsableProfile,
+	fmt: (litres: number) => string = litresText
 ): { afterL: number; deltaL: number; warning: EngineWarning | null } {
 	const cap = profile.capacityL;
 	let target: number;
@@ -81,7 +83,7 @@ export function eventDelta(
 					deltaL: 0,
 					warning: {
 						code: 'alreadyAboveLevel',
-						message: `Fuel on board (${onBoardL.toFixed(1)} L) was already above the lower fill level when filling to it; no change.`,
+						message: `Fuel on board (${fmt(onBoardL)}) was already above the lower fill level when filling to it; no change.`,
 						t: event.t
 					}
 				};
@@ -97,7 +99,7 @@ export function eventDelta(
 			deltaL: cap - onBoardL,
 			warning: {
 				code: 'eventAboveCapacity',
-				message: `Fuel ${event.kind} would bring the tanks to ${target.toFixed(1)} L, above the usable capacity; capped at ${cap.toFixed(1)} L.`,
+				message: `Fuel ${event.kind} would bring the tanks to ${fmt(target)}, above the usable capacity; capped at ${fmt(cap)}.`,
 				t: event.t
 			}
 		};
@@ -110,7 +112,7 @@ export function eventDelta(
 			deltaL: afterL - onBoardL,
 			warning: {
 				code: 'eventBelowZero',
-				message: `Fuel removed would leave ${target.toFixed(1)} L; set to 0 L.`,
+				message: `Fuel removed would leave ${fmt(target)}; set to ${fmt(0)}.`,
 				t: event.t
 			}
 		};

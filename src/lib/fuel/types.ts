@@ -107,6 +107,8 @@ export interface EngineOptions {
 	maxAltFt?: number;
 	/** A new phase must hold this long (s) before the phase changes. Default 10. */
 	phaseHoldS?: number;
+	/** Writes an amount of fuel in warning messages, e.g. in the unit on screen. Default "12.3 L". */
+	formatFuel?: (litres: number) => string;
 }
 
 /** Everything a batch computation needs. */

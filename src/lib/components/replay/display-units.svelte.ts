@@ -96,6 +96,9 @@ export class DisplayUnits {
 		return fromNmPerLitre(nmPerL, this.distance, this.fuel, this.densityKgPerL);
 	}
 
+	/** "12.3 US gal": for the engine's warning messages (an arrow, so it can be handed over). */
+	fuelWithUnit = (litres: number): string => `${this.fuelText(litres)} ${this.fuelLabel}`;
+
 	/** "12.3" in the fuel unit, or "—" for a missing value. */
 	fuelText(litres: number | null | undefined, extraDigits = 0): string {
 		return litres === null || litres === undefined || !Number.isFinite(litres) ? '—' : this.toFuel(litres).toFixed(this.fuelDigits + extraDigits);
