@@ -31,7 +31,7 @@ export default defineConfig({
 		}
 	},
 	webServer: {
-		command: 'node build',
+		command: `node ${process.env.BURNDOWN_BUILD_DIR || 'build'}`,
 		url: `${origin}/api/health`,
 		timeout: 60_000,
 		reuseExistingServer: false,

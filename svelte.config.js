@@ -5,7 +5,9 @@ import { vitePreprocess } from '@sveltejs/vite-plugin-svelte';
 const config = {
 	preprocess: vitePreprocess(),
 	kit: {
-		adapter: adapter({ out: 'build', envPrefix: '' }),
+		// npm test builds into its own folder (BURNDOWN_BUILD_DIR) so it never replaces the files of
+		// an app that npm start is serving from build/.
+		adapter: adapter({ out: process.env.BURNDOWN_BUILD_DIR || 'build', envPrefix: '' }),
 		csp: {
 			mode: 'auto',
 			directives: {

@@ -24,6 +24,7 @@ const E2E_DB = 'burndown_e2e';
 const SINK_PORT = 2535;
 const E2E_PORT = 4173;
 const CHROMIUM = '/usr/bin/chromium';
+const TEST_BUILD_DIR = 'build-test';
 
 const usage = `Usage: npm test [-- --only ${STAGES.join('|')}[,…]] [-- arguments for vitest / playwright]`;
 
@@ -139,6 +140,8 @@ async function e2eStage(env, adminUrl, reports) {
 	if (!fs.existsSync(CHROMIUM)) {
 		await aptInstall(['chromium'], `Chromium for the end-to-end tests is missing (${CHROMIUM})`);
 	}
+	// Its own output folder, so a test run never swaps files under an app that npm start serves.
+	env = { ...env, BURNDOWN_BUILD_DIR: TEST_BUILD_DIR };
 	await viteBuild(env);
 	const t = now();
 	const e2eUrl = withDatabase(adminUrl, E2E_DB);
