@@ -9,7 +9,7 @@ import pg from 'pg';
 import { expect, test, type Page } from '@playwright/test';
 import { columnMappingSchema, parseRecorderText, profileMapping, type RecorderRow } from '../../src/lib/csv';
 import { computeFlight, WPT_NONE, type FlightComputation, type SampleColumns } from '../../src/lib/fuel';
-import { engineInputsOf, fuelSetupOf } from '../../src/lib/flight-inputs';
+import { engineInputsOf, fuelSetupOf, type AircraftFuelSetup } from '../../src/lib/flight-inputs';
 import { nearestIndex } from '../../src/lib/components/replay/series';
 import { phaseLabels } from '../../src/lib/components/replay/labels';
 import { formatDuration } from '../../src/lib/units';
@@ -36,6 +36,10 @@ const MAPPING = columnMappingSchema.parse({
 	wpt: { column: 'Next WP' }
 });
 
+/** The aircraft's fuel setup as the engine takes it, named as in AircraftFuelSetup. */
+const SETUP_COLUMNS = ['capacity_l', 'lower_level_l', 'unusable_l', 'density_kg_per_l', 'meter_factor', 'baseline_cruise_lph', 'low_fuel_l', 'low_endurance_min', 'reserve_rule', 'reserve_custom_min']
+	.map((c) => `${c} as "${c.replace(/_(\w)/g, (_, ch: string) => ch.toUpperCase())}"`)
+	.join(', ');
 const UPLOAD_URL = `/o/${DEMO_ORG}/flights/upload?aircraft=${DEMO_AIRCRAFT.diesel}`;
 const TABLET = { width: 1024, height: 768 };
 
@@ -205,7 +209,7 @@ test('map another recorder’s columns, save the profile, upload with progress, 
 	expect(after).toEqual({ flights: before.flights + 1, uploads: before.uploads + 1 });
 	const [flight, aircraftRow] = await withDb(async (c) => [
 		(await c.query('select started_at, ended_at, sample_count, declaration from flights where id = $1', [flightId])).rows[0],
-		(await c.query('select * from aircraft where id = $1', [DEMO_AIRCRAFT.diesel])).rows[0]
+		(await c.query<AircraftFuelSetup>(`select ${SETUP_COLUMNS} from aircraft where id = $1`, [DEMO_AIRCRAFT.diesel])).rows[0]
 	]);
 	expect(flight.started_at.toISOString()).toBe('2026-08-14T23:05:00.000Z');
 	expect(flight.ended_at.toISOString()).toBe(new Date(rows.at(-1)!.tMs).toISOString());
@@ -215,18 +219,7 @@ test('map another recorder’s columns, save the profile, upload with progress, 
 
 	// The replay: the same engine run here on the file as parsed here.
 	await expect(page.getByTestId('fuel-figures')).toBeVisible({ timeout: 15_000 });
-	const setup = fuelSetupOf({
-		capacityL: aircraftRow.capacity_l,
-		lowerLevelL: aircraftRow.lower_level_l,
-		unusableL: aircraftRow.unusable_l,
-		densityKgPerL: aircraftRow.density_kg_per_l,
-		meterFactor: aircraftRow.meter_factor,
-		baselineCruiseLph: aircraftRow.baseline_cruise_lph,
-		lowFuelL: aircraftRow.low_fuel_l,
-		lowEnduranceMin: aircraftRow.low_endurance_min,
-		reserveRule: aircraftRow.reserve_rule,
-		reserveCustomMin: aircraftRow.reserve_custom_min
-	});
+	const setup = fuelSetupOf(aircraftRow);
 	const { columns, waypoints } = columnsOf(rows);
 	const c: FlightComputation = computeFlight({ columns, ...engineInputsOf(setup, { declaration: { kind: 'onBoard', amountL: DECLARED_L }, previousOnBoardL: null }, []) });
 	await expect(page.getByTestId('scrub-time')).toHaveText('23:05:00');
