@@ -1,34 +1,16 @@
 // Forms on a flight: the start-of-flight declaration, fuel events on the timeline, and notes.
 // Amounts are typed in a chosen fuel unit and come out in litres; times are UTC. The replay page
-// runs the same schemas in the browser to preview a change before it is saved.
+// runs the same schemas in the browser to preview a change before it is saved. The declaration
+// itself is the shared one ($lib/schemas/declaration), in the form's words.
 import { z } from 'zod';
 import type { Declaration, FuelEventKind } from '$lib/fuel';
-import { fuelUnits, toLitres, type FuelUnit } from '$lib/units';
+import { toLitres, type FuelUnit } from '$lib/units';
+import { MAX_AMOUNT, amountField, declarationKindOf, declarationSchema, fuelUnitSchema, toDeclaration } from './declaration';
 
-/** Generous upper bound on any typed amount; the engine clamps to the tank capacity and says so. */
-export const MAX_AMOUNT = 100_000;
-
-const unitSchema = z.enum(fuelUnits as [FuelUnit, ...FuelUnit[]], 'Choose a unit.');
+const unitSchema = fuelUnitSchema('Choose a unit.');
 
 /** A number typed in a form: a decimal comma is accepted; blank is null. */
-const amountText = (what: string) =>
-	z
-		.string()
-		.optional()
-		.transform((raw, ctx) => {
-			const s = (raw ?? '').trim();
-			if (s === '') return null;
-			const n = Number(s.replace(',', '.'));
-			if (!Number.isFinite(n)) {
-				ctx.addIssue({ code: 'custom', message: `Enter ${what} as a number.` });
-				return z.NEVER;
-			}
-			if (n < 0 || n > MAX_AMOUNT) {
-				ctx.addIssue({ code: 'custom', message: `Enter ${what} between 0 and ${MAX_AMOUNT}.` });
-				return z.NEVER;
-			}
-			return n;
-		});
+const amountText = (what: string) => amountField('text', { notANumber: `Enter ${what} as a number.`, outOfRange: `Enter ${what} between 0 and ${MAX_AMOUNT}.` }, MAX_AMOUNT);
 
 const UTC_TIME = /^(\d{4})-(\d{2})-(\d{2})[T ](\d{2}):(\d{2})(?::(\d{2})(?:\.(\d{1,3}))?)?(?:Z|\+00:00)?$/;
 
@@ -58,18 +40,6 @@ const utcText = (what: string) =>
 		return date;
 	});
 
-export const DECLARATION_KINDS = ['unchanged', 'onBoard', 'full', 'lower', 'added', 'removed'] as const;
-export type DeclarationChoice = (typeof DECLARATION_KINDS)[number];
-
-export const declarationChoiceLabels: Record<DeclarationChoice, string> = {
-	unchanged: 'Unchanged since the last flight',
-	onBoard: 'Amount on board (dipstick or gauge)',
-	full: 'Filled to full',
-	lower: 'Filled to the lower level (tabs)',
-	added: 'Fuel added',
-	removed: 'Fuel removed'
-};
-
 /** The form fields' values for a stored declaration (amounts in `unit`). */
 export function declarationFormValues(
 	d: Declaration,
@@ -78,41 +48,23 @@ export function declarationFormValues(
 	densityKgPerL: number
 ): Record<string, string> {
 	const show = (litres: number | null) => (litres === null ? '' : String(Math.round((litres / toLitres(1, unit, densityKgPerL)) * 100) / 100));
-	const kind: DeclarationChoice = d.kind === 'added' && d.amountL === 0 ? 'unchanged' : d.kind;
+	const kind = declarationKindOf(d);
 	const amount = 'amountL' in d && kind !== 'unchanged' ? show(d.amountL) : '';
 	return { kind, amount, unit, previous: show(previousOnBoardL) };
 }
 
 export const declarationFormSchema = (densityKgPerL: number) =>
-	z
-		.object({
-			kind: z.enum(DECLARATION_KINDS, 'Choose what was done with the fuel before engine start.'),
-			amount: amountText('the amount'),
-			unit: unitSchema,
-			previous: amountText('the fuel on board before')
-		})
-		.superRefine((v, ctx) => {
-			if ((v.kind === 'onBoard' || v.kind === 'added' || v.kind === 'removed') && v.amount === null)
-				ctx.addIssue({ code: 'custom', path: ['amount'], message: v.kind === 'onBoard' ? 'Enter the amount on board.' : `Enter the amount ${v.kind}.` });
-		})
-		.transform((v): { declaration: Declaration; previousOnBoardL: number | null } => {
-			const L = (x: number | null) => (x === null ? null : toLitres(x, v.unit, densityKgPerL));
-			const amountL = L(v.amount) ?? 0;
-			let declaration: Declaration;
-			switch (v.kind) {
-				case 'unchanged':
-					declaration = { kind: 'added', amountL: 0 };
-					break;
-				case 'onBoard':
-				case 'added':
-				case 'removed':
-					declaration = { kind: v.kind, amountL };
-					break;
-				default:
-					declaration = { kind: v.kind };
-			}
-			return { declaration, previousOnBoardL: L(v.previous) };
-		});
+	declarationSchema(
+		{ amount: amountText('the amount'), unit: unitSchema },
+		{
+			kind: 'Choose what was done with the fuel before engine start.',
+			missingAmount: (kind) => (kind === 'onBoard' ? 'Enter the amount on board.' : `Enter the amount ${kind}.`)
+		},
+		{ previous: amountText('the fuel on board before') }
+	).transform((v): { declaration: Declaration; previousOnBoardL: number | null } => ({
+		declaration: toDeclaration(v, { displayUnit: v.unit, densityKgPerL }),
+		previousOnBoardL: v.previous === null ? null : toLitres(v.previous, v.unit, densityKgPerL)
+	}));
 
 export const FUEL_EVENT_KINDS = ['added', 'removed', 'toFull', 'toLower', 'resetUsed'] as const satisfies readonly FuelEventKind[];
 

@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { LITRES_PER_US_GALLON } from '$lib/units';
-import { declarationInputSchema, declarationProblem, toDeclaration } from './declaration';
+import { declarationProblem, toDeclaration } from '$lib/schemas/declaration';
+import { declarationInputSchema } from './declaration';
 
 // A 40 US gal trainer with tabs at 28 US gal, shown in US gallons.
 const tanks = { capacityL: 40 * LITRES_PER_US_GALLON, lowerLevelL: 28 * LITRES_PER_US_GALLON, densityKgPerL: 0.719, displayUnit: 'usgal' as const };

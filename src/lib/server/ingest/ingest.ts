@@ -35,11 +35,12 @@ import {
 } from '$lib/csv';
 import { computeFlight, summarize, WPT_NONE, type FlightSummary, type SampleColumns } from '$lib/fuel';
 import { engineInputsOf, reserveOf } from '$lib/flight-inputs';
+import { declarationProblem, toDeclaration } from '$lib/schemas/declaration';
 import { db as poolDb, pool } from '../db';
 import * as schema from '../db/schema';
 import { aircraft as aircraftTable, flights, importProfiles, uploads, type Aircraft, type ImportProfile } from '../db/schema';
 import { SAMPLE_COPY_COLUMNS, SampleCopyEncoder, chunkTuple, copyHeader, copyTrailer, writeWithBackpressure } from './binary-copy';
-import { declarationProblem, toDeclaration, type DeclarationInput } from './declaration';
+import type { DeclarationInput } from './declaration';
 
 /** Size of the pieces the original file is kept in (upload_chunks rows). */
 export const CHUNK_BYTES = 1 << 20;

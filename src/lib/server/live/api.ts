@@ -3,12 +3,12 @@
 // limit, validated whole, and every refusal answered as JSON saying what and where.
 import { json } from '@sveltejs/kit';
 import { and, eq, isNull } from 'drizzle-orm';
+import { toDeclaration } from '$lib/schemas/declaration';
 import { db } from '../db';
 import { recorders, type Recorder } from '../db/schema';
 import { hashToken } from '../tokens';
 import { readCsvBatch, readJsonBatch, closeSchema, openSchema, type BatchProblem } from './batch';
 import { MAX_BATCH_BYTES, MAX_BATCH_LABEL } from './config';
-import { toDeclaration } from './declaration';
 import { aircraftOf, closeByRecorder, LiveRefusal, openByRecorder, touchRecorder } from './flights';
 import { ingestBatch } from './ingest';
 

@@ -14,7 +14,7 @@ import {
 	recorderRowSchema,
 	type RecorderRow
 } from '$lib/csv';
-import { declarationJsonSchema } from './declaration';
+import { MAX_AMOUNT, amountField, declarationSchema, fuelUnitSchema } from '$lib/schemas/declaration';
 import {
 	distanceUnits,
 	flowUnits,
@@ -79,6 +79,16 @@ export const jsonBatchSchema = z.object({
 		.optional(),
 	samples: z.array(z.unknown()).min(1, 'samples must hold at least one sample.').max(MAX_BATCH_SAMPLES, `A batch holds at most ${MAX_BATCH_SAMPLES} samples; split it.`)
 });
+
+/**
+ * The declaration in an open request: the shared one ($lib/schemas/declaration) with a JSON
+ * number for the amount, in the unit given or the aircraft's display unit, and messages that name
+ * the JSON path.
+ */
+const declarationJsonSchema = declarationSchema(
+	{ amount: amountField('number', undefined, MAX_AMOUNT), unit: fuelUnitSchema().optional() },
+	{ kind: 'declaration.kind must be unchanged, onBoard, full, lower, added or removed.', missingAmount: (kind) => `declaration.amount is needed for ${kind}.` }
+);
 
 /** The body of POST /api/v1/live/open. */
 export const openSchema = z.object({

@@ -4,11 +4,11 @@
 // sweeper finds it idle; then it is an ordinary flight with its summary, exactly like an upload.
 import { and, eq, sql } from 'drizzle-orm';
 import type { Declaration } from '$lib/fuel';
+import { UNCHANGED_DECLARATION } from '$lib/schemas/declaration';
 import { db, type Tx } from '../db';
 import { aircraft, flights, memberships, recorders, users, type Aircraft, type Flight, type Recorder } from '../db/schema';
 import { recomputeSummary } from '../flights/summary';
 import { dropComputation } from './computation';
-import { ASSUMED_DECLARATION } from './declaration';
 import type { LiveNotice } from './protocol';
 import { NOTIFY_CHANNEL } from './protocol';
 import type { Queryable } from './samples';
@@ -77,7 +77,7 @@ export async function createFlight(tx: Tx, recorder: Recorder, a: Aircraft, o: N
 			title: o.title ?? '',
 			pilotId: o.pilotId ?? null,
 			startedAt: o.startedAt,
-			declaration: o.declaration ?? ASSUMED_DECLARATION,
+			declaration: o.declaration ?? UNCHANGED_DECLARATION,
 			previousOnBoardL: a.lastOnBoardL,
 			declarationConfirmed: o.declaration !== null,
 			lastSeq: o.firstSeq - 1
@@ -161,7 +161,7 @@ export async function openByRecorder(recorder: Recorder, o: OpenOptions): Promis
 			const [f] = await tx
 				.update(flights)
 				.set({
-					declaration: o.declaration ?? ASSUMED_DECLARATION,
+					declaration: o.declaration ?? UNCHANGED_DECLARATION,
 					declarationConfirmed: o.declaration !== null,
 					previousOnBoardL: a.lastOnBoardL,
 					lastSeq: firstSeq - 1,
