@@ -57,7 +57,7 @@ export async function loadDemoFlights(): Promise<number> {
 			declaration: f.declaration,
 			title: f.title
 		});
-		if (result.status !== 'stored') throw new Error(`demo flight ${f.file} was not stored: ${'message' in result ? result.message : result.status}`);
+		if (result.status !== 'stored') throw new Error(`demo flight ${f.file} was not stored (${result.status}): ${result.message}`);
 		if (f.instructor) await db.update(flights).set({ instructorId: f.instructor }).where(eq(flights.id, result.flightId));
 		if (f.refuel) {
 			const flight = (await db.query.flights.findFirst({ where: eq(flights.id, result.flightId) }))!;
