@@ -9,7 +9,7 @@ import { spawn } from 'node:child_process';
 import fs from 'node:fs';
 import { parseArgs } from 'node:util';
 import pg from 'pg';
-import { buildStaleReason, viteBuild } from './lib/build.mjs';
+import { startBenchApp } from './lib/bench-app';
 import { inRoot } from './lib/paths.mjs';
 import { withDatabase } from './lib/pgclient.mjs';
 import { clusterSettings, ensureCluster } from './lib/postgres.mjs';
@@ -90,40 +90,12 @@ const viewerToken = newToken('bdk_');
 
 // ---- the app ---------------------------------------------------------------------------------
 
-const stale = buildStaleReason();
-if (stale) {
-	log(`building the app first (${stale})`);
-	await viteBuild();
-}
-const server = spawn(process.execPath, ['build'], {
-	cwd: inRoot(),
-	env: { ...process.env, DATABASE_URL: dbUrl, PORT: String(PORT), HOST: '127.0.0.1', ORIGIN, SHUTDOWN_TIMEOUT: '2', SMTP_HOST: '127.0.0.1', SMTP_PORT: '9', BURNDOWN_DEMO: '0' },
-	stdio: ['ignore', 'pipe', 'pipe']
-});
-let serverLog = '';
-server.stdout.on('data', (d) => (serverLog += d));
-server.stderr.on('data', (d) => (serverLog += d));
-const stopServer = async () => {
-	if (server.exitCode !== null) return;
-	server.kill('SIGTERM');
-	await Promise.race([new Promise((r) => server.once('exit', r)), sleep(5000)]);
-	if (server.exitCode === null) server.kill('SIGKILL');
-};
+const app = await startBenchApp({ databaseUrl: dbUrl, port: PORT, log });
+const { server } = app;
+const stopServer = app.stop;
 process.once('SIGINT', () => {
 	void stopServer().then(() => process.exit(130));
 });
-for (let i = 0; ; i++) {
-	try {
-		if ((await fetch(`${ORIGIN}/api/health`)).ok) break;
-	} catch {
-		/* not up yet */
-	}
-	if (i > 150 || server.exitCode !== null) {
-		console.error(serverLog);
-		throw new Error('the app did not start');
-	}
-	await sleep(200);
-}
 const idle = memoryOf(server.pid!);
 log(`app on ${ORIGIN} (pid ${server.pid}), ${idle.rssMb.toFixed(0)} MB resident when idle`);
 

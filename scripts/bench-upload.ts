@@ -15,7 +15,7 @@ import path from 'node:path';
 import { performance } from 'node:perf_hooks';
 import { parseArgs } from 'node:util';
 import pg from 'pg';
-import { buildStaleReason, viteBuild } from './lib/build.mjs';
+import { startBenchApp } from './lib/bench-app';
 import { inRoot } from './lib/paths.mjs';
 import { withDatabase } from './lib/pgclient.mjs';
 import { clusterSettings, ensureCluster } from './lib/postgres.mjs';
@@ -153,34 +153,9 @@ try {
 	const size = await writeFiles(ROWS, csvPath, copyPath);
 	log(`generated ${ROWS.toLocaleString('en-US')} rows, ${mib(size)} (${s2(performance.now() - t)})`);
 
-	const stale = buildStaleReason();
-	if (stale) {
-		log(`building the app first (${stale})`);
-		await viteBuild();
-	}
-	const server = spawn(process.execPath, ['build'], {
-		cwd: inRoot(),
-		env: { ...process.env, DATABASE_URL: withDatabase(adminUrl, BENCH_DB), PORT: String(PORT), HOST: '127.0.0.1', ORIGIN, BODY_SIZE_LIMIT: '110M', SHUTDOWN_TIMEOUT: '2', SMTP_HOST: '127.0.0.1', SMTP_PORT: '9', BURNDOWN_DEMO: '0' },
-		stdio: ['ignore', 'pipe', 'pipe']
-	});
-	let serverLog = '';
-	server.stdout.on('data', (d) => (serverLog += d));
-	server.stderr.on('data', (d) => (serverLog += d));
-	cleanups.push(async () => {
-		if (server.exitCode !== null) return;
-		server.kill('SIGTERM');
-		await Promise.race([new Promise((r) => server.once('exit', r)), sleep(5000)]);
-		if (server.exitCode === null) server.kill('SIGKILL');
-	});
-	for (let i = 0; ; i++) {
-		try {
-			if ((await fetch(`${ORIGIN}/api/health`)).ok) break;
-		} catch {
-			/* not up yet */
-		}
-		if (i > 150 || server.exitCode !== null) throw new Error(`the app did not start:\n${serverLog}`);
-		await sleep(100);
-	}
+	const app = await startBenchApp({ databaseUrl: withDatabase(adminUrl, BENCH_DB), port: PORT, log, env: { BODY_SIZE_LIMIT: '110M' } });
+	const { server } = app;
+	cleanups.push(app.stop);
 	const memory = (field: 'VmRSS' | 'VmHWM') => {
 		const m = new RegExp(`${field}:\\s+(\\d+) kB`).exec(fs.readFileSync(`/proc/${server.pid}/status`, 'utf8'));
 		return m ? Number(m[1]) * 1024 : NaN;

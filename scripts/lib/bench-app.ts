@@ -1,0 +1,49 @@
+// The built app for a benchmark: builds it when sources changed, serves `node build` on a loopback
+// port against the benchmark's own database, waits for /api/health, and stops it afterwards.
+import { spawn, type ChildProcess } from 'node:child_process';
+import { setTimeout as sleep } from 'node:timers/promises';
+import { buildStaleReason, viteBuild } from './build.mjs';
+import { inRoot } from './paths.mjs';
+
+export interface BenchApp {
+	server: ChildProcess;
+	origin: string;
+	stop(): Promise<void>;
+}
+
+export async function startBenchApp(opts: { databaseUrl: string; port: number; log: (line: string) => void; env?: Record<string, string> }): Promise<BenchApp> {
+	const stale = buildStaleReason();
+	if (stale) {
+		opts.log(`building the app first (${stale})`);
+		await viteBuild();
+	}
+	const origin = `http://127.0.0.1:${opts.port}`;
+	const server = spawn(process.execPath, ['build'], {
+		cwd: inRoot(),
+		// No mail leaves a benchmark: port 9 is discard.
+		env: { ...process.env, DATABASE_URL: opts.databaseUrl, PORT: String(opts.port), HOST: '127.0.0.1', ORIGIN: origin, SHUTDOWN_TIMEOUT: '2', SMTP_HOST: '127.0.0.1', SMTP_PORT: '9', BURNDOWN_DEMO: '0', ...opts.env },
+		stdio: ['ignore', 'pipe', 'pipe']
+	});
+	let serverLog = '';
+	server.stdout!.on('data', (d) => (serverLog += d));
+	server.stderr!.on('data', (d) => (serverLog += d));
+	const stop = async () => {
+		if (server.exitCode !== null) return;
+		server.kill('SIGTERM');
+		await Promise.race([new Promise((r) => server.once('exit', r)), sleep(5000)]);
+		if (server.exitCode === null) server.kill('SIGKILL');
+	};
+	for (let i = 0; ; i++) {
+		try {
+			if ((await fetch(`${origin}/api/health`)).ok) break;
+		} catch {
+			/* not up yet */
+		}
+		if (i > 150 || server.exitCode !== null) {
+			await stop();
+			throw new Error(`the app did not start:\n${serverLog}`);
+		}
+		await sleep(100);
+	}
+	return { server, origin, stop };
+}
