@@ -5,7 +5,7 @@ import type { DeclarationInput, FuelEventInput, NoteInput } from '$lib/schemas/f
 import { db } from '../db';
 import { flightNotes, flights, fuelEvents, samples, type Flight } from '../db/schema';
 import { recomputeSummary } from './summary';
-import { fuelInputsChanged } from '../live/declare';
+import { announceChange } from '../live/declare';
 
 export type EditResult = { ok: true } | { ok: false; field: string; message: string };
 
@@ -20,7 +20,7 @@ export async function saveDeclaration(flight: Pick<Flight, 'id'>, input: Declara
 			.where(eq(flights.id, flight.id));
 		await recomputeSummary(flight.id, tx);
 	});
-	await fuelInputsChanged(flight.id);
+	await announceChange(flight.id);
 	return { ok: true };
 }
 
@@ -37,7 +37,7 @@ export async function addFuelEvent(flight: Pick<Flight, 'id' | 'startedAt'>, inp
 		await tx.insert(fuelEvents).values({ flightId: flight.id, t: input.t, kind: input.kind, amountL: input.amountL, note: input.note, createdBy: userId });
 		await recomputeSummary(flight.id, tx);
 	});
-	await fuelInputsChanged(flight.id);
+	await announceChange(flight.id);
 	return { ok: true };
 }
 
@@ -48,7 +48,7 @@ export async function removeFuelEvent(flight: Pick<Flight, 'id'>, eventId: strin
 		await recomputeSummary(flight.id, tx);
 		return { ok: true } as const;
 	});
-	if (result.ok) await fuelInputsChanged(flight.id);
+	if (result.ok) await announceChange(flight.id);
 	return result;
 }
 

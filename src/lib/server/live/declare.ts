@@ -34,15 +34,9 @@ export async function setLiveDeclaration(flightId: string, declaration: Declarat
 }
 
 /**
- * A declaration or fuel event changed from the replay page: this instance's cached live
- * computation is dropped and every viewer re-reads the flight's inputs.
+ * Tells every instance's viewers that the flight changed (an acknowledgement, a watch, a correction
+ * saved on the replay page). Cached live computations notice changed inputs by themselves.
  */
-export async function fuelInputsChanged(flightId: string): Promise<void> {
-	dropComputation(flightId);
-	await announceChange(flightId);
-}
-
-/** Tells every instance's viewers that the flight changed (an acknowledgement, a watch). */
 export async function announceChange(flightId: string): Promise<void> {
 	const [f] = await db.select({ lastSeq: flights.lastSeq }).from(flights).where(eq(flights.id, flightId));
 	if (f) await notify(db, { f: flightId, s: f.lastSeq, at: Date.now(), m: 1 });
