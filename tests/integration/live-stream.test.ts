@@ -112,6 +112,31 @@ describe('the stream route', () => {
 	});
 });
 
+describe('a recorder that does not count from zero', () => {
+	it('a viewer holding nothing gets the flight from its first sequence, before and after samples arrive', async () => {
+		const r = await call('open', w.tokenA, { declaration: { kind: 'onBoard', amount: 30 }, firstSeq: 100_000 });
+		expect(r.status).toBe(201);
+		const flightId = r.body.flightId as string;
+		const early: number[] = [];
+		const late: number[] = [];
+		const collect = (into: number[]) => (run: { from: number; to: number }) => {
+			for (let s = run.from; s <= run.to; s++) into.push(s);
+		};
+		// One viewer opens before the first sample, one after some have arrived; both hold nothing.
+		const first = openLiveStream({ url: routeUrl(flightId), fetch: routeFetch(w.instructor), onSamples: collect(early) });
+		await sleep(100);
+		await send(flightId, 100_000, 40);
+		const second = openLiveStream({ url: routeUrl(flightId), fetch: routeFetch(w.instructor), onSamples: collect(late) });
+		await send(flightId, 100_040, 40);
+		const deadline = Date.now() + 10_000;
+		while ((first.cursor < 100_079 || second.cursor < 100_079) && Date.now() < deadline) await sleep(20);
+		expect(early).toEqual(range(100_000, 100_079));
+		expect(late).toEqual(range(100_000, 100_079));
+		first.close();
+		second.close();
+	});
+});
+
 describe('reconnects and restarts', () => {
 	it('a viewer cut off mid-flight by a server restart receives exactly the missing samples', async () => {
 		const flightId = await openFlight();

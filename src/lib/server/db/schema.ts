@@ -308,6 +308,8 @@ export const flights = pgTable(
 		declarationConfirmed: boolean().notNull().default(true),
 		notes: text().notNull().default(''),
 		sampleCount: integer().notNull().default(0),
+		/** The recorder sequence a live flight starts at (recorders need not count from 0). */
+		firstSeq: integer().notNull().default(0),
 		/** Highest recorder sequence stored (live) or the last row number (upload). */
 		lastSeq: integer().notNull().default(-1),
 		lastSampleAt: tstz(),

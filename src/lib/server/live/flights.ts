@@ -80,6 +80,7 @@ export async function createFlight(tx: Tx, recorder: Recorder, a: Aircraft, o: N
 			declaration: o.declaration ?? UNCHANGED_DECLARATION,
 			previousOnBoardL: a.lastOnBoardL,
 			declarationConfirmed: o.declaration !== null,
+			firstSeq: o.firstSeq,
 			lastSeq: o.firstSeq - 1
 		})
 		.returning();

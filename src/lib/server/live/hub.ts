@@ -50,6 +50,9 @@ export interface HubStats {
 
 let metaVersion = 0;
 
+/** The cursor of a viewer that holds nothing of the flight yet. */
+const startCursor = (fs: { meta: FlightMeta | null }) => (fs.meta ? fs.meta.flight.firstSeq - 1 : -1);
+
 export class LiveHub {
 	private flights = new Map<string, FlightState>();
 	private client: pg.Client | null = null;
@@ -102,7 +105,8 @@ export class LiveHub {
 		}
 		await fs.ready;
 		const state = fs;
-		const viewer: Viewer = { cursor: after, send, end };
+		// "Everything" starts at the flight's first sequence, which need not be 0.
+		const viewer: Viewer = { cursor: Math.max(after, startCursor(state)), send, end };
 		state.viewers.add(viewer);
 		if (state.metaJson) viewer.send(EVENT_META, state.metaJson);
 		this.pump(state);
@@ -118,6 +122,7 @@ export class LiveHub {
 		fs.meta = meta;
 		if (!meta) return;
 		if (meta.flight.lastSeq > fs.head) fs.head = meta.flight.lastSeq;
+		for (const v of fs.viewers) v.cursor = Math.max(v.cursor, startCursor(fs));
 		const event: MetaEvent = { v: ++metaVersion, serverTime: Date.now(), ...meta };
 		fs.metaJson = JSON.stringify(event);
 	}

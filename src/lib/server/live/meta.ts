@@ -23,6 +23,7 @@ export async function loadMeta(flightId: string): Promise<FlightMeta | null> {
 			startedAt: f.startedAt.toISOString(),
 			endedAt: f.endedAt?.toISOString() ?? null,
 			lastSeq: f.lastSeq,
+			firstSeq: f.firstSeq,
 			receivedAt: f.sampleCount > 0 ? f.updatedAt.getTime() : null,
 			declarationConfirmed: f.declarationConfirmed
 		},

@@ -68,6 +68,11 @@ export interface MetaEvent {
 		startedAt: string;
 		endedAt: string | null;
 		lastSeq: number;
+		/**
+		 * The sequence the flight starts at (a recorder may not count from 0): a new viewer's
+		 * cursor starts just below it.
+		 */
+		firstSeq: number;
 		/** When the server last stored samples for this flight (epoch ms). */
 		receivedAt: number | null;
 		declarationConfirmed: boolean;

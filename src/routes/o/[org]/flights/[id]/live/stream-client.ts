@@ -109,7 +109,12 @@ export function openLiveStream(o: LiveStreamOptions): LiveStream {
 						};
 			cursor = run.to;
 			o.onSamples?.(part);
-		} else if (event === 'meta') o.onMeta?.(JSON.parse(data) as MetaEvent);
+		} else if (event === 'meta') {
+			const meta = JSON.parse(data) as MetaEvent;
+			// Holding nothing yet means holding everything below the flight's first sequence.
+			cursor = Math.max(cursor, meta.flight.firstSeq - 1);
+			o.onMeta?.(meta);
+		}
 		else if (event === 'hello') o.onHello?.(JSON.parse(data) as HelloEvent);
 		else if (event === 'end') {
 			ended = true;

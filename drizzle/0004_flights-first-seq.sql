@@ -1,0 +1,1 @@
+ALTER TABLE "flights" ADD COLUMN "first_seq" integer DEFAULT 0 NOT NULL;
