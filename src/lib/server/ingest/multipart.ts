@@ -1,17 +1,39 @@
-// A streaming multipart/form-data reader (RFC 7578): text fields come back as strings, the file
-// part as a stream of byte chunks, so a 100 MB upload never sits in memory whole. Request.formData()
-// would buffer the entire body first.
+// The upload's multipart/form-data body (RFC 7578) read with busboy: text fields come back as
+// strings, the file part as a stream of byte chunks, so a 100 MB upload never sits in memory whole
+// (Request.formData() would buffer the entire body first). This wrapper turns busboy's events into
+// parts in order and its errors into MultipartError messages a person can act on.
+import busboy from 'busboy';
+import type { Readable } from 'node:stream';
 
-export class MultipartError extends Error {}
+export class MultipartError extends Error {
+	/** The form field the error is about, when there is one. */
+	constructor(
+		message: string,
+		readonly field: string | null = null
+	) {
+		super(message);
+	}
+}
 
-export interface MultipartPart {
+export interface MultipartField {
+	kind: 'field';
 	name: string;
-	/** Set for file parts. */
+	value: string;
+}
+
+export interface MultipartFile {
+	kind: 'file';
+	name: string;
 	filename: string | null;
 	contentType: string | null;
-	/** The part's bytes; read it to the end (or call skip) before asking for the next part. */
+	/** The part's bytes; read it to the end before asking for the next part (a part left unread is skipped). */
 	body: AsyncIterable<Buffer>;
 }
+
+export type MultipartPart = MultipartField | MultipartFile;
+
+/** The largest text field, unless the caller says otherwise. */
+export const FIELD_LIMIT_BYTES = 256 * 1024;
 
 /** The boundary from a Content-Type header, or null when it is not multipart/form-data. */
 export function multipartBoundary(contentType: string | null): string | null {
@@ -21,120 +43,143 @@ export function multipartBoundary(contentType: string | null): string | null {
 	return b && b.length <= 70 ? b : null;
 }
 
-const CRLF = Buffer.from('\r\n');
-const HEADER_END = Buffer.from('\r\n\r\n');
-const MAX_HEADER_BYTES = 16 * 1024;
-
-function parseHeaders(text: string): { name: string; filename: string | null; contentType: string | null } {
-	let name: string | null = null;
-	let filename: string | null = null;
-	let contentType: string | null = null;
-	for (const line of text.split('\r\n')) {
-		const colon = line.indexOf(':');
-		if (colon < 0) continue;
-		const key = line.slice(0, colon).trim().toLowerCase();
-		const value = line.slice(colon + 1).trim();
-		if (key === 'content-disposition') {
-			const n = /(?:^|;)\s*name="((?:[^"\\]|\\.)*)"/i.exec(value) ?? /(?:^|;)\s*name=([^;\s]+)/i.exec(value);
-			if (n) name = n[1];
-			const f = /(?:^|;)\s*filename="((?:[^"\\]|\\.)*)"/i.exec(value) ?? /(?:^|;)\s*filename=([^;\s]+)/i.exec(value);
-			if (f) filename = f[1].replace(/\\(.)/g, '$1');
-		} else if (key === 'content-type') contentType = value;
-	}
-	if (name === null) throw new MultipartError('A form part has no name.');
-	return { name, filename, contentType };
-}
+type Event =
+	| { kind: 'field'; name: string | undefined; value: string; truncated: boolean }
+	| { kind: 'file'; name: string | undefined; stream: Readable; filename: string | undefined; mimeType: string }
+	| { kind: 'end' }
+	| { kind: 'error'; error: unknown };
 
 /**
- * The parts of a multipart body in order. Each part's body must be consumed before the iterator
- * moves on; a part left unread is skipped.
+ * The parts of a multipart body in order. Text fields over `fieldLimit` bytes are refused. The body
+ * is read only as fast as the parts are consumed: while a file part's stream is not read, busboy
+ * holds back its write callback, so this stops pulling from `source`.
  */
-export async function* readMultipart(source: AsyncIterable<Uint8Array>, boundary: string): AsyncGenerator<MultipartPart> {
-	const it = source[Symbol.asyncIterator]();
-	// The first boundary has no line break before it; pretend it does so every delimiter looks alike.
-	let buf: Buffer = Buffer.from(CRLF);
-	const delimiter = Buffer.from(`\r\n--${boundary}`);
-	let ended = false;
+export async function* readMultipart(source: AsyncIterable<Uint8Array>, boundary: string, fieldLimit = FIELD_LIMIT_BYTES): AsyncGenerator<MultipartPart> {
+	let bb: busboy.Busboy;
+	try {
+		bb = busboy({
+			headers: { 'content-type': `multipart/form-data; boundary="${boundary.replace(/["\\]/g, '\\$&')}"` },
+			// One byte over the limit tells a field at the limit from a longer one (busboy flags truncation on reaching it).
+			limits: { fieldSize: fieldLimit + 1 },
+			// Browsers and undici write file names as raw UTF-8, not latin1.
+			defParamCharset: 'utf8'
+		});
+	} catch (error) {
+		throw new MultipartError(`The form data’s boundary is not usable (${(error as Error).message}).`);
+	}
 
-	const more = async (): Promise<boolean> => {
-		if (ended) return false;
-		const next = await it.next();
-		if (next.done) {
-			ended = true;
-			return false;
+	const queue: Event[] = [];
+	let wake: (() => void) | null = null;
+	const push = (e: Event) => {
+		queue.push(e);
+		wake?.();
+		wake = null;
+	};
+	let partsSeen = 0;
+	let openFile: Readable | null = null;
+
+	/** busboy's words for what went wrong, in ours. */
+	const explain = (error: unknown): unknown => {
+		if (!(error instanceof Error) || error instanceof MultipartError) return error;
+		switch (error.message) {
+			case 'Unexpected end of form':
+			case 'Unexpected end of file':
+				if (openFile) return new MultipartError('The form data ends inside a part (the upload was cut off).');
+				return new MultipartError(partsSeen === 0 ? 'The form data has no parts.' : 'The form data ends early (the upload was cut off).');
+			case 'Malformed part header':
+				return new MultipartError('A form part’s headers are malformed or too long.');
+			default:
+				// Anything else (the connection reset, say) is not the form's fault: pass it on as it is.
+				return error;
 		}
-		const chunk = Buffer.from(next.value.buffer, next.value.byteOffset, next.value.byteLength);
-		buf = buf.length === 0 ? chunk : Buffer.concat([buf, chunk]);
-		return true;
 	};
 
-	// Skip the preamble up to the first delimiter.
-	for (;;) {
-		const at = buf.indexOf(delimiter);
-		if (at >= 0) {
-			buf = buf.subarray(at + delimiter.length);
-			break;
-		}
-		if (buf.length > delimiter.length) buf = buf.subarray(buf.length - delimiter.length);
-		if (!(await more())) throw new MultipartError('The form data has no parts.');
-	}
+	bb.on('field', (name, value, info) => {
+		partsSeen++;
+		push({ kind: 'field', name, value, truncated: info.valueTruncated });
+	});
+	bb.on('file', (name, stream, info) => {
+		partsSeen++;
+		openFile = stream;
+		stream.once('end', () => {
+			if (openFile === stream) openFile = null;
+		});
+		push({ kind: 'file', name, stream, filename: info.filename, mimeType: info.mimeType });
+	});
+	// Listeners stay for the whole body: an error after the caller stopped listening must not crash.
+	bb.on('error', (error) => push({ kind: 'error', error: explain(error) }));
+	bb.on('finish', () => push({ kind: 'end' }));
 
-	for (;;) {
-		// After a delimiter: "--" ends the body, a line break starts a part.
-		while (buf.length < 2) if (!(await more())) throw new MultipartError('The form data ends early.');
-		if (buf[0] === 0x2d && buf[1] === 0x2d) return;
-		let headerEnd: number;
+	let stopped = false;
+	const stop = () => {
+		if (stopped) return;
+		stopped = true;
+		bb.destroy();
+	};
+
+	// Feeds the body to busboy, waiting whenever it says its buffer is full.
+	const pump = async () => {
+		try {
+			for await (const chunk of source) {
+				if (stopped || bb.destroyed) return;
+				if (!bb.write(chunk))
+					await new Promise<void>((resolve) => {
+						const done = () => {
+							bb.off('drain', done);
+							bb.off('close', done);
+							resolve();
+						};
+						bb.on('drain', done);
+						bb.on('close', done);
+					});
+				if (stopped || bb.destroyed) return;
+			}
+			bb.end();
+		} catch (error) {
+			// The body itself failed: the open file stream (or the next part asked for) gets the error.
+			if (!bb.destroyed) bb.destroy(error as Error);
+			else push({ kind: 'error', error });
+		}
+	};
+	void pump();
+
+	let handedOutFile = false;
+	try {
 		for (;;) {
-			headerEnd = buf.indexOf(HEADER_END);
-			if (headerEnd >= 0) break;
-			if (buf.length > MAX_HEADER_BYTES) throw new MultipartError('A form part’s headers are too long.');
-			if (!(await more())) throw new MultipartError('The form data ends inside a part’s headers.');
+			while (queue.length === 0) await new Promise<void>((r) => (wake = r));
+			const e = queue.shift()!;
+			if (e.kind === 'end') return;
+			if (e.kind === 'error') throw e.error;
+			if (e.name === undefined || e.name === '') throw new MultipartError('A form part has no name.');
+			if (e.kind === 'field') {
+				if (e.truncated) throw new MultipartError(`The form field "${e.name}" is larger than ${fieldLimit >= 1024 ? `${Math.round(fieldLimit / 1024)} KB` : `${fieldLimit} bytes`}.`, e.name);
+				yield { kind: 'field', name: e.name, value: e.value };
+				continue;
+			}
+			let started = false;
+			const stream = e.stream;
+			const body: AsyncIterable<Buffer> = {
+				async *[Symbol.asyncIterator]() {
+					started = true;
+					let ended = false;
+					try {
+						for await (const chunk of stream) yield chunk as Buffer;
+						ended = true;
+					} catch (error) {
+						throw explain(error);
+					} finally {
+						// A reader that gives up half way: stop reading the request body too.
+						if (!ended) stop();
+					}
+				}
+			};
+			handedOutFile = true;
+			yield { kind: 'file', name: e.name, filename: e.filename ?? null, contentType: e.mimeType || null, body };
+			handedOutFile = false;
+			if (!started) stream.resume();
 		}
-		// Anything between the delimiter and the line break (transport padding) is ignored.
-		const headerStart = buf.indexOf(CRLF);
-		const headers = parseHeaders(buf.subarray(headerStart + 2, headerEnd).toString('utf8'));
-		buf = buf.subarray(headerEnd + 4);
-
-		let partDone = false;
-		/** The next piece of this part's body, or null at its end. */
-		const nextPiece = async (): Promise<Buffer | null> => {
-			for (;;) {
-				if (partDone) return null;
-				const at = buf.indexOf(delimiter);
-				if (at >= 0) {
-					const out = buf.subarray(0, at);
-					buf = buf.subarray(at + delimiter.length);
-					partDone = true;
-					return out;
-				}
-				// Keep the tail that could be the start of a delimiter split across chunks.
-				const keep = delimiter.length - 1;
-				if (buf.length > keep) {
-					const out = buf.subarray(0, buf.length - keep);
-					buf = buf.subarray(buf.length - keep);
-					return out;
-				}
-				if (!(await more())) throw new MultipartError('The form data ends inside a part (the upload was cut off).');
-			}
-		};
-		const body: AsyncIterable<Buffer> = {
-			async *[Symbol.asyncIterator]() {
-				for (let piece = await nextPiece(); piece !== null; piece = await nextPiece()) if (piece.length > 0) yield piece;
-			}
-		};
-		yield { ...headers, body };
-		while (!partDone) await nextPiece();
+	} finally {
+		// Stopping early is fine unless a file part is still out there being read.
+		if (!handedOutFile) stop();
 	}
-}
-
-/** A small text field, read whole; refuses one larger than `limit` bytes. */
-export async function readField(part: MultipartPart, limit = 256 * 1024): Promise<string> {
-	const pieces: Buffer[] = [];
-	let size = 0;
-	for await (const piece of part.body) {
-		size += piece.length;
-		if (size > limit) throw new MultipartError(`The form field "${part.name}" is larger than ${Math.round(limit / 1024)} KB.`);
-		pieces.push(Buffer.from(piece));
-	}
-	return Buffer.concat(pieces).toString('utf8');
 }

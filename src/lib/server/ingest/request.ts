@@ -4,7 +4,7 @@
 import { z } from 'zod';
 import { MAX_UPLOAD_BYTES, MAX_UPLOAD_LABEL, columnMappingSchema, type ColumnMapping } from '$lib/csv';
 import { declarationInputSchema, type DeclarationInput } from './declaration';
-import { MultipartError, multipartBoundary, readField, readMultipart } from './multipart';
+import { FIELD_LIMIT_BYTES, MultipartError, multipartBoundary, readMultipart } from './multipart';
 
 /** Room for the form fields and part headers around the file in a multipart body. */
 export const MULTIPART_OVERHEAD_BYTES = 1024 * 1024;
@@ -110,6 +110,20 @@ export async function* bytesOf(stream: ReadableStream<Uint8Array> | null): Async
 	}
 }
 
+async function* oneChunk(bytes: Uint8Array): AsyncGenerator<Uint8Array> {
+	yield bytes;
+}
+
+/** The file part's bytes; a form that breaks inside it (a cut-off upload) answers 400, not 500. */
+async function* formErrorsAs400(body: AsyncIterable<Buffer>): AsyncGenerator<Uint8Array> {
+	try {
+		yield* body;
+	} catch (error) {
+		if (error instanceof MultipartError) throw new UploadRequestError(400, error.message, 'file');
+		throw error;
+	}
+}
+
 export interface UploadRequest {
 	fields: Record<string, string>;
 	fileName: string;
@@ -134,13 +148,17 @@ export async function openUploadRequest(request: Request, url: URL): Promise<Upl
 		const parts = readMultipart(bytesOf(request.body), boundary);
 		try {
 			for await (const part of parts) {
-				if (part.filename !== null || part.name === 'file') {
+				if (part.kind === 'file' || part.name === 'file') {
 					if (part.name !== 'file') throw new UploadRequestError(400, `Send the recorder file in the form field "file" (got "${part.name}").`, 'file');
-					return { fields, fileName: fields.fileName || part.filename || 'upload.csv', file: part.body };
+					// curl -F 'file=<flight.csv' sends the file as a text part without a file name; it fits the field limit.
+					if (part.kind === 'field') return { fields, fileName: fields.fileName || 'upload.csv', file: oneChunk(Buffer.from(part.value)) };
+					return { fields, fileName: fields.fileName || part.filename || 'upload.csv', file: formErrorsAs400(part.body) };
 				}
-				fields[part.name] = await readField(part);
+				fields[part.name] = part.value;
 			}
 		} catch (error) {
+			if (error instanceof MultipartError && error.field === 'file')
+				throw new UploadRequestError(400, `Send the recorder file as a file part with a file name (curl -F "file=@flight.csv"); a text field "file" holds at most ${FIELD_LIMIT_BYTES / 1024} KB.`, 'file');
 			if (error instanceof MultipartError) throw new UploadRequestError(400, error.message, 'file');
 			throw error;
 		}
