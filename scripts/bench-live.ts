@@ -5,14 +5,10 @@
 // A benchmark, not a test: it prints figures and fails only when samples were lost or repeated.
 //
 //   npm run bench:live [-- --viewers 1000 --seconds 30 --per-batch 5 --rate 10]
-import { spawn } from 'node:child_process';
 import fs from 'node:fs';
 import { parseArgs } from 'node:util';
 import pg from 'pg';
-import { startBenchApp } from './lib/bench-app';
-import { inRoot } from './lib/paths.mjs';
-import { withDatabase } from './lib/pgclient.mjs';
-import { clusterSettings, ensureCluster } from './lib/postgres.mjs';
+import { scratchDatabase, startBenchApp } from './lib/bench-app';
 import { hashToken, newToken } from '../src/lib/server/tokens';
 import { openLiveStream, type LiveStream } from '../src/routes/o/[org]/flights/[id]/live/stream-client';
 
@@ -49,22 +45,7 @@ function percentile(sorted: number[], p: number): number {
 
 // ---- a scratch database on the project's disposable test cluster ---------------------------
 
-let adminUrl = process.env.BENCH_ADMIN_DATABASE_URL;
-if (!adminUrl) {
-	const { port, dataDir } = clusterSettings({ prefix: 'burndown-pgtest', portVar: 'BURNDOWN_TEST_PGPORT', dataVar: 'BURNDOWN_TEST_PGDATA', defaultPort: 54339 });
-	const cluster = await ensureCluster({ label: 'bench database', port, dataDir, fast: true, disposable: true, createdb: true });
-	adminUrl = cluster.appUrl('postgres');
-}
-const dbUrl = withDatabase(adminUrl, BENCH_DB);
-{
-	const c = new pg.Client({ connectionString: adminUrl });
-	await c.connect();
-	await c.query(`DROP DATABASE IF EXISTS ${BENCH_DB} WITH (FORCE)`);
-	await c.query(`CREATE DATABASE ${BENCH_DB}`);
-	await c.end();
-}
-await new Promise<void>((resolve, reject) => {
-	const p = spawn(inRoot('node_modules', '.bin', 'tsx'), ['scripts/migrate.ts'], { cwd: inRoot(), env: { ...process.env, DATABASE_URL: dbUrl }, stdio: 'inherit' });
+const { adminUrl, dbUrl } = await scratchDatabase(BENCH_DB);
 	p.on('exit', (code) => (code === 0 ? resolve() : reject(new Error(`migrate exit ${code}`))));
 });
 

@@ -4,14 +4,10 @@
 // sizes and median times; a benchmark, not a test (it asserts nothing about speed).
 //
 //   npx tsx scripts/bench-replay.ts [--samples 36000] [--runs 7] [--port 4192]
-import { spawn } from 'node:child_process';
 import { performance } from 'node:perf_hooks';
 import { parseArgs } from 'node:util';
 import pg from 'pg';
-import { startBenchApp } from './lib/bench-app';
-import { inRoot } from './lib/paths.mjs';
-import { withDatabase } from './lib/pgclient.mjs';
-import { clusterSettings, ensureCluster } from './lib/postgres.mjs';
+import { scratchDatabase, startBenchApp } from './lib/bench-app';
 import { hashToken, newToken } from '../src/lib/server/tokens';
 import { computeFlight, summarize } from '../src/lib/fuel';
 import { engineInputsOf, reserveOf } from '../src/lib/flight-inputs';
@@ -40,22 +36,7 @@ const ms = (x: number) => `${x.toFixed(1)} ms`;
 
 // ---- a scratch database on the project's disposable test cluster -----------------------------
 
-let adminUrl = process.env.BENCH_ADMIN_DATABASE_URL;
-if (!adminUrl) {
-	const { port, dataDir } = clusterSettings({ prefix: 'burndown-pgtest', portVar: 'BURNDOWN_TEST_PGPORT', dataVar: 'BURNDOWN_TEST_PGDATA', defaultPort: 54339 });
-	const cluster = await ensureCluster({ label: 'bench database', port, dataDir, fast: true, disposable: true, createdb: true });
-	adminUrl = cluster.appUrl('postgres');
-}
-const dbUrl = withDatabase(adminUrl, BENCH_DB);
-{
-	const c = new pg.Client({ connectionString: adminUrl });
-	await c.connect();
-	await c.query(`DROP DATABASE IF EXISTS ${BENCH_DB} WITH (FORCE)`);
-	await c.query(`CREATE DATABASE ${BENCH_DB}`);
-	await c.end();
-}
-await new Promise<void>((resolve, reject) => {
-	const p = spawn(inRoot('node_modules', '.bin', 'tsx'), ['scripts/migrate.ts'], { cwd: inRoot(), env: { ...process.env, DATABASE_URL: dbUrl }, stdio: 'inherit' });
+const { adminUrl, dbUrl } = await scratchDatabase(BENCH_DB);
 	p.on('exit', (code) => (code === 0 ? resolve() : reject(new Error(`migrate exit ${code}`))));
 });
 

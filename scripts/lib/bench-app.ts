@@ -2,8 +2,35 @@
 // port against the benchmark's own database, waits for /api/health, and stops it afterwards.
 import { spawn, type ChildProcess } from 'node:child_process';
 import { setTimeout as sleep } from 'node:timers/promises';
+import pg from 'pg';
 import { buildStaleReason, viteBuild } from './build.mjs';
 import { inRoot } from './paths.mjs';
+import { withDatabase } from './pgclient.mjs';
+import { clusterSettings, ensureCluster } from './postgres.mjs';
+
+/**
+ * A freshly migrated database `name` on the project's disposable test cluster (or on the server
+ * of BENCH_ADMIN_DATABASE_URL, a role that may create databases).
+ */
+export async function scratchDatabase(name: string): Promise<{ adminUrl: string; dbUrl: string }> {
+	let adminUrl = process.env.BENCH_ADMIN_DATABASE_URL;
+	if (!adminUrl) {
+		const { port, dataDir } = clusterSettings({ prefix: 'burndown-pgtest', portVar: 'BURNDOWN_TEST_PGPORT', dataVar: 'BURNDOWN_TEST_PGDATA', defaultPort: 54339 });
+		const cluster = await ensureCluster({ label: 'bench database', port, dataDir, fast: true, disposable: true, createdb: true });
+		adminUrl = cluster.appUrl('postgres') as string;
+	}
+	const dbUrl = withDatabase(adminUrl, name);
+	const c = new pg.Client({ connectionString: adminUrl });
+	await c.connect();
+	await c.query(`DROP DATABASE IF EXISTS ${name} WITH (FORCE)`);
+	await c.query(`CREATE DATABASE ${name}`);
+	await c.end();
+	await new Promise<void>((resolve, reject) => {
+		const p = spawn(inRoot('node_modules', '.bin', 'tsx'), ['scripts/migrate.ts'], { cwd: inRoot(), env: { ...process.env, DATABASE_URL: dbUrl }, stdio: 'inherit' });
+		p.on('exit', (code) => (code === 0 ? resolve() : reject(new Error(`migrate exit ${code}`))));
+	});
+	return { adminUrl, dbUrl };
+}
 
 export interface BenchApp {
 	server: ChildProcess;

@@ -104,7 +104,7 @@ describe('multipart reader', () => {
 		);
 	});
 
-	it('streams a large file in many chunks, none larger than what came in, byte-identical', async () => {
+	it('streams a large file in many chunks, none much larger than what came in, byte-identical', async () => {
 		const bytes = randomBytes(3 * 1024 * 1024);
 		const { body, boundary } = await encode([['aircraftId', 'x']], { name: 'big.bin', bytes });
 		const { source } = metered(body, 64 * 1024);
@@ -124,7 +124,9 @@ describe('multipart reader', () => {
 		expect(total).toBe(bytes.length);
 		expect(hash.digest('hex')).toBe(sha(bytes));
 		expect(chunks).toBeGreaterThanOrEqual(48);
-		expect(largest).toBeLessThanOrEqual(64 * 1024);
+		// Nothing is gathered up: a chunk is at most what came in plus the few bytes the boundary
+		// search held back from the previous one (when random bytes began like the boundary).
+		expect(largest).toBeLessThanOrEqual(64 * 1024 + boundary.length + 4);
 	});
 
 	it('reads the body no faster than the file part is consumed', async () => {
