@@ -46,8 +46,6 @@ function percentile(sorted: number[], p: number): number {
 // ---- a scratch database on the project's disposable test cluster ---------------------------
 
 const { adminUrl, dbUrl } = await scratchDatabase(BENCH_DB);
-	p.on('exit', (code) => (code === 0 ? resolve() : reject(new Error(`migrate exit ${code}`))));
-});
 
 const recorderToken = newToken('bdr_');
 const viewerToken = newToken('bdk_');

@@ -37,8 +37,6 @@ const ms = (x: number) => `${x.toFixed(1)} ms`;
 // ---- a scratch database on the project's disposable test cluster -----------------------------
 
 const { adminUrl, dbUrl } = await scratchDatabase(BENCH_DB);
-	p.on('exit', (code) => (code === 0 ? resolve() : reject(new Error(`migrate exit ${code}`))));
-});
 
 const token = newToken('bdk_');
 // Flows logged in US gal/h and stored in L/h, as an upload from a US recorder is: full doubles.
