@@ -292,6 +292,7 @@ test('the same file again goes to its flight; a broken file lists its problems a
 	await page.screenshot({ path: 'test-results/upload-profile.png', fullPage: false });
 	await page.getByTestId('upload-submit').click();
 	await expect(page).toHaveURL(`/o/${DEMO_ORG}/flights/${existing[0].id}?duplicate=1`, { timeout: 20_000 });
+	await expect(page.getByTestId('duplicate-notice')).toContainText('uploaded before for BD-KTD');
 	await expect(page.getByTestId('fuel-figures')).toBeVisible({ timeout: 15_000 });
 	expect(await storedFor(DEMO_AIRCRAFT.diesel)).toEqual(before);
 
