@@ -10,19 +10,8 @@ import { fileURLToPath } from 'node:url';
 import { parseArgs } from 'node:util';
 import { simpleParser, type AddressObject } from 'mailparser';
 import { SMTPServer, type SMTPServerDataStream, type SMTPServerSession } from 'smtp-server';
+import type { StoredMessage } from '../src/lib/server/mail/mailbox';
 
-/** One stored message: the file format the mailbox page and tests/helpers/mailbox.ts read. */
-export interface StoredMail {
-	id: string;
-	/** When the sink received it (ISO 8601, UTC). */
-	date: string;
-	from: string;
-	/** Envelope recipients: everyone it was delivered to, Bcc included. */
-	to: string[];
-	subject: string;
-	text: string;
-	html: string | null;
-}
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
 const MAX_BYTES = 25 * 1024 * 1024;
@@ -54,17 +43,17 @@ function newId(): string {
 }
 
 /** Temp file + rename, so a reader never sees half a message. Dot-files are not messages. */
-function store(mail: StoredMail): void {
+function store(mail: StoredMessage): void {
 	fs.mkdirSync(dir, { recursive: true });
 	const tmp = path.join(dir, `.${mail.id}.json.tmp`);
 	fs.writeFileSync(tmp, `${JSON.stringify(mail, null, '\t')}\n`);
 	fs.renameSync(tmp, path.join(dir, `${mail.id}.json`));
 }
 
-async function receive(stream: SMTPServerDataStream, session: SMTPServerSession): Promise<StoredMail> {
+async function receive(stream: SMTPServerDataStream, session: SMTPServerSession): Promise<StoredMessage> {
 	const parsed = await simpleParser(stream);
 	if (stream.sizeExceeded) throw Object.assign(new Error('message exceeds the size limit'), { responseCode: 552 });
-	const mail: StoredMail = {
+	const mail: StoredMessage = {
 		id: newId(),
 		date: new Date().toISOString(),
 		from: addressText(parsed.from) || (session.envelope.mailFrom ? session.envelope.mailFrom.address : ''),

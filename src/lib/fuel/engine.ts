@@ -117,21 +117,6 @@ export function prepare(input: EngineInputs): EngineSetup {
 	};
 }
 
-/** The per-sample result arrays; live mode allocates them with spare room and grows them. */
-export interface Outputs {
-	flow: Float64Array;
-	used: Float64Array;
-	onBoard: Float64Array;
-	endurance: Float64Array;
-	timeToWpt: Float64Array;
-	fuelToWpt: Float64Array;
-	reserveAtWpt: Float64Array;
-	reserveAtWptMin: Float64Array;
-	specificRange: Float64Array;
-	phase: Uint8Array;
-	alarmState: Uint8Array;
-	flags: Uint8Array;
-}
 
 const FLOAT_OUTPUTS = [
 	'flow',
@@ -145,6 +130,9 @@ const FLOAT_OUTPUTS = [
 	'specificRange'
 ] as const;
 const BYTE_OUTPUTS = ['phase', 'alarmState', 'flags'] as const;
+
+/** The per-sample result arrays; live mode allocates them with spare room and grows them. */
+export type Outputs = Pick<FlightComputation, (typeof FLOAT_OUTPUTS)[number] | (typeof BYTE_OUTPUTS)[number]>;
 
 export function allocOutputs(capacity: number): Outputs {
 	const o = {} as Outputs;

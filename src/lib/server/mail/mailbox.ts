@@ -3,10 +3,13 @@
 import { readdir, readFile } from 'node:fs/promises';
 import { join } from 'node:path';
 
+/** One message as scripts/mail-sink.ts stores it (one JSON file each); tests read the same files. */
 export interface StoredMessage {
 	id: string;
+	/** When the sink received it (ISO 8601, UTC). */
 	date: string;
 	from: string;
+	/** Envelope recipients: everyone it was delivered to, Bcc included. */
 	to: string[];
 	subject: string;
 	text: string;
