@@ -1,7 +1,8 @@
-// Keeps flights.summary (the cached FlightSummary the lists read) in step with the samples and the
-// fuel inputs: recomputed from the stored rows with the same engine the browser runs, after an
-// upload, a declaration change or a fuel event added or removed.
-import { and, desc, eq, ne } from 'drizzle-orm';
+// The one place a flight's stored figures are derived: flights.summary (the cached FlightSummary
+// the lists read) and the aircraft's "last known on board", recomputed from the stored samples and
+// fuel inputs with the same engine the browser runs. Every write that changes an input (upload,
+// declaration, fuel event, close, aircraft fuel profile, meter factor) calls it in its transaction.
+import { and, asc, desc, eq, isNotNull, sql } from 'drizzle-orm';
 import { reserveOf } from '$lib/flight-inputs';
 import { computeFlight, summarize, type FlightComputation, type FlightSummary } from '$lib/fuel';
 import { db } from '../db';
@@ -14,26 +15,41 @@ export function computeLoaded(f: LoadedFlight): { computation: FlightComputation
 }
 
 /**
- * Recomputes and stores one flight's summary; null when the flight does not exist. Pass the
- * transaction that changed the flight so the summary commits with the change. When the flight is
- * the aircraft's latest closed one, the aircraft's "last known on board" follows the correction.
+ * Recomputes and stores one flight's figures; null when the flight does not exist or is still
+ * open (an open flight's figures are live and change with every batch, so none are stored until
+ * it closes). Pass the transaction that changed an input so the figures commit with the change.
  */
 export async function recomputeSummary(flightId: string, q: Queryable = db): Promise<FlightSummary | null> {
 	const loaded = await loadFlight(flightId, q);
 	if (!loaded) return null;
-	const { summary } = computeLoaded(loaded);
+	const summary = loaded.flight.status === 'closed' ? computeLoaded(loaded).summary : null;
 	await q.update(flights).set({ summary, updatedAt: new Date() }).where(eq(flights.id, flightId));
-	const f = loaded.flight;
-	if (f.status === 'closed' && summary.onBoardAtShutdownL !== null) {
-		const [latest] = await q
-			.select({ startedAt: flights.startedAt })
-			.from(flights)
-			.where(and(eq(flights.aircraftId, f.aircraftId), eq(flights.status, 'closed'), ne(flights.id, f.id)))
-			.orderBy(desc(flights.startedAt))
-			.limit(1);
-		if (!latest || latest.startedAt <= f.startedAt) {
-			await q.update(aircraft).set({ lastOnBoardL: summary.onBoardAtShutdownL, updatedAt: new Date() }).where(eq(aircraft.id, f.aircraftId));
-		}
-	}
+	await refreshLastOnBoard(loaded.flight.aircraftId, q);
 	return summary;
+}
+
+/**
+ * After a change to the aircraft's fuel profile (capacity, fill levels, baseline flow, density,
+ * meter factor, reserve rule): every flight of the aircraft, one at a time so only one flight's
+ * samples are in memory. Returns how many flights were recomputed.
+ */
+export async function recomputeAircraftFlights(aircraftId: string, q: Queryable): Promise<number> {
+	const ids = await q.select({ id: flights.id }).from(flights).where(eq(flights.aircraftId, aircraftId)).orderBy(asc(flights.startedAt));
+	for (const { id } of ids) await recomputeSummary(id, q);
+	return ids.length;
+}
+
+/**
+ * The aircraft's last known fuel on board is the latest closed flight's fuel at shutdown. An
+ * aircraft with no such flight keeps the figure it was given (a fleet entry, the demo data).
+ */
+async function refreshLastOnBoard(aircraftId: string, q: Queryable): Promise<void> {
+	const [latest] = await q
+		.select({ onBoardL: sql<number | null>`(${flights.summary}->>'onBoardAtShutdownL')::float8` })
+		.from(flights)
+		.where(and(eq(flights.aircraftId, aircraftId), eq(flights.status, 'closed'), isNotNull(flights.summary)))
+		.orderBy(desc(flights.startedAt))
+		.limit(1);
+	if (!latest || latest.onBoardL === null) return;
+	await q.update(aircraft).set({ lastOnBoardL: latest.onBoardL, updatedAt: new Date() }).where(eq(aircraft.id, aircraftId));
 }

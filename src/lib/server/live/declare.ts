@@ -1,8 +1,10 @@
-// Setting or correcting the declaration of a flight in progress (the pilot or an instructor on
-// the live page): stored, confirmed, alarms brought in line, and every viewer told to recompute.
+// Setting or correcting the declaration from the live page (the pilot or an instructor, during the
+// flight or after it closed): stored, confirmed, the stored figures recomputed, alarms brought in
+// line, and every viewer told to recompute.
 import { eq } from 'drizzle-orm';
 import type { Declaration } from '$lib/fuel';
 import { db } from '../db';
+import { recomputeSummary } from '../flights/summary';
 import { aircraft, flights } from '../db/schema';
 import { mailAlarms, syncAlarms, type NewAlarm } from './alarms';
 import { computationFor, dropComputation } from './computation';
@@ -24,6 +26,7 @@ export async function setLiveDeclaration(flightId: string, declaration: Declarat
 				const computed = await computationFor(tx, f, a);
 				toMail = (await syncAlarms(tx, f, computed)).toMail;
 			}
+			await recomputeSummary(f.id, tx);
 			await notify(tx, { f: f.id, s: f.lastSeq, at: Date.now(), m: 1 });
 		});
 	} catch (error) {

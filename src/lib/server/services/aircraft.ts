@@ -1,9 +1,11 @@
 // The fleet: aircraft of an organisation, and the form values an aircraft is edited with.
 import { and, asc, eq, isNull } from 'drizzle-orm';
+import { fuelSetupOf } from '$lib/flight-inputs';
 import { fromLitres } from '$lib/units';
 import type { AircraftInput } from '$lib/schemas/aircraft';
 import { db } from '../db';
 import { aircraft, type Aircraft } from '../db/schema';
+import { recomputeAircraftFlights } from '../flights/summary';
 
 export async function listAircraft(orgId: string, opts: { includeArchived?: boolean } = {}) {
 	return db
@@ -24,11 +26,17 @@ export async function createAircraft(orgId: string, input: AircraftInput): Promi
 export async function updateAircraft(orgId: string, id: string, input: AircraftInput): Promise<SaveResult> {
 	const clash = await db.query.aircraft.findFirst({ where: and(eq(aircraft.orgId, orgId), eq(aircraft.registration, input.registration)) });
 	if (clash && clash.id !== id) return { ok: false, field: 'registration', message: 'This organisation already has an aircraft with that registration.' };
-	const [row] = await db
-		.update(aircraft)
-		.set({ ...input, updatedAt: new Date() })
-		.where(and(eq(aircraft.orgId, orgId), eq(aircraft.id, id)))
-		.returning();
+	const row = await db.transaction(async (tx) => {
+		const [before] = await tx.select().from(aircraft).where(and(eq(aircraft.orgId, orgId), eq(aircraft.id, id))).for('update');
+		const [after] = await tx
+			.update(aircraft)
+			.set({ ...input, updatedAt: new Date() })
+			.where(and(eq(aircraft.orgId, orgId), eq(aircraft.id, id)))
+			.returning();
+		// A new name or type changes no figure; anything the engine reads recomputes every flight.
+		if (before && after && JSON.stringify(fuelSetupOf(before)) !== JSON.stringify(fuelSetupOf(after))) await recomputeAircraftFlights(id, tx);
+		return after;
+	});
 	return { ok: true, aircraft: row };
 }
 

@@ -6,6 +6,7 @@ import { toLitres } from '$lib/units';
 import type { CalibrationForm } from '$lib/schemas/calibration';
 import { db } from '../db';
 import { aircraft as aircraftTable, calibrations, type Aircraft } from '../db/schema';
+import { recomputeAircraftFlights } from '../flights/summary';
 
 export async function recordCalibration(a: Aircraft, form: CalibrationForm, userId: string) {
 	const shownL = toLitres(form.shown, a.displayUnit, a.densityKgPerL);
@@ -31,6 +32,8 @@ export async function recordCalibration(a: Aircraft, form: CalibrationForm, user
 		});
 		if (form.apply !== 'none') {
 			await tx.update(aircraftTable).set({ meterFactor: meterFactorNew, kFactor: kFactorNew, updatedAt: new Date() }).where(eq(aircraftTable.id, a.id));
+			// The meter factor scales every flight's fuel used: the stored figures follow it.
+			if (meterFactorNew !== a.meterFactor) await recomputeAircraftFlights(a.id, tx);
 		}
 	});
 	return { ...result, applied: form.apply, meterFactorNew, kFactorNew };

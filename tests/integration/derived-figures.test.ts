@@ -1,0 +1,189 @@
+// Stored figures are derived: after every write that changes a fuel input — the declaration or a
+// fuel event from the replay page, the declaration from the live page, the aircraft's fuel profile,
+// the meter factor, the reserve rule — each flight's stored summary and the aircraft's last known
+// fuel on board must equal a fresh computation from the stored samples and inputs.
+import { beforeAll, describe, expect, it } from 'vitest';
+import type { RequestEvent } from '@sveltejs/kit';
+import { asc, desc, eq } from 'drizzle-orm';
+import { db, pool } from '$lib/server/db';
+import { aircraft, flights, fuelEvents, memberships, organisations, users } from '$lib/server/db/schema';
+import { loadFlight } from '$lib/server/flights/load';
+import { computeLoaded, recomputeSummary } from '$lib/server/flights/summary';
+import { aircraftFormValues } from '$lib/server/services/aircraft';
+import { LITRES_PER_US_GALLON } from '$lib/units';
+import { actions as replayActions } from '../../src/routes/o/[org]/flights/[id]/+page.server';
+import { actions as liveActions } from '../../src/routes/o/[org]/flights/[id]/live/+page.server';
+import { actions as aircraftActions } from '../../src/routes/o/[org]/aircraft/[id]/+page.server';
+import { generateFlight, insertFlight } from './replay-fixture';
+
+const stamp = Date.now().toString(36);
+const person = (key: string, name: string) => ({ id: `df-${key}-${stamp}`, email: `${key}-${stamp}@derived.example`, name, prefFuelUnit: null });
+const U = { admin: person('admin', 'Ada Admin'), pilot: person('pilot', 'Pia Pilot') };
+type TestUser = (typeof U)[keyof typeof U];
+
+let slug = '';
+let aircraftId = '';
+let uploaded = '';
+let live = '';
+let otherAircraftFlight = '';
+const first = generateFlight({ start: Date.UTC(2025, 4, 14, 9, 0, 0) / 1000, cruiseS: 1800 });
+const second = generateFlight({ start: Date.UTC(2025, 4, 15, 9, 0, 0) / 1000, cruiseS: 1200 });
+
+function formEvent(user: TestUser, route: string, params: Record<string, string>, path: string, fields: Record<string, string>) {
+	const body = new FormData();
+	for (const [k, v] of Object.entries(fields)) body.set(k, v);
+	const url = new URL(`http://127.0.0.1:4173${path}`);
+	return {
+		locals: { user, session: null, authVia: 'session' },
+		params,
+		url,
+		route: { id: route },
+		request: new Request(url, { method: 'POST', body })
+	} as unknown as RequestEvent;
+}
+
+const onReplay = (action: keyof typeof replayActions, id: string, fields: Record<string, string>, user: TestUser = U.pilot) =>
+	replayActions[action](formEvent(user, '/o/[org]/flights/[id]', { org: slug, id }, `/o/${slug}/flights/${id}?/${action}`, fields) as never) as Promise<unknown>;
+const onLive = (action: keyof typeof liveActions, id: string, fields: Record<string, string>, user: TestUser = U.pilot) =>
+	liveActions[action](formEvent(user, '/o/[org]/flights/[id]/live', { org: slug, id }, `/o/${slug}/flights/${id}/live?/${action}`, fields) as never) as Promise<unknown>;
+const onAircraft = (action: keyof typeof aircraftActions, fields: Record<string, string>) =>
+	aircraftActions[action](formEvent(U.admin, '/o/[org]/aircraft/[id]', { org: slug, id: aircraftId }, `/o/${slug}/aircraft/${aircraftId}?/${action}`, fields) as never) as Promise<unknown>;
+
+/** As jsonb carries them (NaN → null, -0 → 0). */
+const plain = <T>(x: T): T => JSON.parse(JSON.stringify(x));
+
+async function aircraftRow() {
+	const [a] = await db.select().from(aircraft).where(eq(aircraft.id, aircraftId));
+	return a;
+}
+
+/**
+ * Every flight's stored summary against a fresh computation from its samples and stored inputs
+ * (an open flight stores none: its figures are live), and the aircraft's last known fuel against
+ * the latest closed flight's fuel at shutdown.
+ */
+async function expectDerived(what: string) {
+	const rows = await db.select({ id: flights.id, status: flights.status, summary: flights.summary }).from(flights).orderBy(asc(flights.startedAt));
+	for (const row of rows) {
+		const loaded = await loadFlight(row.id);
+		const fresh = row.status === 'closed' ? computeLoaded(loaded!).summary : null;
+		expect(plain(row.summary), `${what}: stored summary of flight ${row.id}`).toEqual(plain(fresh));
+	}
+	const [latest] = await db
+		.select({ summary: flights.summary })
+		.from(flights)
+		.where(eq(flights.aircraftId, aircraftId))
+		.orderBy(desc(flights.startedAt))
+		.limit(1);
+	const shutdown = (latest.summary as { onBoardAtShutdownL: number }).onBoardAtShutdownL;
+	expect((await aircraftRow()).lastOnBoardL, `${what}: the aircraft's last known fuel on board`).toBeCloseTo(shutdown, 9);
+}
+
+const storedOnBoard = async (id: string) => {
+	const [row] = await db.select({ summary: flights.summary }).from(flights).where(eq(flights.id, id));
+	return (row.summary as { onBoardAtShutdownL: number }).onBoardAtShutdownL;
+};
+
+beforeAll(async () => {
+	await db.insert(users).values(Object.values(U).map((u) => ({ id: u.id, email: u.email, name: u.name, passwordHash: 'not-a-real-hash' })));
+	const [org] = await db.insert(organisations).values({ name: 'Derived Figures Flying Group', slug: `derived-${stamp}` }).returning();
+	slug = org.slug;
+	await db.insert(memberships).values([
+		{ orgId: org.id, userId: U.admin.id, role: 'admin' },
+		{ orgId: org.id, userId: U.pilot.id, role: 'pilot' }
+	]);
+	const plane = (registration: string) => ({
+		orgId: org.id,
+		registration,
+		type: 'Four-seat trainer',
+		fuelType: 'avgas' as const,
+		densityKgPerL: 0.719,
+		// 40 US gal usable; 1 US gal = 3.785411784 L (NIST Handbook 44, Appendix C).
+		capacityL: 40 * LITRES_PER_US_GALLON,
+		lowerLevelL: 28 * LITRES_PER_US_GALLON,
+		displayUnit: 'usgal' as const,
+		lowFuelL: 10 * LITRES_PER_US_GALLON,
+		lowEnduranceMin: 45,
+		reserveRule: 'faa-91.151-vfr-day',
+		baselineCruiseLph: 31,
+		lastOnBoardL: 30 * LITRES_PER_US_GALLON
+	});
+	const [a] = await db.insert(aircraft).values(plane('DF-ONE')).returning();
+	const [b] = await db.insert(aircraft).values(plane('DF-TWO')).returning();
+	aircraftId = a.id;
+	uploaded = await insertFlight(pool, { orgId: org.id, aircraftId, pilotId: U.pilot.id, declaration: { kind: 'full' } }, first);
+	live = await insertFlight(pool, { orgId: org.id, aircraftId, pilotId: U.pilot.id, declaration: { kind: 'lower' }, title: 'recorded live' }, second);
+	await db.update(flights).set({ source: 'live' }).where(eq(flights.id, live));
+	otherAircraftFlight = await insertFlight(pool, { orgId: org.id, aircraftId: b.id, pilotId: U.pilot.id, declaration: { kind: 'full' } }, first);
+	await db.transaction(async (tx) => {
+		for (const id of [uploaded, live, otherAircraftFlight]) await recomputeSummary(id, tx);
+	});
+});
+
+describe('every write that changes a fuel input keeps the stored figures derived', () => {
+	it('starts consistent', async () => {
+		await expectDerived('after set-up');
+	});
+
+	it('replay page: declaration', async () => {
+		expect(await onReplay('declaration', uploaded, { kind: 'onBoard', amount: '30', unit: 'usgal', previous: '' })).toMatchObject({ saved: true });
+		await expectDerived('replay declaration');
+	});
+
+	it('replay page: fuel event added and removed', async () => {
+		const at = new Date(second.t[600] * 1000).toISOString().slice(0, 19);
+		const before = await storedOnBoard(live);
+		expect(await onReplay('addEvent', live, { kind: 'added', amount: '5', unit: 'usgal', at, note: '' })).toMatchObject({ saved: true });
+		expect((await storedOnBoard(live)) - before).toBeCloseTo(5 * LITRES_PER_US_GALLON, 6);
+		await expectDerived('replay event added');
+		const [ev] = await db.select().from(fuelEvents).where(eq(fuelEvents.flightId, live));
+		expect(await onReplay('removeEvent', live, { id: ev.id })).toMatchObject({ saved: true });
+		await expectDerived('replay event removed');
+	});
+
+	it('live page: declaration of a closed live flight', async () => {
+		const before = await storedOnBoard(live);
+		expect(await onLive('declaration', live, { kind: 'onBoard', amount: '20', unit: 'usgal', previous: '' })).toMatchObject({ saved: true });
+		// 20 US gal at engine start instead of the 28 US gal lower level: 8 US gal less at shutdown.
+		expect((await storedOnBoard(live)) - before).toBeCloseTo(-8 * LITRES_PER_US_GALLON, 6);
+		await expectDerived('live declaration');
+	});
+
+	it('aircraft: capacity, fill levels, baseline flow, density and reserve rule', async () => {
+		const a = await aircraftRow();
+		const values = aircraftFormValues(a);
+		const changes: Record<string, string>[] = [
+			{ capacity: '38', lowerLevel: '25' },
+			{ baselineCruise: '7.5' },
+			{ fuelType: 'other', densityKgPerL: '0.74' },
+			{ reserveRule: 'custom', reserveCustomMin: '60' }
+		];
+		let current = values;
+		for (const change of changes) {
+			current = { ...current, ...change };
+			expect(await onAircraft('save', current), JSON.stringify(change)).toMatchObject({ saved: true });
+			await expectDerived(`aircraft ${JSON.stringify(change)}`);
+		}
+		// A flight declared "full" follows the capacity: 38 → 36 US gal is 2 US gal less at shutdown.
+		await onReplay('declaration', uploaded, { kind: 'full', amount: '', unit: 'usgal', previous: '' });
+		const full = await storedOnBoard(uploaded);
+		expect(await onAircraft('save', { ...current, capacity: '36' })).toMatchObject({ saved: true });
+		expect((await storedOnBoard(uploaded)) - full).toBeCloseTo(-2 * LITRES_PER_US_GALLON, 6);
+		await expectDerived('aircraft capacity, declared full');
+	});
+
+	it('aircraft: meter factor from a calibration', async () => {
+		const before = await storedOnBoard(uploaded);
+		const result = (await onAircraft('calibrate', { shown: '10', pumped: '11', apply: 'meterFactor', note: '' })) as { calibration: { ok: boolean } };
+		expect(result.calibration.ok).toBe(true);
+		expect((await aircraftRow()).meterFactor).not.toBe(1);
+		expect(await storedOnBoard(uploaded)).toBeLessThan(before);
+		await expectDerived('calibration');
+	});
+
+	it('leaves the flights of other aircraft alone', async () => {
+		const [row] = await db.select({ updatedAt: flights.updatedAt, summary: flights.summary }).from(flights).where(eq(flights.id, otherAircraftFlight));
+		const loaded = await loadFlight(otherAircraftFlight);
+		expect(plain(row.summary)).toEqual(plain(computeLoaded(loaded!).summary));
+	});
+});
