@@ -1,24 +1,28 @@
 // Stored figures are derived: after every write that changes a fuel input — the declaration or a
 // fuel event from the replay page, the declaration from the live page, the aircraft's fuel profile,
 // the meter factor, the reserve rule — each flight's stored summary and the aircraft's last known
-// fuel on board must equal a fresh computation from the stored samples and inputs.
+// fuel on board must equal a fresh computation from the stored samples and inputs. And each change
+// of the start fuel or a fuel event leaves its line in the flight's audit trail, readable by every
+// member who may view the flight.
 import { beforeAll, describe, expect, it } from 'vitest';
 import type { RequestEvent } from '@sveltejs/kit';
+import { isHttpError } from '@sveltejs/kit';
 import { asc, desc, eq } from 'drizzle-orm';
+import type { CorrectionView, DeclarationSnapshot, EventSnapshot } from '$lib/corrections';
 import { db, pool } from '$lib/server/db';
-import { aircraft, flights, fuelEvents, memberships, organisations, users } from '$lib/server/db/schema';
+import { aircraft, flights, fuelCorrections, fuelEvents, memberships, organisations, users } from '$lib/server/db/schema';
 import { loadFlight } from '$lib/server/flights/load';
 import { computeLoaded, recomputeSummary } from '$lib/server/flights/summary';
 import { aircraftFormValues } from '$lib/server/services/aircraft';
 import { LITRES_PER_US_GALLON } from '$lib/units';
-import { actions as replayActions } from '../../src/routes/o/[org]/flights/[id]/+page.server';
+import { load as replayLoad, actions as replayActions } from '../../src/routes/o/[org]/flights/[id]/+page.server';
 import { actions as liveActions } from '../../src/routes/o/[org]/flights/[id]/live/+page.server';
 import { actions as aircraftActions } from '../../src/routes/o/[org]/aircraft/[id]/+page.server';
 import { generateFlight, insertFlight } from './replay-fixture';
 
 const stamp = Date.now().toString(36);
 const person = (key: string, name: string) => ({ id: `df-${key}-${stamp}`, email: `${key}-${stamp}@derived.example`, name, prefFuelUnit: null });
-const U = { admin: person('admin', 'Ada Admin'), pilot: person('pilot', 'Pia Pilot') };
+const U = { admin: person('admin', 'Ada Admin'), pilot: person('pilot', 'Pia Pilot'), viewer: person('viewer', 'Vic Viewer'), outsider: person('out', 'Olga Outsider') };
 type TestUser = (typeof U)[keyof typeof U];
 
 let slug = '';
@@ -90,7 +94,8 @@ beforeAll(async () => {
 	slug = org.slug;
 	await db.insert(memberships).values([
 		{ orgId: org.id, userId: U.admin.id, role: 'admin' },
-		{ orgId: org.id, userId: U.pilot.id, role: 'pilot' }
+		{ orgId: org.id, userId: U.pilot.id, role: 'pilot' },
+		{ orgId: org.id, userId: U.viewer.id, role: 'viewer' }
 	]);
 	const plane = (registration: string) => ({
 		orgId: org.id,
@@ -185,5 +190,71 @@ describe('every write that changes a fuel input keeps the stored figures derived
 		const [row] = await db.select({ updatedAt: flights.updatedAt, summary: flights.summary }).from(flights).where(eq(flights.id, otherAircraftFlight));
 		const loaded = await loadFlight(otherAircraftFlight);
 		expect(plain(row.summary)).toEqual(plain(computeLoaded(loaded!).summary));
+	});
+});
+
+describe('the audit trail of corrections', () => {
+	const loadAs = async (user: TestUser, id: string) => {
+		const url = new URL(`http://127.0.0.1:4173/o/${slug}/flights/${id}`);
+		const e = { locals: { user, session: null, authVia: 'session' }, params: { org: slug, id }, url, route: { id: '/o/[org]/flights/[id]' }, request: new Request(url) };
+		return (await replayLoad(e as never)) as { corrections: CorrectionView[] };
+	};
+
+	it('records who changed the start fuel, when, from what to what and why', async () => {
+		const t0 = Date.now();
+		await onReplay('declaration', uploaded, { kind: 'onBoard', amount: '25', unit: 'usgal', previous: '', reason: 'dipstick after landing' });
+		const [c] = (await loadAs(U.viewer, uploaded)).corrections;
+		expect(c).toMatchObject({ kind: 'declaration', by: U.pilot.name, reason: 'dipstick after landing' });
+		expect(c.at.getTime()).toBeGreaterThanOrEqual(t0 - 1000);
+		// The flight was put back on "full" in the walk above; now 25 US gal on board.
+		expect((c.before as DeclarationSnapshot).declaration).toEqual({ kind: 'full' });
+		expect((c.after as DeclarationSnapshot).declaration.kind).toBe('onBoard');
+		expect((c.after as DeclarationSnapshot & { declaration: { amountL: number } }).declaration.amountL).toBeCloseTo(25 * LITRES_PER_US_GALLON, 9);
+	});
+
+	it('records a declaration changed from the live page, and nothing for a save that changes nothing', async () => {
+		const before = (await loadAs(U.admin, live)).corrections.length;
+		await onLive('declaration', live, { kind: 'onBoard', amount: '22', unit: 'usgal', previous: '', reason: 'pilot radioed the gauge reading' }, U.admin);
+		await onLive('declaration', live, { kind: 'onBoard', amount: '22', unit: 'usgal', previous: '' }, U.admin);
+		const list = (await loadAs(U.pilot, live)).corrections;
+		expect(list).toHaveLength(before + 1);
+		expect(list[0]).toMatchObject({ kind: 'declaration', by: U.admin.name, reason: 'pilot radioed the gauge reading' });
+		expect((list[0].before as DeclarationSnapshot & { declaration: { amountL: number } }).declaration.amountL).toBeCloseTo(20 * LITRES_PER_US_GALLON, 9);
+	});
+
+	it('records a fuel event added and removed with the event as it was', async () => {
+		const at = new Date(second.t[900] * 1000).toISOString().slice(0, 19);
+		await onReplay('addEvent', live, { kind: 'added', amount: '4', unit: 'usgal', at, note: 'receipt 4471', reason: 'forgot to enter it at the stop' });
+		const [ev] = await db.select().from(fuelEvents).where(eq(fuelEvents.flightId, live));
+		await onReplay('removeEvent', live, { id: ev.id, reason: 'entered twice' }, U.admin);
+		const [removed, added] = (await loadAs(U.viewer, live)).corrections;
+		expect(added).toMatchObject({ kind: 'eventAdded', by: U.pilot.name, before: null, reason: 'forgot to enter it at the stop' });
+		expect(removed).toMatchObject({ kind: 'eventRemoved', by: U.admin.name, after: null, reason: 'entered twice' });
+		for (const snap of [added.after, removed.before] as EventSnapshot[]) {
+			expect(snap).toMatchObject({ kind: 'added', note: 'receipt 4471', t: new Date(second.t[900] * 1000).toISOString() });
+			expect(snap.amountL).toBeCloseTo(4 * LITRES_PER_US_GALLON, 9);
+		}
+	});
+
+	it('refuses a reason that is too long, storing neither the change nor a record', async () => {
+		const rows = async () => (await db.select().from(fuelCorrections).where(eq(fuelCorrections.flightId, uploaded))).length;
+		const count = await rows();
+		const [before] = await db.select().from(flights).where(eq(flights.id, uploaded));
+		const result = (await onReplay('declaration', uploaded, { kind: 'full', amount: '', unit: 'usgal', previous: '', reason: 'x'.repeat(201) })) as { status: number; data: { errors: Record<string, string> } };
+		expect(result.status).toBe(400);
+		expect(result.data.errors.reason).toMatch(/at most 200/);
+		const [after] = await db.select().from(flights).where(eq(flights.id, uploaded));
+		expect(after.declaration).toEqual(before.declaration);
+		expect(await rows()).toBe(count);
+	});
+
+	it('is hidden from members of other organisations with the flight itself', async () => {
+		await db.insert(users).values({ id: U.outsider.id, email: U.outsider.email, name: U.outsider.name, passwordHash: 'not-a-real-hash' }).onConflictDoNothing();
+		try {
+			await loadAs(U.outsider, uploaded);
+			expect.unreachable('an outsider loaded the flight');
+		} catch (e) {
+			expect(isHttpError(e) && e.status).toBe(404);
+		}
 	});
 });

@@ -4,6 +4,7 @@
 // itself is the shared one ($lib/schemas/declaration), in the form's words.
 import { z } from 'zod';
 import type { Declaration, FuelEventKind } from '$lib/fuel';
+import { REASON_MAX } from '$lib/corrections';
 import { toLitres, type FuelUnit } from '$lib/units';
 import { MAX_AMOUNT, amountField, declarationKindOf, declarationSchema, fuelUnitSchema, toDeclaration } from './declaration';
 
@@ -97,6 +98,11 @@ export const fuelEventFormSchema = (densityKgPerL: number) =>
 		}));
 
 export const idFormSchema = z.object({ id: z.uuid('That item is not on this flight.') });
+
+/** The optional "why" beside a correction of the declaration or a fuel event (the audit trail). */
+export const reasonFormSchema = z.object({
+	reason: z.string().trim().max(REASON_MAX, `Use at most ${REASON_MAX} characters.`).default('')
+});
 
 export const noteFormSchema = z.object({
 	body: z.string().trim().min(1, 'Write the note.').max(2000, 'Use at most 2000 characters.'),

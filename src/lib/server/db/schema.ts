@@ -29,6 +29,7 @@ export const fuelUnitEnum = pgEnum('fuel_unit', ['usgal', 'l', 'impgal', 'lb', '
 export const flightSourceEnum = pgEnum('flight_source', ['upload', 'live']);
 export const flightStatusEnum = pgEnum('flight_status', ['open', 'closed']);
 export const fuelEventKindEnum = pgEnum('fuel_event_kind', ['added', 'removed', 'toFull', 'toLower', 'resetUsed']);
+export const fuelCorrectionKindEnum = pgEnum('fuel_correction_kind', ['declaration', 'eventAdded', 'eventRemoved']);
 export const alarmKindEnum = pgEnum('alarm_kind', ['lowFuel', 'lowEndurance', 'negativeReserve']);
 
 // ---- accounts -------------------------------------------------------------------------------
@@ -371,6 +372,30 @@ export const fuelEvents = pgTable(
 	(t) => [index().on(t.flightId, t.t)]
 );
 export type FuelEventRow = typeof fuelEvents.$inferSelect;
+
+/**
+ * The audit trail of a flight's fuel inputs: who changed the start-of-flight declaration or added
+ * or removed a fuel event, when, from what to what, and why. Written in the transaction of the
+ * change; `before`/`after` are snapshots (a CorrectionSnapshot, canonical litres), null for an
+ * event that did not exist before or no longer exists after.
+ */
+export const fuelCorrections = pgTable(
+	'fuel_corrections',
+	{
+		id: uuid().primaryKey().defaultRandom(),
+		flightId: uuid()
+			.notNull()
+			.references(() => flights.id, { onDelete: 'cascade' }),
+		userId: text().references(() => users.id, { onDelete: 'set null' }),
+		kind: fuelCorrectionKindEnum().notNull(),
+		before: jsonb(),
+		after: jsonb(),
+		reason: text().notNull().default(''),
+		at: tstz().notNull().defaultNow()
+	},
+	(t) => [index().on(t.flightId, t.at)]
+);
+export type FuelCorrectionRow = typeof fuelCorrections.$inferSelect;
 
 /** Instructor's and pilot's remarks on a flight, optionally pinned to a moment. */
 export const flightNotes = pgTable(

@@ -1,30 +1,36 @@
-// Changes to a flight's fuel inputs and notes. Each change and the recomputed summary commit in
-// one transaction, so the lists never show figures from before a correction.
+// Changes to a flight's fuel inputs and notes. Each change, its line in the audit trail and the
+// recomputed summary commit in one transaction, so the lists never show figures from before a
+// correction and no correction goes unrecorded.
 import { and, eq, max, min } from 'drizzle-orm';
 import type { DeclarationInput, FuelEventInput, NoteInput } from '$lib/schemas/flight';
 import { db } from '../db';
 import { flightNotes, flights, fuelEvents, samples, type Flight } from '../db/schema';
+import { eventSnapshot, recordCorrection, recordDeclarationChange, type Editor } from './corrections';
 import { recomputeSummary } from './summary';
 import { announceChange } from '../live/declare';
 
+export type { Editor };
 export type EditResult = { ok: true } | { ok: false; field: string; message: string };
 
 /** How far outside the recorded samples a fuel event may lie (a refuel before or after them). */
 export const EVENT_MARGIN_H = 6;
 
-export async function saveDeclaration(flight: Pick<Flight, 'id'>, input: DeclarationInput): Promise<EditResult> {
+export async function saveDeclaration(flight: Pick<Flight, 'id'>, input: DeclarationInput, by: Editor): Promise<EditResult> {
 	await db.transaction(async (tx) => {
-		await tx
+		const [before] = await tx.select().from(flights).where(eq(flights.id, flight.id)).for('update');
+		const [after] = await tx
 			.update(flights)
 			.set({ declaration: input.declaration, previousOnBoardL: input.previousOnBoardL, declarationConfirmed: true, updatedAt: new Date() })
-			.where(eq(flights.id, flight.id));
+			.where(eq(flights.id, flight.id))
+			.returning();
+		if (before && after) await recordDeclarationChange(tx, before, after, by);
 		await recomputeSummary(flight.id, tx);
 	});
 	await announceChange(flight.id);
 	return { ok: true };
 }
 
-export async function addFuelEvent(flight: Pick<Flight, 'id' | 'startedAt'>, input: FuelEventInput, userId: string): Promise<EditResult> {
+export async function addFuelEvent(flight: Pick<Flight, 'id' | 'startedAt'>, input: FuelEventInput, by: Editor): Promise<EditResult> {
 	const [range] = await db.select({ first: min(samples.t), last: max(samples.t) }).from(samples).where(eq(samples.flightId, flight.id));
 	const first = range?.first ?? flight.startedAt;
 	const last = range?.last ?? flight.startedAt;
@@ -34,17 +40,19 @@ export async function addFuelEvent(flight: Pick<Flight, 'id' | 'startedAt'>, inp
 		return { ok: false, field: 'at', message: `Choose a time between ${fmt(new Date(first.getTime() - margin))} and ${fmt(new Date(last.getTime() + margin))} UTC (this flight's samples, ± ${EVENT_MARGIN_H} h).` };
 	}
 	await db.transaction(async (tx) => {
-		await tx.insert(fuelEvents).values({ flightId: flight.id, t: input.t, kind: input.kind, amountL: input.amountL, note: input.note, createdBy: userId });
+		const [row] = await tx.insert(fuelEvents).values({ flightId: flight.id, t: input.t, kind: input.kind, amountL: input.amountL, note: input.note, createdBy: by.userId }).returning();
+		await recordCorrection(tx, { flightId: flight.id, userId: by.userId, kind: 'eventAdded', before: null, after: eventSnapshot(row), reason: by.reason });
 		await recomputeSummary(flight.id, tx);
 	});
 	await announceChange(flight.id);
 	return { ok: true };
 }
 
-export async function removeFuelEvent(flight: Pick<Flight, 'id'>, eventId: string): Promise<EditResult> {
+export async function removeFuelEvent(flight: Pick<Flight, 'id'>, eventId: string, by: Editor): Promise<EditResult> {
 	const result = await db.transaction(async (tx) => {
-		const gone = await tx.delete(fuelEvents).where(and(eq(fuelEvents.id, eventId), eq(fuelEvents.flightId, flight.id))).returning({ id: fuelEvents.id });
-		if (gone.length === 0) return { ok: false, field: 'id', message: 'That fuel event is not on this flight (perhaps removed already).' } as const;
+		const [gone] = await tx.delete(fuelEvents).where(and(eq(fuelEvents.id, eventId), eq(fuelEvents.flightId, flight.id))).returning();
+		if (!gone) return { ok: false, field: 'id', message: 'That fuel event is not on this flight (perhaps removed already).' } as const;
+		await recordCorrection(tx, { flightId: flight.id, userId: by.userId, kind: 'eventRemoved', before: eventSnapshot(gone), after: null, reason: by.reason });
 		await recomputeSummary(flight.id, tx);
 		return { ok: true } as const;
 	});

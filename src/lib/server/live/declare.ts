@@ -4,23 +4,26 @@
 import { eq } from 'drizzle-orm';
 import type { Declaration } from '$lib/fuel';
 import { db } from '../db';
+import { recordDeclarationChange, type Editor } from '../flights/corrections';
 import { recomputeSummary } from '../flights/summary';
 import { aircraft, flights } from '../db/schema';
 import { mailAlarms, syncAlarms, type NewAlarm } from './alarms';
 import { computationFor, dropComputation } from './computation';
 import { lockFlight, notify } from './flights';
 
-export async function setLiveDeclaration(flightId: string, declaration: Declaration, previousOnBoardL: number | null): Promise<void> {
+export async function setLiveDeclaration(flightId: string, declaration: Declaration, previousOnBoardL: number | null, by: Editor | null = null): Promise<void> {
 	let toMail: NewAlarm[] = [];
 	try {
 		await db.transaction(async (tx) => {
 			await lockFlight(tx, flightId);
+			const [before] = await tx.select().from(flights).where(eq(flights.id, flightId)).for('update');
 			const [f] = await tx
 				.update(flights)
 				.set({ declaration, previousOnBoardL, declarationConfirmed: true, updatedAt: new Date() })
 				.where(eq(flights.id, flightId))
 				.returning();
 			if (!f) return;
+			if (before) await recordDeclarationChange(tx, before, f, by);
 			if (f.status === 'open' && f.source === 'live') {
 				const [a] = await tx.select().from(aircraft).where(eq(aircraft.id, f.aircraftId));
 				const computed = await computationFor(tx, f, a);

@@ -4,9 +4,10 @@ import { mayOnFlight, requireFlight } from '$lib/server/access';
 import { db } from '$lib/server/db';
 import { aircraft, flightNotes, users, type Flight } from '$lib/server/db/schema';
 import { addFuelEvent, addNote, removeFuelEvent, removeNote, saveDeclaration } from '$lib/server/flights/edit';
+import { listCorrections } from '$lib/server/flights/corrections';
 import { loadEvents } from '$lib/server/flights/load';
 import { can } from '$lib/permissions';
-import { declarationFormSchema, declarationFormValues, fuelEventFormSchema, idFormSchema, noteFormSchema } from '$lib/schemas/flight';
+import { declarationFormSchema, declarationFormValues, fuelEventFormSchema, idFormSchema, noteFormSchema, reasonFormSchema } from '$lib/schemas/flight';
 import { failForm, parseForm } from '$lib/schemas/form';
 import type { Declaration } from '$lib/fuel';
 import type { Actions, PageServerLoad } from './$types';
@@ -22,9 +23,10 @@ async function aircraftOf(flight: Flight) {
 export const load = (async (event) => {
 	const ctx = await requireFlight(event, event.params.org, event.params.id, 'view');
 	const { flight, user, role } = ctx;
-	const [a, events, notes] = await Promise.all([
+	const [a, events, corrections, notes] = await Promise.all([
 		aircraftOf(flight),
 		loadEvents(flight.id),
+		listCorrections(flight.id),
 		db
 			.select({ id: flightNotes.id, t: flightNotes.t, body: flightNotes.body, createdAt: flightNotes.createdAt, authorId: flightNotes.authorId, author: users.name })
 			.from(flightNotes)
@@ -56,6 +58,7 @@ export const load = (async (event) => {
 		setup: fuelSetupOf(a),
 		events: events.map((e) => ({ id: e.id, t: e.t.getTime() / 1000, kind: e.kind, amountL: e.amountL, note: e.note })),
 		notes,
+		corrections,
 		declarationValues: declarationFormValues(flight.declaration as Declaration, flight.previousOnBoardL, unit, a.densityKgPerL),
 		unit,
 		may: {
@@ -69,27 +72,33 @@ export const load = (async (event) => {
 
 export const actions = {
 	declaration: async (event) => {
-		const { flight } = await requireFlight(event, event.params.org, event.params.id, 'edit');
+		const { flight, user } = await requireFlight(event, event.params.org, event.params.id, 'edit');
 		const a = await aircraftOf(flight);
-		const form = parseForm(declarationFormSchema(a.densityKgPerL), await event.request.formData());
-		if (!form.ok) return failForm(400, form.errors, form.values, 'declaration');
-		await saveDeclaration(flight, form.data);
+		const body = await event.request.formData();
+		const form = parseForm(declarationFormSchema(a.densityKgPerL), body);
+		const why = parseForm(reasonFormSchema, body);
+		if (!form.ok || !why.ok) return failForm(400, { ...(form.ok ? {} : form.errors), ...(why.ok ? {} : why.errors) }, form.values, 'declaration');
+		await saveDeclaration(flight, form.data, { userId: user.id, reason: why.data.reason });
 		return { action: 'declaration', saved: true };
 	},
 	addEvent: async (event) => {
 		const { flight, user } = await requireFlight(event, event.params.org, event.params.id, 'edit');
 		const a = await aircraftOf(flight);
-		const form = parseForm(fuelEventFormSchema(a.densityKgPerL), await event.request.formData());
-		if (!form.ok) return failForm(400, form.errors, form.values, 'addEvent');
-		const done = await addFuelEvent(flight, form.data, user.id);
+		const body = await event.request.formData();
+		const form = parseForm(fuelEventFormSchema(a.densityKgPerL), body);
+		const why = parseForm(reasonFormSchema, body);
+		if (!form.ok || !why.ok) return failForm(400, { ...(form.ok ? {} : form.errors), ...(why.ok ? {} : why.errors) }, form.values, 'addEvent');
+		const done = await addFuelEvent(flight, form.data, { userId: user.id, reason: why.data.reason });
 		if (!done.ok) return failForm(400, { [done.field]: done.message }, form.values, 'addEvent');
 		return { action: 'addEvent', saved: true };
 	},
 	removeEvent: async (event) => {
-		const { flight } = await requireFlight(event, event.params.org, event.params.id, 'edit');
-		const form = parseForm(idFormSchema, await event.request.formData());
-		if (!form.ok) return failForm(400, form.errors, form.values, 'removeEvent');
-		const done = await removeFuelEvent(flight, form.data.id);
+		const { flight, user } = await requireFlight(event, event.params.org, event.params.id, 'edit');
+		const body = await event.request.formData();
+		const form = parseForm(idFormSchema, body);
+		const why = parseForm(reasonFormSchema, body);
+		if (!form.ok || !why.ok) return failForm(400, { ...(form.ok ? {} : form.errors), ...(why.ok ? {} : why.errors) }, form.values, 'removeEvent');
+		const done = await removeFuelEvent(flight, form.data.id, { userId: user.id, reason: why.data.reason });
 		if (!done.ok) return failForm(404, { [done.field]: done.message }, form.values, 'removeEvent');
 		return { action: 'removeEvent', saved: true };
 	},

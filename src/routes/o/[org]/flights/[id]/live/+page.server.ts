@@ -9,7 +9,7 @@ import { aircraft, alarmAcks, flightAlarms, users, type Flight } from '$lib/serv
 import { idleCloseMinutes } from '$lib/server/live/config';
 import { setLiveDeclaration } from '$lib/server/live/declare';
 import { isWatching, setWatching } from '$lib/server/live/watches';
-import { declarationFormSchema, declarationFormValues } from '$lib/schemas/flight';
+import { declarationFormSchema, declarationFormValues, reasonFormSchema } from '$lib/schemas/flight';
 import { failForm, parseForm } from '$lib/schemas/form';
 import type { Actions, PageServerLoad } from './$types';
 
@@ -70,11 +70,13 @@ const watchSchema = z.object({ on: z.enum(['1', '0']) });
 
 export const actions = {
 	declaration: async (event) => {
-		const { flight } = await requireFlight(event, event.params.org, event.params.id, 'edit');
+		const { flight, user } = await requireFlight(event, event.params.org, event.params.id, 'edit');
 		const a = await aircraftOf(flight);
-		const form = parseForm(declarationFormSchema(a.densityKgPerL), await event.request.formData());
-		if (!form.ok) return failForm(400, form.errors, form.values, 'declaration');
-		await setLiveDeclaration(flight.id, form.data.declaration, form.data.previousOnBoardL);
+		const body = await event.request.formData();
+		const form = parseForm(declarationFormSchema(a.densityKgPerL), body);
+		const why = parseForm(reasonFormSchema, body);
+		if (!form.ok || !why.ok) return failForm(400, { ...(form.ok ? {} : form.errors), ...(why.ok ? {} : why.errors) }, form.values, 'declaration');
+		await setLiveDeclaration(flight.id, form.data.declaration, form.data.previousOnBoardL, { userId: user.id, reason: why.data.reason });
 		return { action: 'declaration', saved: true };
 	},
 	// Each viewer acknowledges for themselves; the alarm stays on the timeline for everyone.
