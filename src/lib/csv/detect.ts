@@ -2,7 +2,7 @@
 // delimiter and decimal mark it uses, what the columns are called and what the first rows hold.
 // Runs in the browser for the column mapper and on the server when no mapping is given.
 import Papa from 'papaparse';
-import { burndownMapping, delimiters, guessMapping, headerSignature, type ColumnMapping, type Delimiter } from './mapping';
+import { burndownMapping, delimiterLabels, delimiters, guessMapping, headerSignature, type ColumnMapping, type Delimiter } from './mapping';
 
 /** Lines before the header that are skipped: blank lines and comment lines starting with '#'. */
 const isPreamble = (line: string) => line.trim() === '' || line.trimStart().startsWith('#');
@@ -11,6 +11,44 @@ export interface Layout {
 	delimiter: Delimiter;
 	decimal: '.' | ',';
 	newline: '\r\n' | '\n' | '\r';
+	/** The delimiter a spreadsheet's "sep=" first line names, when the file has one. */
+	sep?: Delimiter;
+}
+
+const SEP_LINE = /^"?sep=(.*?)"?$/i;
+
+/**
+ * A spreadsheet's first line "sep=;" (also "sep=," and "sep=" with a tab) says which delimiter
+ * the rest of the file uses. The delimiter it names, its text when it names one we do not read,
+ * or null when the line is not such a hint.
+ */
+export function sepHint(line: string): { delimiter: Delimiter } | { unknown: string } | null {
+	const text = stripBom(line).replace(/[\r\n]+$/, '');
+	const m = SEP_LINE.exec(text);
+	if (!m) return null;
+	// A spreadsheet that saved the file again may pad the hint row with delimiters: "sep=;;;;".
+	const value = m[1] === '\\t' ? '\t' : /^(.)\1+$/.test(m[1]) ? m[1][0] : m[1];
+	return (delimiters as readonly string[]).includes(value) ? { delimiter: value as Delimiter } : { unknown: text.trim() };
+}
+
+/**
+ * Our format recognised from the header, read with the file's layout. Our format is
+ * comma-separated with decimal points; a spreadsheet that saved it again with a "sep=" line
+ * (semicolons and decimal commas, in many locales) said what it used instead, and that is read.
+ */
+export function burndownMappingFor(headers: readonly string[], layout: Pick<Layout, 'sep' | 'decimal'>): ReturnType<typeof burndownMapping> {
+	const found = burndownMapping(headers);
+	return 'mapping' in found ? { mapping: burndownWithLayout(found.mapping, layout) } : found;
+}
+
+/** Our format's mapping with the delimiter a "sep=" line named and the decimal mark seen. */
+export function burndownWithLayout(m: ColumnMapping, layout: Pick<Layout, 'sep' | 'decimal'>): ColumnMapping {
+	return layout.sep ? { ...m, delimiter: layout.sep, decimal: layout.decimal } : m;
+}
+
+/** What is wrong with a hint we cannot follow, naming it. */
+export function sepProblem(text: string): string {
+	return `Line 1 is a delimiter hint (${text}), but Burndown reads only ${delimiters.map((d) => delimiterLabels[d]).join(', ')} between the cells; save the file again with one of these, or remove that line.`;
 }
 
 export interface Preview extends Layout {
@@ -40,15 +78,21 @@ export function detectNewline(text: string): Layout['newline'] {
 	return '\n';
 }
 
-/** Index in `text` where the header row starts, and its line number; -1 when there is none yet. */
-export function findHeader(text: string, newline: Layout['newline']): { start: number; line: number } {
+/**
+ * Index in `text` where the header row starts, and its line number; -1 when there is none yet.
+ * A "sep=" first line is skipped like a comment, and what it says is returned as `sep`.
+ */
+export function findHeader(text: string, newline: Layout['newline']): { start: number; line: number; sep: ReturnType<typeof sepHint> } {
 	let start = 0;
 	let line = 1;
+	let sep: ReturnType<typeof sepHint> = null;
 	for (;;) {
 		const end = text.indexOf(newline, start);
 		const content = end < 0 ? text.slice(start) : text.slice(start, end);
-		if (!isPreamble(content)) return { start, line };
-		if (end < 0) return { start: -1, line };
+		const hint = line === 1 ? sepHint(content) : null;
+		if (hint) sep = hint;
+		else if (!isPreamble(content)) return { start, line, sep };
+		if (end < 0) return { start: -1, line, sep };
 		start = end + newline.length;
 		line++;
 	}
@@ -104,9 +148,11 @@ export function previewCsv(sample: string, options: { whole?: boolean; maxRows?:
 	const text = stripBom(sample);
 	const newline = detectNewline(text);
 	const warnings: string[] = [];
-	const { start, line } = findHeader(text, newline);
+	const { start, line, sep } = findHeader(text, newline);
 	const body = start < 0 ? '' : text.slice(start);
-	const delimiter = options.delimiter ?? detectDelimiter(body, newline);
+	if (sep && 'unknown' in sep) warnings.push(sepProblem(sep.unknown));
+	const named = sep && 'delimiter' in sep ? sep.delimiter : undefined;
+	const delimiter = options.delimiter ?? named ?? detectDelimiter(body, newline);
 	const all = splitLines(body, delimiter, newline, maxRows + 1, whole);
 	const headers = (all[0] ?? []).map((h) => h.trim());
 	const rows = all.slice(1).filter((r) => !(r.length === 1 && r[0].trim() === ''));
@@ -119,11 +165,12 @@ export function previewCsv(sample: string, options: { whole?: boolean; maxRows?:
 		delimiter,
 		decimal,
 		newline,
+		...(named ? { sep: named } : {}),
 		headerLine: line,
 		headers,
 		signature: headerSignature(headers),
 		rows,
-		burndown: burndownMapping(headers),
+		burndown: burndownMappingFor(headers, { sep: named, decimal }),
 		guess: guessMapping(headers, rows[0] ?? [], { delimiter, decimal }),
 		warnings
 	};

@@ -322,3 +322,51 @@ describe('live batches', () => {
 		expect((await parseRecorderText(one, null, { minSamples: 1, afterTMs: T0 })).problems[0].message).toMatch(/repeats the previous sample's \(the samples already stored\)/);
 	});
 });
+
+describe('a spreadsheet export with a sep= first line', () => {
+	it('reads our format saved by a spreadsheet with semicolons and decimal commas', async () => {
+		// Our format re-saved where a comma is the decimal mark: semicolons between the cells.
+		const [header, ...data] = burndownFile(5).trimEnd().split('\n');
+		const cells = data.map((r) => r.split(',').map((c) => c.replace('.', ',')).join(';'));
+		const text = ['sep=;', header.replaceAll(',', ';'), ...cells].join('\r\n') + '\r\n';
+		const res = await parseRecorderText(text, null);
+		expect(res.problems).toEqual([]);
+		expect(res.ok).toBe(true);
+		expect(res.header).toMatchObject({ line: 2, layout: { delimiter: ';', sep: ';' } });
+		expect(res.rowCount).toBe(5);
+		expect(res.rows[0].line).toBe(3);
+		// 9.5 US gal/h, written 9,5 (1 US gal = 3.785411784 L, NIST Handbook 44, Appendix C).
+		expect(res.rows[0].flow).toBeCloseTo(9.5 * LITRES_PER_US_GALLON, 12);
+		expect(res.rows[4].tMs).toBe(T0 + 4000);
+		expect(res.lineCount).toBe(7);
+	});
+
+	it('reads a comma file with the hint like one without it, a line further down', async () => {
+		const plain = await parseRecorderText(burndownFile(8), null);
+		const hinted = await parseRecorderText('sep=,\n' + burndownFile(8), null);
+		expect(hinted.ok).toBe(true);
+		expect(hinted.rows.map((r) => ({ ...r, line: r.line - 1 }))).toEqual(plain.rows);
+	});
+
+	it('refuses a hint naming a delimiter it cannot read, saying so', async () => {
+		const res = await parseRecorderText('sep=|\n' + burndownFile(3).replaceAll(',', '|'), null);
+		expect(res.ok).toBe(false);
+		expect(res.problems[0]).toMatchObject({ line: 1, value: 'sep=|' });
+		expect(res.problems[0].message).toMatch(/sep=\|/);
+	});
+
+	it('refuses a mapping whose delimiter contradicts the hint, naming both', async () => {
+		const given = columnMappingSchema.parse({
+			delimiter: ',',
+			decimal: '.',
+			time: { column: 'time_utc', format: 'iso' },
+			flow: { column: 'fuel_flow_usgph', unit: 'usgal/h' },
+			gs: { column: 'ground_speed_kt', unit: 'kt' },
+			dtg: { column: 'distance_to_go_nm', unit: 'nm' }
+		});
+		const res = await parseRecorderText('sep=;\n' + burndownFile(3).replaceAll(',', ';'), given);
+		expect(res.ok).toBe(false);
+		expect(res.problems[0]).toMatchObject({ line: 1, value: 'sep=;' });
+		expect(res.problems[0].message).toMatch(/semicolon.*comma|comma.*semicolon/);
+	});
+});

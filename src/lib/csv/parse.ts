@@ -3,7 +3,8 @@
 // no HTTP, so the upload route, scripts and tests all call the same function.
 import Papa from 'papaparse';
 import { MAX_LISTED_PROBLEMS } from './format';
-import { detectDecimal, detectDelimiter, detectNewline, findHeader, stripBom, type Layout } from './detect';
+import { burndownMappingFor, burndownWithLayout, detectDecimal, detectDelimiter, detectNewline, findHeader, sepProblem, stripBom, type Layout } from './detect';
+import { delimiterLabels } from './mapping';
 import { burndownMapping, headerSignature, type ColumnMapping, type Delimiter } from './mapping';
 import { createRowReader, type RecorderRow, type RowProblem, type RowReader, type RowReaderOptions } from './row';
 
@@ -104,9 +105,9 @@ async function* textOf(input: CsvInput): AsyncGenerator<string> {
 	}
 }
 
-/** The mapping for files that must be in our own format. */
+/** The mapping for files that must be in our own format (a "sep=" line's delimiter honoured). */
 export const burndownFormatOnly: MappingResolver = (header) => {
-	const found = burndownMapping(header.names);
+	const found = burndownMappingFor(header.names, header.layout);
 	if ('mapping' in found) return { mapping: found.mapping, origin: { kind: 'burndown' } };
 	return { problem: { line: header.line, column: '', value: header.names.join(header.layout.delimiter).slice(0, 200), message: `${found.message} Map the columns or choose an import profile.` } };
 };
@@ -164,7 +165,13 @@ export async function parseRecorderCsv(
 	const startBody = async (final: boolean): Promise<boolean> => {
 		if (buf.length < 65_536 && !final) return false;
 		newline = detectNewline(buf);
-		const { start, line: headerLine } = findHeader(buf, newline);
+		const { start, line: headerLine, sep } = findHeader(buf, newline);
+		if (sep && 'unknown' in sep) {
+			report({ line: 1, column: '', value: sep.unknown, message: sepProblem(sep.unknown) });
+			fatal = true;
+			return true;
+		}
+		const named = sep?.delimiter;
 		if (start < 0) {
 			if (!final) return false;
 			report({ line: 1, column: '', value: '', message: 'The file is empty: no header row and no samples.' });
@@ -174,11 +181,11 @@ export async function parseRecorderCsv(
 		const end = buf.indexOf(newline, start);
 		const headerText = end < 0 ? buf.slice(start) : buf.slice(start, end);
 		const rest = end < 0 ? '' : buf.slice(end + newline.length);
-		const sniffDelimiter = detectDelimiter(buf.slice(start, start + 65_536), newline);
+		const sniffDelimiter = named ?? detectDelimiter(buf.slice(start, start + 65_536), newline);
 		const delimiter = typeof mapping === 'object' && mapping !== null ? mapping.delimiter : sniffDelimiter;
 		const names = (Papa.parse<string[]>(headerText, { delimiter, newline }).data[0] ?? []).map((h) => h.trim());
 		const previewRows = new Papa.Parser({ delimiter, newline }).parse(rest.slice(0, 16_384), 0, true).data as string[][];
-		const layout: Layout = { delimiter, decimal: detectDecimal(previewRows, delimiter), newline };
+		const layout: Layout = { delimiter, decimal: detectDecimal(previewRows, delimiter), newline, ...(named ? { sep: named } : {}) };
 		const header: CsvHeader = { line: headerLine, names, signature: headerSignature(names), layout };
 		summary.header = header;
 
@@ -188,6 +195,15 @@ export async function parseRecorderCsv(
 		else chosen = { mapping, origin: { kind: 'given' } };
 		if ('problem' in chosen) {
 			report(chosen.problem);
+			fatal = true;
+			return true;
+		}
+		// Whichever resolver recognised our format (the upload's own does too), the hint is honoured.
+		if (chosen.origin.kind === 'burndown') chosen = { ...chosen, mapping: burndownWithLayout(chosen.mapping, layout) };
+		if (named && chosen.mapping.delimiter !== named) {
+			const says = delimiterLabels[named];
+			const splits = delimiterLabels[chosen.mapping.delimiter];
+			report({ line: 1, column: '', value: `sep=${named}`, message: `Line 1 says the cells are separated by a ${says} (sep=${named === '\t' ? 'tab' : named}), but the column mapping splits them on a ${splits}; choose the ${says} in the mapping.` });
 			fatal = true;
 			return true;
 		}
