@@ -133,6 +133,7 @@ test('correct the start fuel: figures change at once, and for everyone after sav
 	await expect(page.getByTestId('engine-warnings')).toContainText('using the capacity');
 
 	await page.getByTestId('decl-amount').fill('30');
+	await page.getByTestId('decl-reason').fill('dipstick reading after landing');
 	await page.getByTestId('decl-save').click();
 	await expect(page.getByText('Saved. Everyone now sees these figures.')).toBeVisible();
 	await expect(page.getByTestId('preview-banner')).toHaveCount(0);
@@ -144,6 +145,11 @@ test('correct the start fuel: figures change at once, and for everyone after sav
 	const c = engine({ kind: 'onBoard', amountL: 30 * LITRES_PER_US_GALLON });
 	await expect(other.getByTestId('fig-onboard')).toContainText('30.0');
 	await expect(other.getByTestId('sum-shutdown')).toContainText(gal(c.onBoard[c.length - 1]).toFixed(2));
+	// The correction is on record for everyone: from full to 30 US gal, and why.
+	const latest = other.getByTestId('correction').first();
+	await expect(latest).toContainText('Filled to full');
+	await expect(latest.getByTestId('correction-to')).toContainText('Amount on board (dipstick or gauge) 30.00 US gal');
+	await expect(latest.getByTestId('correction-reason')).toContainText('dipstick reading after landing');
 	await other.close();
 
 	// And the flights list shows the recomputed figure at shutdown.

@@ -186,6 +186,29 @@ describe('every write that changes a fuel input keeps the stored figures derived
 		await expectDerived('calibration');
 	});
 
+	it('waits for a flight write in progress instead of deadlocking with it', async () => {
+		// A flight write (a close, a correction) locks the flight row and then the aircraft row for its
+		// last known fuel. Saving the aircraft meanwhile must take the locks in the same order.
+		const client = await pool.connect();
+		try {
+			await client.query('begin');
+			await client.query('update flights set updated_at = now() where id = $1', [live]);
+			const saving = onAircraft('save', { ...aircraftFormValues(await aircraftRow()), baselineCruise: '7.9' });
+			// Until the save is waiting for the flight row.
+			for (let k = 0; k < 100; k++) {
+				const { rows } = await client.query("select count(*)::int as n from pg_stat_activity where datname = current_database() and wait_event_type = 'Lock'");
+				if (rows[0].n > 0) break;
+				await new Promise((r) => setTimeout(r, 20));
+			}
+			await client.query('update aircraft set updated_at = now() where id = $1', [aircraftId]);
+			await client.query('commit');
+			expect(await saving).toMatchObject({ saved: true });
+		} finally {
+			client.release();
+		}
+		await expectDerived('aircraft saved while a flight was being written');
+	});
+
 	it('leaves the flights of other aircraft alone', async () => {
 		const [row] = await db.select({ updatedAt: flights.updatedAt, summary: flights.summary }).from(flights).where(eq(flights.id, otherAircraftFlight));
 		const loaded = await loadFlight(otherAircraftFlight);

@@ -29,9 +29,19 @@ export async function recomputeSummary(flightId: string, q: Queryable = db): Pro
 }
 
 /**
+ * Locks every flight row of an aircraft, in one order. A change to the aircraft takes these locks
+ * before the aircraft's own row, the order every flight write takes them in (the flight, then the
+ * aircraft's last known fuel), so two such transactions wait for each other instead of deadlocking,
+ * and a flight closing meanwhile is recomputed from its closed state.
+ */
+export async function lockAircraftFlights(aircraftId: string, q: Queryable): Promise<void> {
+	await q.select({ id: flights.id }).from(flights).where(eq(flights.aircraftId, aircraftId)).orderBy(asc(flights.id)).for('update');
+}
+
+/**
  * After a change to the aircraft's fuel profile (capacity, fill levels, baseline flow, density,
  * meter factor, reserve rule): every flight of the aircraft, one at a time so only one flight's
- * samples are in memory. Returns how many flights were recomputed.
+ * samples are in memory. Call lockAircraftFlights first. Returns how many flights were recomputed.
  */
 export async function recomputeAircraftFlights(aircraftId: string, q: Queryable): Promise<number> {
 	const ids = await q.select({ id: flights.id }).from(flights).where(eq(flights.aircraftId, aircraftId)).orderBy(asc(flights.startedAt));

@@ -5,7 +5,7 @@ import { fromLitres } from '$lib/units';
 import type { AircraftInput } from '$lib/schemas/aircraft';
 import { db } from '../db';
 import { aircraft, type Aircraft } from '../db/schema';
-import { recomputeAircraftFlights } from '../flights/summary';
+import { lockAircraftFlights, recomputeAircraftFlights } from '../flights/summary';
 
 export async function listAircraft(orgId: string, opts: { includeArchived?: boolean } = {}) {
 	return db
@@ -27,7 +27,8 @@ export async function updateAircraft(orgId: string, id: string, input: AircraftI
 	const clash = await db.query.aircraft.findFirst({ where: and(eq(aircraft.orgId, orgId), eq(aircraft.registration, input.registration)) });
 	if (clash && clash.id !== id) return { ok: false, field: 'registration', message: 'This organisation already has an aircraft with that registration.' };
 	const row = await db.transaction(async (tx) => {
-		const [before] = await tx.select().from(aircraft).where(and(eq(aircraft.orgId, orgId), eq(aircraft.id, id))).for('update');
+		await lockAircraftFlights(id, tx);
+		const [before] = await tx.select().from(aircraft).where(and(eq(aircraft.orgId, orgId), eq(aircraft.id, id))).for('no key update');
 		const [after] = await tx
 			.update(aircraft)
 			.set({ ...input, updatedAt: new Date() })

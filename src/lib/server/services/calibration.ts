@@ -6,7 +6,7 @@ import { toLitres } from '$lib/units';
 import type { CalibrationForm } from '$lib/schemas/calibration';
 import { db } from '../db';
 import { aircraft as aircraftTable, calibrations, type Aircraft } from '../db/schema';
-import { recomputeAircraftFlights } from '../flights/summary';
+import { lockAircraftFlights, recomputeAircraftFlights } from '../flights/summary';
 
 export async function recordCalibration(a: Aircraft, form: CalibrationForm, userId: string) {
 	const shownL = toLitres(form.shown, a.displayUnit, a.densityKgPerL);
@@ -19,6 +19,7 @@ export async function recordCalibration(a: Aircraft, form: CalibrationForm, user
 	const meterFactorNew = form.apply === 'meterFactor' ? result.meterFactor : form.apply === 'kFactor' ? 1 : a.meterFactor;
 	const kFactorNew = form.apply === 'kFactor' ? result.kFactorNew : a.kFactor;
 	await db.transaction(async (tx) => {
+		if (form.apply !== 'none') await lockAircraftFlights(a.id, tx);
 		await tx.insert(calibrations).values({
 			aircraftId: a.id,
 			indicatedL,
