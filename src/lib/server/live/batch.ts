@@ -14,6 +14,7 @@ import {
 	recorderRowSchema,
 	type RecorderRow
 } from '$lib/csv';
+import { plainText } from '$lib/schemas/text';
 import { MAX_AMOUNT, amountField, declarationSchema, fuelUnitSchema } from '$lib/schemas/declaration';
 import {
 	distanceUnits,
@@ -94,7 +95,7 @@ const declarationJsonSchema = declarationSchema(
 export const openSchema = z.object({
 	declaration: declarationJsonSchema.optional(),
 	firstSeq: z.number().int().min(0).max(MAX_SEQ).optional(),
-	title: z.string().trim().max(200).optional(),
+	title: plainText(200).optional(),
 	/** E-mail of the member flying, so the flight is theirs. */
 	pilot: z.email('pilot must be the e-mail address of a member.').optional()
 });

@@ -6,6 +6,7 @@ import { requireMember } from '$lib/server/access';
 import { db } from '$lib/server/db';
 import { aircraft, importProfiles } from '$lib/server/db/schema';
 import { failForm, formValues } from '$lib/schemas/form';
+import { plainText } from '$lib/schemas/text';
 import { MAX_UPLOAD_BYTES, MAX_UPLOAD_LABEL, columnMappingSchema, createRowReader, headerSignature, profileMapping, type ColumnMapping } from '$lib/csv';
 import type { Actions, PageServerLoad } from './$types';
 
@@ -42,7 +43,7 @@ export const load = (async (event) => {
 }) satisfies PageServerLoad;
 
 const profileFormSchema = z.object({
-	name: z.string().trim().min(1, 'Give the profile a name.').max(60, 'Use at most 60 characters.'),
+	name: plainText(60, { required: 'Give the profile a name.' }),
 	headers: z.string().transform((raw, ctx) => {
 		try {
 			const v = z.array(z.string().max(200)).min(1).max(200).parse(JSON.parse(raw));
