@@ -141,7 +141,7 @@ export async function call(route: 'samples' | 'open' | 'close', token: string | 
 	const handler = { samples: postSamples, open: postOpen, close: postClose }[route];
 	const headers: Record<string, string> = { 'content-type': opts.csv ? 'text/csv' : 'application/json' };
 	if (token) headers.authorization = `Bearer ${token}`;
-	const response = await handler(requestEvent(`/api/v1/live/${route}${opts.query ?? ''}`, { method: 'POST', headers, body: typeof body === 'string' || body instanceof Uint8Array ? body : JSON.stringify(body) }));
+	const response = await handler(requestEvent(`/api/v1/live/${route}${opts.query ?? ''}`, { method: 'POST', headers, body: typeof body === 'string' || body instanceof Uint8Array ? (body as BodyInit) : JSON.stringify(body) }));
 	return { status: response.status, body: (await response.json()) as Record<string, any> };
 }
 

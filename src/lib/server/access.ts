@@ -2,13 +2,14 @@
 // of these. Not a member (or no such thing) → 404, so nothing outside your organisations is
 // revealed; a member without the permission → 403.
 import { error, redirect, type RequestEvent } from '@sveltejs/kit';
-import { and, eq } from 'drizzle-orm';
+import { and, eq, gt, isNull } from 'drizzle-orm';
 import { can, type Permission, type Role } from '$lib/permissions';
-import type { AuthUser } from './auth';
+import { SESSION_ABSOLUTE_MS, type AuthUser } from './auth';
 import { db } from './db';
-import { aircraft, flights, memberships, organisations, type Aircraft, type Flight, type Organisation } from './db/schema';
+import { aircraft, apiTokens, flights, memberships, organisations, sessions, type Aircraft, type Flight, type Organisation } from './db/schema';
+import { hashToken } from './tokens';
 
-type Event = Pick<RequestEvent, 'locals' | 'url' | 'route'>;
+type Event = Pick<RequestEvent, 'locals' | 'url' | 'route'> & { request?: Request };
 
 export interface OrgContext {
 	user: AuthUser;
@@ -57,7 +58,7 @@ export async function requireAircraft(
 	return { ...ctx, aircraft: found };
 }
 
-export function mayOnFlight(ctx: { user: AuthUser; role: Role }, flight: Pick<Flight, 'pilotId' | 'instructorId'>, action: FlightAction): boolean {
+export function mayOnFlight(ctx: { user: Pick<AuthUser, 'id'> & Partial<AuthUser>; role: Role }, flight: Pick<Flight, 'pilotId' | 'instructorId'>, action: FlightAction): boolean {
 	const own = flight.pilotId === ctx.user.id || flight.instructorId === ctx.user.id;
 	switch (action) {
 		case 'view':
@@ -102,6 +103,61 @@ export async function requireFlightById(event: Event, flightId: string, action: 
 		: [];
 	if (!row[0]) error(404, 'Flight not found.');
 	return requireFlight(event, row[0].slug, flightId, action);
+}
+
+/**
+ * What a long-lived answer (a live stream) was authorized with, so it can be asked again later:
+ * the user, the credential (session id, or the hash of the API token) and the flight.
+ */
+export interface FlightGrant {
+	userId: string;
+	flightId: string;
+	credential: { kind: 'session'; sessionId: string } | { kind: 'token'; tokenHash: string } | null;
+}
+
+export function flightGrant(event: Event, flightId: string): FlightGrant {
+	const user = requireUser(event);
+	let credential: FlightGrant['credential'] = null;
+	if (event.locals.authVia === 'session' && event.locals.session) credential = { kind: 'session', sessionId: event.locals.session.id };
+	else if (event.locals.authVia === 'token') {
+		const header = event.request?.headers.get('authorization') ?? '';
+		const bearer = header.startsWith('Bearer ') ? header.slice(7).trim() : '';
+		if (bearer) credential = { kind: 'token', tokenHash: hashToken(bearer) };
+	}
+	return { userId: user.id, flightId, credential };
+}
+
+/**
+ * Whether a grant still holds: the session is not signed out or expired (idle or absolute), the
+ * API token is not revoked, and the user may still view the flight (member of its organisation
+ * with the role, or their own flight). Any doubt, such as an unknown credential, answers false.
+ */
+export async function grantHolds(grant: FlightGrant): Promise<boolean> {
+	const c = grant.credential;
+	if (!c) return false;
+	if (c.kind === 'session') {
+		const [s] = await db
+			.select({ createdAt: sessions.createdAt })
+			.from(sessions)
+			.where(and(eq(sessions.id, c.sessionId), eq(sessions.userId, grant.userId), gt(sessions.expiresAt, new Date())))
+			.limit(1);
+		if (!s || Date.now() - s.createdAt.getTime() > SESSION_ABSOLUTE_MS) return false;
+	} else {
+		const [t] = await db
+			.select({ id: apiTokens.id })
+			.from(apiTokens)
+			.where(and(eq(apiTokens.tokenHash, c.tokenHash), eq(apiTokens.userId, grant.userId), isNull(apiTokens.revokedAt)))
+			.limit(1);
+		if (!t) return false;
+	}
+	const [row] = await db
+		.select({ flight: flights, role: memberships.role })
+		.from(flights)
+		.innerJoin(memberships, and(eq(memberships.orgId, flights.orgId), eq(memberships.userId, grant.userId)))
+		.where(eq(flights.id, grant.flightId))
+		.limit(1);
+	if (!row) return false;
+	return mayOnFlight({ user: { id: grant.userId }, role: row.role }, row.flight, 'view');
 }
 
 const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
