@@ -8,6 +8,7 @@ import { db } from '$lib/server/db';
 import { aircraft, apiTokens, memberships, organisations, recorders, users, watches, type Role } from '$lib/server/db/schema';
 import { hashToken, newToken } from '$lib/server/tokens';
 import { handleSamples, liveStream, parseAfter, type LiveHub } from '$lib/server/live';
+import { recorderOf } from '$lib/server/access';
 import { openLiveStream, type LiveStream } from '../../src/routes/o/[org]/flights/[id]/live/stream-client';
 import type { SamplesEvent, MetaEvent } from '$lib/server/live/protocol';
 import { POST as postSamples } from '../../src/routes/api/v1/live/samples/+server';
@@ -168,7 +169,7 @@ export async function startInstance(hub: LiveHub, port = 0): Promise<Instance> {
 			const chunks: Buffer[] = [];
 			for await (const c of req) chunks.push(c as Buffer);
 			const request = new Request(url, { method: 'POST', headers: req.headers as Record<string, string>, body: Buffer.concat(chunks) });
-			const answer = await handleSamples(request, url);
+			const answer = await handleSamples(request, url, await recorderOf(request));
 			res.writeHead(answer.status, { 'content-type': 'application/json' }).end(await answer.text());
 			return;
 		}

@@ -1,37 +1,23 @@
 // The recorder-facing HTTP API (POST /api/v1/live/samples, /open, /close): the bearer recorder
-// token checked here (the auth hook leaves /api/v1/live/* to us), the body read with its own size
-// limit, validated whole, and every refusal answered as JSON saying what and where.
+// token found here (the auth hook leaves /api/v1/live/* to us; the routes ask through
+// requireRecorder of access.ts), the body read with its own size limit, validated whole, and every
+// refusal answered as JSON saying what and where.
 import { json } from '@sveltejs/kit';
-import { and, eq, isNull } from 'drizzle-orm';
 import { toDeclaration } from '$lib/schemas/declaration';
 import { db } from '../db';
-import { recorders, type Recorder } from '../db/schema';
-import { hashToken } from '../tokens';
+import type { Recorder } from '../db/schema';
 import { readCsvBatch, readJsonBatch, closeSchema, openSchema, type BatchProblem } from './batch';
 import { MAX_BATCH_BYTES, MAX_BATCH_LABEL } from './config';
 import { activeAircraftOf, closeByRecorder, LiveRefusal, openByRecorder, touchRecorder } from './flights';
 import { ingestBatch } from './ingest';
 
-export const RECORDER_TOKEN_PREFIX = 'bdr_';
+export { RECORDER_TOKEN_PREFIX } from '../access';
 
 const unauthorized = () =>
 	json(
 		{ error: 'Unknown or revoked recorder token: send Authorization: Bearer bdr_… as shown when the recorder was registered.' },
 		{ status: 401, headers: { 'www-authenticate': 'Bearer realm="burndown-live"' } }
 	);
-
-/** The recorder a request's bearer token belongs to, if the token is current. */
-export async function recorderOf(request: Request): Promise<Recorder | null> {
-	const header = request.headers.get('authorization') ?? '';
-	const token = header.startsWith('Bearer ') ? header.slice(7).trim() : '';
-	if (!token.startsWith(RECORDER_TOKEN_PREFIX) || token.length > 200) return null;
-	const [r] = await db
-		.select()
-		.from(recorders)
-		.where(and(eq(recorders.tokenHash, hashToken(token)), isNull(recorders.revokedAt)))
-		.limit(1);
-	return r ?? null;
-}
 
 class BodyTooLarge extends Error {}
 
@@ -132,8 +118,7 @@ const badBatch = (problems: BatchProblem[]) =>
  * (a header line of our recorder format with its seq column, then sample lines; flightId and
  * firstSeq in the query string). Answers the Ack of ingest.ts.
  */
-export async function handleSamples(request: Request, url: URL): Promise<Response> {
-	const recorder = await recorderOf(request);
+export async function handleSamples(request: Request, url: URL, recorder: Recorder | null): Promise<Response> {
 	if (!recorder) return unauthorized();
 	try {
 		await touchRecorder(recorder.id);
@@ -159,8 +144,7 @@ export async function handleSamples(request: Request, url: URL): Promise<Respons
 }
 
 /** POST /api/v1/live/open: { declaration?, firstSeq?, title?, pilot? } → 201 { flightId, … }. */
-export async function handleOpen(request: Request): Promise<Response> {
-	const recorder = await recorderOf(request);
+export async function handleOpen(request: Request, recorder: Recorder | null): Promise<Response> {
 	if (!recorder) return unauthorized();
 	try {
 		await touchRecorder(recorder.id);
@@ -188,8 +172,7 @@ export async function handleOpen(request: Request): Promise<Response> {
 }
 
 /** POST /api/v1/live/close: { flightId? } → { flightId, closed }. */
-export async function handleClose(request: Request): Promise<Response> {
-	const recorder = await recorderOf(request);
+export async function handleClose(request: Request, recorder: Recorder | null): Promise<Response> {
 	if (!recorder) return unauthorized();
 	try {
 		await touchRecorder(recorder.id);
