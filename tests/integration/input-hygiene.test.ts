@@ -6,6 +6,7 @@ import { count, eq, like } from 'drizzle-orm';
 import { db } from '$lib/server/db';
 import { organisations, users } from '$lib/server/db/schema';
 import { actions as orgActions } from '../../src/routes/orgs/+page.server';
+import { requireMember } from '$lib/server/access';
 
 const stamp = Date.now().toString(36);
 const user = { id: `ih-${stamp}`, email: `ih-${stamp}@hygiene.example`, name: 'Hana Hygiene', prefFuelUnit: null };
@@ -57,5 +58,12 @@ describe('form fields', () => {
 		expect((await run(orgActions.create, post('/orgs?/create', { name: `Bidi Club ${stamp}` }))).status).toBe(303);
 		expect(await orgsNamed(`Bidi Club ${stamp}`)).toBe(1);
 		await db.delete(organisations).where(eq(organisations.name, `Bidi Club ${stamp}`));
+	});
+});
+
+describe('path parameters', () => {
+	it('an organisation slug with a NUL byte (/o/%00) is not found, not a server error', async () => {
+		const event = { locals: { user }, url: new URL('http://127.0.0.1:4173/o/a%00b'), route: { id: '/o/[org]' } } as never;
+		await expect(requireMember(event, 'a\u0000b')).rejects.toMatchObject({ status: 404 });
 	});
 });

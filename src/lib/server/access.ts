@@ -44,6 +44,8 @@ export function requireUser(event: Event): AuthUser {
 /** The signed-in user's membership of the organisation `slug`, optionally with a permission. */
 export async function requireMember(event: Event, slug: string, permission?: Permission): Promise<OrgContext> {
 	const user = requireUser(event);
+	// A NUL byte (from /o/%00) cannot be sent to PostgreSQL as text: no such organisation.
+	if (slug.includes('\u0000')) refuse(event, () => error(404, 'Organisation not found.'));
 	const [row] = await db
 		.select({ org: organisations, role: memberships.role })
 		.from(organisations)
