@@ -8,6 +8,12 @@ declare global {
 			session: AuthSession | null;
 			/** How the request was authenticated: a browser session or a personal API token. */
 			authVia: 'session' | 'token' | null;
+			/**
+			 * Set by the helpers of $lib/server/access.ts: 'granted' when one let the request through,
+			 * 'refused' when one answered 401/403/404 or sent to sign-in. The authorization guard
+			 * (hooks/authorized-guard.ts) refuses any answer of a non-public route where it stayed null.
+			 */
+			access?: 'granted' | 'refused' | null;
 		}
 		interface Error {
 			message: string;

@@ -1,11 +1,14 @@
 import { sequence } from '@sveltejs/kit/hooks';
 import type { HandleServerError } from '@sveltejs/kit';
 import { authenticate } from '$lib/server/hooks/authenticate';
+import { authorizedGuard } from '$lib/server/hooks/authorized-guard';
+import { cacheControl } from '$lib/server/hooks/cache-control';
 import { originGuard } from '$lib/server/hooks/origin-guard';
 import { securityHeaders } from '$lib/server/hooks/security-headers';
 import { closeDb } from '$lib/server/db';
 
-export const handle = sequence(securityHeaders, authenticate, originGuard);
+// authorizedGuard innermost: it judges what the route itself answered, not originGuard's refusals.
+export const handle = sequence(securityHeaders, authenticate, cacheControl, originGuard, authorizedGuard);
 // Live flights: starts the idle sweeper; the live module closes its LISTEN connection on shutdown.
 export { init } from '$lib/server/live';
 

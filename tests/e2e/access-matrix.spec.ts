@@ -1,11 +1,14 @@
 // Every route × every role: allow (2xx, or 400 for a deliberately empty form), 403 for a member
 // without the permission, 404 for anyone outside the organisation, sign-in or 401 when anonymous.
-// A second test fails when a route is added under src/routes without a row here.
+// Two more tests fail when a route, or a form action of a page, is added without a row here. The
+// server's authorization guard turns any answer no helper decided into a 500, which a row shows.
 import fs from 'node:fs';
 import path from 'node:path';
 import pg from 'pg';
+import ts from 'typescript';
 import { expect, test, type APIRequestContext } from '@playwright/test';
 import { apiAs, DEMO_AIRCRAFT, DEMO_ORG, OTHER_ORG, type DemoRole } from './support';
+import { PUBLIC_ROUTES } from '../../src/lib/server/public-routes';
 
 const ROLES: (DemoRole | 'anonymous')[] = ['admin', 'instructor', 'pilot', 'student', 'viewer', 'other', 'anonymous'];
 type Expect = Record<DemoRole | 'anonymous', number>;
@@ -50,9 +53,15 @@ const MATRIX: Row[] = [
 	{ route: '/o/[org]/aircraft/[id]', method: 'GET', path: () => `/o/${OTHER_ORG}/aircraft/${DEMO_AIRCRAFT.otherOrg}`, expect: { admin: 404, instructor: 404, pilot: 404, student: 404, viewer: 404, other: 200, anonymous: 303 } },
 	{ route: '/o/[org]/aircraft/[id]', method: 'POST', path: () => `${O}/aircraft/${DEMO_AIRCRAFT.trainer}?/save`, form: { registration: '' }, expect: only(['admin'], 400) },
 	{ route: '/o/[org]/aircraft/[id]', method: 'POST', path: () => `${O}/aircraft/${DEMO_AIRCRAFT.trainer}?/calibrate`, form: { shown: '' }, expect: only(['admin'], 400) },
+	// Archive toggles: twice, so the trainer ends as it started for the tests after this one.
+	{ route: '/o/[org]/aircraft/[id]', method: 'POST', path: () => `${O}/aircraft/${DEMO_AIRCRAFT.trainer}?/archive`, form: {}, expect: only(['admin'], 200) },
+	{ route: '/o/[org]/aircraft/[id]', method: 'POST', path: () => `${O}/aircraft/${DEMO_AIRCRAFT.trainer}?/archive`, form: {}, expect: only(['admin'], 200) },
 	{ route: '/o/[org]/members', method: 'GET', path: () => `${O}/members`, expect: only(['admin'], 200) },
 	{ route: '/o/[org]/members', method: 'POST', path: () => `${O}/members?/invite`, form: { email: 'not-an-address', role: 'pilot' }, expect: only(['admin'], 400) },
 	{ route: '/o/[org]/members', method: 'POST', path: () => `${O}/members?/role`, form: { userId: '', role: 'admin' }, expect: only(['admin'], 400) },
+	{ route: '/o/[org]/members', method: 'POST', path: () => `${O}/members?/remove`, form: { userId: '' }, expect: only(['admin'], 400) },
+	// An invitation id that matches none: nothing changes.
+	{ route: '/o/[org]/members', method: 'POST', path: () => `${O}/members?/revoke`, form: { id: '00000000-0000-4000-8000-000000000000' }, expect: only(['admin'], 200) },
 	{ route: '/o/[org]/recorders', method: 'GET', path: () => `${O}/recorders`, expect: only(['admin'], 200) },
 	{ route: '/o/[org]/flights', method: 'GET', path: () => `${O}/flights`, expect: members(200) },
 	{ route: '/o/[org]/flights/upload', method: 'GET', path: () => `${O}/flights/upload`, expect: only(['admin', 'instructor', 'pilot', 'student'], 200) },
@@ -76,13 +85,15 @@ const MATRIX: Row[] = [
 	{ route: '/o/[org]/recorders', method: 'POST', path: () => `${O}/recorders?/revoke`, form: { id: '' }, expect: only(['admin'], 400) },
 	{ route: '/o/[org]/flights/upload', method: 'POST', path: () => `${O}/flights/upload?/saveProfile`, form: { name: '' }, expect: only(['admin', 'instructor', 'pilot', 'student'], 400) },
 	{ route: '/account', method: 'POST', path: () => '/account?/createToken', form: { name: '' }, expect: anyone(400) },
+	{ route: '/account', method: 'POST', path: () => '/account?/preferences', form: { prefFuelUnit: 'furlongs' }, expect: anyone(400) },
+	{ route: '/account', method: 'POST', path: () => '/account?/revokeToken', form: { id: '' }, expect: anyone(400) },
 	// An empty CSV for the trainer: members who may upload get the file's error, the rest are refused first.
 	{ route: '/api/v1/flights', method: 'POST', path: () => `/api/v1/flights?aircraftId=${DEMO_AIRCRAFT.trainer}&declaration=full`, body: { data: '', type: 'text/csv' }, expect: only(FLIGHT_EDITORS.concat('student'), 400, 401) }
 ];
 
-/** Routes that need no membership, checked elsewhere or public by design. */
+/** Routes that need no membership: public by design (the one list), or checked elsewhere. */
 const OUTSIDE_MATRIX = new Set([
-	'/', '/sign-in', '/sign-up', '/sign-out', '/reset-password', '/reset-password/[token]', '/invite/[token]', '/caution', '/dev/mailbox', '/api/health',
+	...PUBLIC_ROUTES.keys(),
 	// Recorder-token routes: tested with valid, revoked and foreign tokens in tests/integration/live*.
 	'/api/v1/live/samples', '/api/v1/live/open', '/api/v1/live/close'
 ]);
@@ -155,4 +166,46 @@ test('every route under src/routes is in the matrix or listed as outside it', ()
 	const covered = new Set(MATRIX.map((r) => r.route));
 	const missing = [...new Set(found)].filter((r) => !covered.has(r) && !OUTSIDE_MATRIX.has(r));
 	expect(missing, `routes with no row in the role matrix: ${missing.join(', ')}`).toEqual([]);
+});
+
+/** Every form action of every +page.server.ts, as "route ?/name" ("default" for the unnamed one). */
+function formActions(): string[] {
+	const root = path.resolve('src/routes');
+	const found: string[] = [];
+	const walk = (dir: string) => {
+		for (const entry of fs.readdirSync(dir, { withFileTypes: true })) {
+			const file = path.join(dir, entry.name);
+			if (entry.isDirectory()) walk(file);
+			else if (entry.name === '+page.server.ts') {
+				const id = '/' + path.relative(root, dir).split(path.sep).filter((s) => s && !/^\(.*\)$/.test(s)).join('/');
+				const source = ts.createSourceFile(file, fs.readFileSync(file, 'utf8'), ts.ScriptTarget.Latest, true);
+				const visit = (node: ts.Node) => {
+					if (ts.isVariableDeclaration(node) && node.name.getText() === 'actions' && node.initializer) {
+						let init: ts.Expression = node.initializer;
+						while (ts.isSatisfiesExpression(init) || ts.isAsExpression(init) || ts.isParenthesizedExpression(init)) init = init.expression;
+						if (!ts.isObjectLiteralExpression(init)) throw new Error(`${file}: actions is not an object literal; list its actions here by hand`);
+						for (const p of init.properties) found.push(`${id === '/' ? '/' : id.replace(/\/$/, '')} ?/${p.name?.getText() ?? '?'}`);
+					}
+					ts.forEachChild(node, visit);
+				};
+				visit(source);
+			}
+		}
+	};
+	walk(root);
+	return found;
+}
+
+test('every form action of every page is in the matrix or on a route outside it', () => {
+	const actions = formActions();
+	// The walk itself must see actions, or the check below proves nothing.
+	expect(actions).toContain('/o/[org]/members ?/remove');
+	const covered = new Set(
+		MATRIX.filter((r) => r.method === 'POST' && !r.body).map((r) => {
+			const name = /^\?\/([\w-]+)/.exec(new URL(r.path({ pilotFlight: 'x' }), 'http://x').search)?.[1] ?? 'default';
+			return `${r.route} ?/${name}`;
+		})
+	);
+	const missing = actions.filter((a) => !covered.has(a) && !OUTSIDE_MATRIX.has(a.split(' ')[0]));
+	expect(missing, `form actions with no row in the role matrix: ${missing.join(', ')}`).toEqual([]);
 });

@@ -8,6 +8,7 @@ import { db } from '$lib/server/db';
 import { aircraft, apiTokens, memberships, organisations, recorders, users, watches, type Role } from '$lib/server/db/schema';
 import { hashToken, newToken } from '$lib/server/tokens';
 import { handleSamples, liveStream, parseAfter, type LiveHub } from '$lib/server/live';
+import { recorderOf } from '$lib/server/access';
 import { openLiveStream, type LiveStream } from '../../src/routes/o/[org]/flights/[id]/live/stream-client';
 import type { SamplesEvent, MetaEvent } from '$lib/server/live/protocol';
 import { POST as postSamples } from '../../src/routes/api/v1/live/samples/+server';
@@ -141,7 +142,7 @@ export async function call(route: 'samples' | 'open' | 'close', token: string | 
 	const handler = { samples: postSamples, open: postOpen, close: postClose }[route];
 	const headers: Record<string, string> = { 'content-type': opts.csv ? 'text/csv' : 'application/json' };
 	if (token) headers.authorization = `Bearer ${token}`;
-	const response = await handler(requestEvent(`/api/v1/live/${route}${opts.query ?? ''}`, { method: 'POST', headers, body: typeof body === 'string' ? body : JSON.stringify(body) }));
+	const response = await handler(requestEvent(`/api/v1/live/${route}${opts.query ?? ''}`, { method: 'POST', headers, body: typeof body === 'string' || body instanceof Uint8Array ? (body as BodyInit) : JSON.stringify(body) }));
 	return { status: response.status, body: (await response.json()) as Record<string, any> };
 }
 
@@ -168,7 +169,7 @@ export async function startInstance(hub: LiveHub, port = 0): Promise<Instance> {
 			const chunks: Buffer[] = [];
 			for await (const c of req) chunks.push(c as Buffer);
 			const request = new Request(url, { method: 'POST', headers: req.headers as Record<string, string>, body: Buffer.concat(chunks) });
-			const answer = await handleSamples(request, url);
+			const answer = await handleSamples(request, url, await recorderOf(request));
 			res.writeHead(answer.status, { 'content-type': 'application/json' }).end(await answer.text());
 			return;
 		}

@@ -258,3 +258,104 @@ describe('opening and closing', () => {
 		expect(f.summary).not.toBeNull();
 	});
 });
+
+describe('hostile bytes store nothing', () => {
+	const enc = new TextEncoder();
+	const withBytes = (text: string, at: number, bytes: number[]) => {
+		const b = enc.encode(text);
+		return new Uint8Array([...b.slice(0, at), ...bytes, ...b.slice(at)]);
+	};
+
+	it('invalid UTF-8 in a JSON or CSV batch, or an open call, answers 400 naming the byte offset', async () => {
+		const before = await flightCount(w.aircraftA);
+		const json = JSON.stringify({ samples: samples(0, 3) });
+		const at = json.indexOf('WPT-B') + 3;
+		// A lone continuation byte, an overlong "/", a surrogate, a sequence cut short at the end.
+		for (const [bytes, offset] of [[[0x80], at], [[0xc0, 0xaf], at], [[0xed, 0xa0, 0x80], at + 1]] as [number[], number][]) {
+			const r = await call('samples', w.tokenA, withBytes(json, at, bytes));
+			expect(r.status, JSON.stringify(r.body)).toBe(400);
+			expect(r.body).toMatchObject({ field: 'body', offset });
+			expect(r.body.error).toMatch(/not valid UTF-8/);
+		}
+		const cut = enc.encode(json.slice(0, -2));
+		const truncated = await call('samples', w.tokenA, new Uint8Array([...cut, 0xe2, 0x82]));
+		expect(truncated).toMatchObject({ status: 400, body: { field: 'body', offset: cut.length } });
+		const csv = ['seq,time_utc,fuel_flow_usgph,ground_speed_kt,distance_to_go_nm', '0,2026-05-02T09:00:00Z,9.0,110,60'].join('\n');
+		const r = await call('samples', w.tokenA, withBytes(csv, csv.length - 2, [0xff]), { csv: true });
+		expect(r).toMatchObject({ status: 400, body: { field: 'body', offset: enc.encode(csv).length - 2 } });
+		const open = await call('open', w.tokenA, withBytes('{"title":"Morning"}', 12, [0xfe]));
+		expect(open).toMatchObject({ status: 400, body: { field: 'body', offset: 12 } });
+		expect(await flightCount(w.aircraftA)).toBe(before);
+	});
+
+	it('a NUL byte in a waypoint, a CSV line or a title answers 400 saying where', async () => {
+		const before = await flightCount(w.aircraftA);
+		const batch = samples(0, 4);
+		batch[2].wpt = 'WPT\u0000B';
+		const r = await call('samples', w.tokenA, { samples: batch });
+		expect(r.status, JSON.stringify(r.body)).toBe(400);
+		expect(r.body.problems[0]).toMatchObject({ index: 2, field: 'samples[2].wpt', message: expect.stringMatching(/NUL byte \(U\+0000\) at character 4/) });
+		const csv = ['seq,time_utc,fuel_flow_usgph,ground_speed_kt,distance_to_go_nm,waypoint', '0,2026-05-02T09:00:00Z,9.0,110,60,WPT-A', '1,2026-05-02T09:00:01Z,9.0,110,60,WP\u0000'].join('\n');
+		const c = await call('samples', w.tokenA, csv, { csv: true });
+		expect(c.status).toBe(400);
+		expect(c.body.problems[0]).toMatchObject({ line: 3, field: 'body', message: expect.stringMatching(/line 3, character 37:/) });
+		const open = await call('open', w.tokenA, { title: 'Morning\u0000 hop' });
+		expect(open.status).toBe(400);
+		expect(open.body.problems[0]).toMatchObject({ field: 'title', message: expect.stringMatching(/NUL byte/) });
+		const rlo = await call('open', w.tokenA, { title: 'Morning \u202epoh' });
+		expect(rlo.status).toBe(400);
+		expect(await flightCount(w.aircraftA)).toBe(before);
+	});
+});
+
+describe('a resent batch', () => {
+	it('with the same sequence numbers and times but other values is a conflict naming the first differing seq', async () => {
+		const first = await call('samples', w.tokenA, { samples: samples(0, 10) });
+		expect(first.status).toBe(200);
+		const flightId = first.body.flightId;
+		// Exactly the same again: an idempotent duplicate.
+		const same = await call('samples', w.tokenA, { flightId, samples: samples(0, 10) });
+		expect(same).toMatchObject({ status: 200, body: { stored: 0, duplicates: 10, ack: 9 } });
+		// Same seqs and times, seq 6 and 8 with another flow, and two new samples after them.
+		const changed = samples(5, 7);
+		changed[1].flow = 12 * US_GAL;
+		changed[3].wpt = 'WPT-C';
+		const r = await call('samples', w.tokenA, { flightId, samples: changed });
+		expect(r.status, JSON.stringify(r.body)).toBe(409);
+		expect(r.body).toMatchObject({ flightId, seq: 6, problems: [{ index: 1, seq: 6, field: 'flow' }] });
+		expect(r.body.error).toMatch(/seq 6 is stored already with the same time but other values \(flow\)/);
+		// Nothing of it was stored: not the new samples 10 and 11 either.
+		expect(await storedSeqs(flightId)).toEqual([0, 1, 2, 3, 4, 5, 6, 7, 8, 9]);
+		const [s6] = await db.select().from(samplesTable).where(eq(samplesTable.seq, 6)).limit(1);
+		expect(s6.flow).toBeCloseTo(9 * US_GAL, 9);
+		// A CSV resend of the same samples in another unit is still an exact duplicate.
+		const csv = ['seq,time_utc,fuel_flow_usgph,ground_speed_kt,distance_to_go_nm,waypoint', ...samples(0, 2).map((s) => `${s.seq},${s.t},9,110,${s.dtg},WPT-B`)].join('\n');
+		const again = await call('samples', w.tokenA, csv, { csv: true, query: `?flightId=${flightId}` });
+		expect(again.status, JSON.stringify(again.body)).toBe(200);
+		expect(again.body).toMatchObject({ stored: 0, duplicates: 2 });
+		await closeOpen(w.tokenA);
+	});
+});
+
+describe('an archived aircraft', () => {
+	it("its recorder can neither open a flight nor send samples; closing still works; restored, it records again", async () => {
+		const open = await call('samples', w.tokenB, { samples: samples(0, 3) });
+		expect(open.status).toBe(200);
+		await db.update(aircraft).set({ archivedAt: new Date() }).where(eq(aircraft.id, w.aircraftB));
+		const before = await flightCount(w.aircraftB);
+		const more = await call('samples', w.tokenB, { samples: samples(3, 3) });
+		expect(more.status).toBe(409);
+		expect(more.body).toMatchObject({ field: 'aircraft', error: expect.stringMatching(/BD-LVB is archived/) });
+		const explicit = await call('open', w.tokenB, { title: 'after archiving' });
+		expect(explicit.status).toBe(409);
+		expect(explicit.body.field).toBe('aircraft');
+		const csv = ['seq,time_utc,fuel_flow_usgph,ground_speed_kt,distance_to_go_nm', '3,2026-05-02T09:00:03Z,9.0,110,60'].join('\n');
+		expect((await call('samples', w.tokenB, csv, { csv: true })).status).toBe(409);
+		expect(await flightCount(w.aircraftB)).toBe(before);
+		expect(await storedSeqs(open.body.flightId)).toEqual([0, 1, 2]);
+		expect((await call('close', w.tokenB, {})).status).toBe(200);
+		await db.update(aircraft).set({ archivedAt: null }).where(eq(aircraft.id, w.aircraftB));
+		expect((await call('open', w.tokenB, {})).status).toBe(201);
+		await closeOpen(w.tokenB);
+	});
+});

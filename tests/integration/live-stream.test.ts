@@ -23,7 +23,7 @@ function routeFetch(user: Member | null): typeof fetch {
 		const url = new URL(String(input));
 		const id = url.pathname.split('/')[4];
 		const event = {
-			request: new Request(url, { headers: init?.headers }),
+			request: new Request(url, { headers: { ...(init?.headers as Record<string, string>), ...(user ? { authorization: `Bearer ${user.apiToken}` } : {}) } }),
 			url,
 			params: { id },
 			locals: { user: user && { id: user.id, email: user.email, name: user.name, prefFuelUnit: null }, session: null, authVia: user ? 'token' : null },
@@ -287,5 +287,116 @@ describe('catch-up and clean-up', () => {
 		// The process-wide hub of the route is cleaned up the same way.
 		expect(liveHub().stats().viewers).toBe(0);
 		await inst.stop();
+	});
+});
+
+describe('a stream whose viewer loses access', () => {
+	/** Opens the real route as `user` (by API token, or by a session of theirs) and reads it to its end. */
+	async function openRaw(user: Member, session?: { id: string; expiresAt: Date; fresh: boolean; userId: string; createdAt: Date }) {
+		const flightUrl = new URL(routeUrl(currentFlight));
+		const event = {
+			request: new Request(flightUrl, { headers: session ? {} : { authorization: `Bearer ${user.apiToken}` } }),
+			url: flightUrl,
+			params: { id: currentFlight },
+			locals: { user: { id: user.id, email: user.email, name: user.name, prefFuelUnit: null }, session: session ?? null, authVia: session ? 'session' : 'token' },
+			route: { id: '/api/v1/flights/[id]/stream' }
+		};
+		const res = await streamGet(event as never);
+		expect(res.status).toBe(200);
+		const reader = res.body!.getReader();
+		let text = '';
+		let endedAt: number | null = null;
+		const done = (async () => {
+			for (;;) {
+				const { done, value } = await reader.read();
+				if (done) break;
+				text += new TextDecoder().decode(value);
+			}
+			endedAt = Date.now();
+		})();
+		return {
+			get text() {
+				return text;
+			},
+			get endedAt() {
+				return endedAt;
+			},
+			done,
+			cancel: () => reader.cancel().catch(() => {})
+		};
+	}
+	let currentFlight = '';
+	const waitEnd = async (s: { endedAt: number | null }, withinMs: number) => {
+		const deadline = Date.now() + withinMs;
+		while (s.endedAt === null && Date.now() < deadline) await sleep(20);
+		return s.endedAt;
+	};
+	const setPeriod = (seconds: string | undefined) => {
+		if (seconds === undefined) delete process.env.LIVE_STREAM_RECHECK_SECONDS;
+		else process.env.LIVE_STREAM_RECHECK_SECONDS = seconds;
+	};
+	afterAll(() => setPeriod(undefined));
+
+	it('ends within the check period once the viewer may no longer see the flight, and stays open while they may', async () => {
+		setPeriod('0.2');
+		currentFlight = await openFlight();
+		await send(currentFlight, 0, 5);
+		// The pilot's own flight: they see it while it is theirs.
+		const { flights } = await import('$lib/server/db/schema');
+		const { db } = await import('$lib/server/db');
+		const { eq } = await import('drizzle-orm');
+		await db.update(flights).set({ pilotId: w.pilot.id }).where(eq(flights.id, currentFlight));
+		const pilot = await openRaw(w.pilot);
+		const instructor = await openRaw(w.instructor);
+		await sleep(700); // several check periods
+		expect(pilot.endedAt).toBeNull();
+		expect(instructor.endedAt).toBeNull();
+		// Reassigned to another pilot (no notice for this: only the periodic check sees it).
+		await db.update(flights).set({ pilotId: w.admin.id }).where(eq(flights.id, currentFlight));
+		const changedAt = Date.now();
+		const ended = await waitEnd(pilot, 5000);
+		expect(ended, 'the pilot stream ended').not.toBeNull();
+		expect(ended! - changedAt).toBeLessThan(200 + 1000);
+		// The instructor may still view it: their stream goes on and keeps delivering.
+		await send(currentFlight, 5, 5);
+		await sleep(300);
+		expect(instructor.endedAt).toBeNull();
+		expect(instructor.text).toMatch(/"to":9/);
+		instructor.cancel();
+		await instructor.done;
+	});
+
+	it('ends at once on sign-out, removal from the organisation and a revoked token, even with a long period', async () => {
+		setPeriod('3600');
+		currentFlight = await openFlight();
+		await send(currentFlight, 0, 5);
+		const { db } = await import('$lib/server/db');
+		const { apiTokens, memberships } = await import('$lib/server/db/schema');
+		const { and, eq } = await import('drizzle-orm');
+		const { lucia } = await import('$lib/server/auth');
+
+		// Sign-out: the session row is deleted.
+		const session = await lucia.createSession(w.instructor.id, { createdAt: new Date() });
+		const bySession = await openRaw(w.instructor, session as never);
+		const byToken = await openRaw(w.instructor);
+		await sleep(300);
+		expect(bySession.endedAt).toBeNull();
+		await lucia.invalidateSession(session.id);
+		expect(await waitEnd(bySession, 3000), 'the signed-out stream ended').not.toBeNull();
+		// The same user's token stream holds: only the ended session's stream closed.
+		await sleep(200);
+		expect(byToken.endedAt).toBeNull();
+		await db.update(apiTokens).set({ revokedAt: new Date() }).where(eq(apiTokens.userId, w.instructor.id));
+		expect(await waitEnd(byToken, 3000), 'the revoked token stream ended').not.toBeNull();
+
+		// Removal from the organisation.
+		const admin = await openRaw(w.admin);
+		await sleep(200);
+		expect(admin.endedAt).toBeNull();
+		await db.delete(memberships).where(and(eq(memberships.userId, w.admin.id), eq(memberships.orgId, w.orgId)));
+		expect(await waitEnd(admin, 3000), 'the removed member stream ended').not.toBeNull();
+		// Reconnecting is refused by the route itself.
+		expect((await routeFetch(w.admin)(routeUrl(currentFlight))).status).toBe(404);
+		expect(liveHub().stats()).toMatchObject({ accessWatchers: 0 });
 	});
 });

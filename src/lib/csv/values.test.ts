@@ -93,4 +93,10 @@ describe('clock times and dates', () => {
 		expect(formatTimeMs(Date.UTC(2026, 4, 2, 9, 14, 5))).toBe('2026-05-02 09:14:05Z');
 		expect(formatTimeMs(Date.UTC(2026, 4, 2, 9, 14, 5, 120))).toBe('2026-05-02 09:14:05.120Z');
 	});
+
+	it('shows a time outside the ECMAScript range as the number, never throwing', () => {
+		// Found by the live batch property test: epoch seconds 8640000000000.001 reached toISOString.
+		expect(formatTimeMs(8640000000000001)).toBe('8640000000000001');
+		expect(formatTimeMs(-8.64e15 - 1)).toBe(String(-8.64e15 - 1));
+	});
 });

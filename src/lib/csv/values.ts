@@ -1,4 +1,5 @@
 // Cell values: strict numbers (decimal point or comma) and the time formats a mapping can name.
+// The number grammar here is the only one: form fields read numbers through parseTypedNumber.
 // The fast paths return NaN for anything malformed; explainTime() says why, for the error report.
 // Hand-written rather than Date.parse: Date.parse accepts times without a zone as local time.
 
@@ -23,6 +24,17 @@ export function parseNumber(cell: string, decimalComma: boolean): number {
 	// Number('') and Number('  ') are 0: a blank cell is the caller's business, never a zero.
 	if (v === 0 && s.trim() === '') return NaN;
 	return v;
+}
+
+/**
+ * A number typed in a form field: the cell grammar above (plain decimal, optional sign and
+ * exponent; no hex, binary, octal, "Infinity" or units), with a decimal comma accepted in place of
+ * the point, since people type what their keyboard and country use. Blank is null; NaN otherwise.
+ */
+export function parseTypedNumber(text: string): number | null {
+	const s = text.trim();
+	if (s === '') return null;
+	return parseNumber(s, s.indexOf(',') !== -1);
 }
 
 const DAYS = [31, 28, 31, 30, 31, 30, 31, 31, 30, 31, 30, 31];
@@ -134,7 +146,8 @@ export function explainIsoTime(cell: string): string {
 
 /** Formats epoch milliseconds for messages, e.g. 2026-05-02 09:14:05Z (milliseconds when set). */
 export function formatTimeMs(ms: number): string {
-	if (!Number.isFinite(ms)) return String(ms);
+	// Outside ±8.64e15 ms (ECMAScript's time range) toISOString throws: such a value is shown as it is.
+	if (!Number.isFinite(ms) || Math.abs(ms) > 8.64e15) return String(ms);
 	const iso = new Date(ms).toISOString();
 	return `${iso.slice(0, 10)} ${ms % 1000 === 0 ? iso.slice(11, 19) : iso.slice(11, 23)}Z`;
 }

@@ -1,5 +1,6 @@
 // Sign-up, sign-in and password-reset fields.
 import { z } from 'zod';
+import { plainText } from './text';
 
 // NIST SP 800-63B: at least 8 characters, and allow at least 64.
 export const password = z
@@ -14,7 +15,7 @@ export const email = z
 	.pipe(z.email('Enter an e-mail address like name@example.org.'));
 
 export const signUpSchema = z.object({
-	name: z.string().trim().min(1, 'Enter your name.').max(100, 'Use at most 100 characters.'),
+	name: plainText(100, { required: 'Enter your name.' }),
 	email,
 	password
 });

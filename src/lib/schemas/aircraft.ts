@@ -2,16 +2,17 @@
 import { z } from 'zod';
 import { defaultDensityKgPerL, fuelUnits, toLitres, type FuelUnit } from '$lib/units';
 import { reserveRules, type ReserveRuleId } from '$lib/fuel';
+import { parseTypedNumber } from '$lib/csv/values';
+import { plainText } from './text';
 
-/** A number typed in a form: accepts a decimal comma, blank means "not set". */
+/** A number typed in a form (the shared grammar: a decimal comma is accepted), blank means "not set". */
 const optionalNumber = (min: number, max: number, what: string) =>
 	z
 		.string()
 		.optional()
 		.transform((raw, ctx) => {
-			const s = (raw ?? '').trim();
-			if (s === '') return null;
-			const n = Number(s.replace(',', '.'));
+			const n = parseTypedNumber(raw ?? '');
+			if (n === null) return null;
 			if (!Number.isFinite(n)) {
 				ctx.addIssue({ code: 'custom', message: `Enter ${what} as a number.` });
 				return z.NEVER;
@@ -33,8 +34,8 @@ export const aircraftFormSchema = z
 			.trim()
 			.toUpperCase()
 			.regex(/^[A-Z0-9][A-Z0-9-]{1,9}$/, 'Use 2 to 10 letters, digits or hyphens, e.g. N4821K or G-ABCD.'),
-		type: z.string().trim().min(1, 'Enter the aircraft type.').max(60, 'Use at most 60 characters.'),
-		engine: z.string().trim().max(80, 'Use at most 80 characters.').default(''),
+		type: plainText(60, { required: 'Enter the aircraft type.' }),
+		engine: plainText(80).default(''),
 		fuelType: z.enum(['avgas', 'jet', 'other'], 'Choose a fuel type.'),
 		densityKgPerL: optionalNumber(0.5, 1.0, 'the density in kg/L'),
 		displayUnit: z.enum(fuelUnits as [FuelUnit, ...FuelUnit[]], 'Choose a unit.'),

@@ -4,6 +4,7 @@
 // engine's Declaration in litres and the checks against the tanks are the ones here.
 import { z } from 'zod';
 import type { Declaration } from '$lib/fuel';
+import { parseTypedNumber } from '$lib/csv/values';
 import { fromLitres, fuelUnitLabels, fuelUnits, toLitres, type FuelUnit } from '$lib/units';
 
 /** In the order the forms offer them. */
@@ -29,14 +30,14 @@ export const MAX_AMOUNT = 100_000;
 export const fuelUnitSchema = (message?: string) => z.enum(fuelUnits as [FuelUnit, ...FuelUnit[]], message);
 
 /**
- * An amount as typed: blank is null, a decimal comma is read as a point, anything else that is
- * not a number is NaN (the schemas say so in their own words).
+ * An amount as typed, in the one number grammar ($lib/csv/values): blank is null, a decimal comma
+ * is read as a point, anything else that is not a number is NaN (the schemas say so in their own
+ * words).
  */
 export function parseAmount(raw: string | number | null | undefined): number | null {
 	if (raw === null || raw === undefined) return null;
 	if (typeof raw === 'number') return raw;
-	const s = raw.trim();
-	return s === '' ? null : Number(s.replace(',', '.'));
+	return parseTypedNumber(raw);
 }
 
 interface AmountWording {

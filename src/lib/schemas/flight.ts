@@ -6,6 +6,7 @@ import { z } from 'zod';
 import type { Declaration, FuelEventKind } from '$lib/fuel';
 import { REASON_MAX } from '$lib/corrections';
 import { toLitres, type FuelUnit } from '$lib/units';
+import { plainText } from './text';
 import { MAX_AMOUNT, amountField, declarationKindOf, declarationSchema, fuelUnitSchema, toDeclaration } from './declaration';
 
 const unitSchema = fuelUnitSchema('Choose a unit.');
@@ -84,7 +85,7 @@ export const fuelEventFormSchema = (densityKgPerL: number) =>
 			amount: amountText('the amount'),
 			unit: unitSchema,
 			at: utcText('when it happened'),
-			note: z.string().trim().max(200, 'Use at most 200 characters.').default('')
+			note: plainText(200).default('')
 		})
 		.superRefine((v, ctx) => {
 			if ((v.kind === 'added' || v.kind === 'removed') && v.amount === null)
@@ -105,7 +106,7 @@ export const reasonFormSchema = z.object({
 });
 
 export const noteFormSchema = z.object({
-	body: z.string().trim().min(1, 'Write the note.').max(2000, 'Use at most 2000 characters.'),
+	body: plainText(2000, { required: 'Write the note.', multiline: true }),
 	at: z
 		.string()
 		.optional()
@@ -140,7 +141,7 @@ const day = z
  */
 export const flightListQuerySchema = z.object({
 	aircraft: z.uuid().optional().catch(undefined),
-	pilot: z.string().trim().min(1).max(100).optional().catch(undefined),
+	pilot: plainText(100, { required: 'pilot' }).optional().catch(undefined),
 	from: day.catch(null),
 	to: day.catch(null),
 	sort: z.enum(FLIGHT_SORTS).default('date').catch('date'),

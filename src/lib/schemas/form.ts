@@ -15,10 +15,26 @@ export function formValues(form: FormData): Record<string, string> {
 
 export function parseForm<S extends z.ZodType>(schema: S, form: FormData): FormResult<z.output<S>> {
 	const values = formValues(form);
+	// PostgreSQL text cannot hold a NUL byte; refused here for every field, whatever its schema,
+	// so it never reaches a query (where it would fail as a server error).
+	const nul = nulErrors(values);
+	if (nul) return { ok: false, errors: nul, values: stripNul(values) };
 	const result = schema.safeParse(values);
 	if (result.success) return { ok: true, data: result.data, values };
 	return { ok: false, errors: fieldErrors(result.error), values };
 }
+
+function nulErrors(values: Record<string, string>): FieldErrors | null {
+	let errors: FieldErrors | null = null;
+	for (const [k, v] of Object.entries(values)) {
+		const at = v.indexOf('\u0000');
+		if (at !== -1) (errors ??= {})[k] = `Remove the NUL byte (U+0000) at character ${[...v.slice(0, at)].length + 1}.`;
+	}
+	return errors;
+}
+
+/** The input echoed back without its NUL bytes, so the page can show it. */
+const stripNul = (values: Record<string, string>) => Object.fromEntries(Object.entries(values).map(([k, v]) => [k, v.replaceAll('\u0000', '')]));
 
 export function fieldErrors(error: z.ZodError): FieldErrors {
 	const errors: FieldErrors = {};

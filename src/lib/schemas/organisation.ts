@@ -2,9 +2,10 @@
 import { z } from 'zod';
 import { ROLES } from '$lib/permissions';
 import { email } from './account';
+import { plainText } from './text';
 
 export const organisationSchema = z.object({
-	name: z.string().trim().min(2, 'Use at least 2 characters.').max(80, 'Use at most 80 characters.')
+	name: plainText(80, { min: 2 })
 });
 
 export const role = z.enum(ROLES, 'Choose a role.');

@@ -1,14 +1,25 @@
 // Authorization at every server boundary: each load, form action and +server.ts handler calls one
 // of these. Not a member (or no such thing) → 404, so nothing outside your organisations is
-// revealed; a member without the permission → 403.
+// revealed; a member without the permission → 403. Each records its decision on event.locals.access,
+// which the authorization guard checks on every answer of a non-public route.
 import { error, redirect, type RequestEvent } from '@sveltejs/kit';
-import { and, eq } from 'drizzle-orm';
+import { and, eq, gt, isNull } from 'drizzle-orm';
 import { can, type Permission, type Role } from '$lib/permissions';
-import type { AuthUser } from './auth';
+import { SESSION_ABSOLUTE_MS, type AuthUser } from './auth';
 import { db } from './db';
-import { aircraft, flights, memberships, organisations, type Aircraft, type Flight, type Organisation } from './db/schema';
+import { aircraft, apiTokens, flights, memberships, organisations, recorders, sessions, type Aircraft, type Flight, type Organisation, type Recorder } from './db/schema';
+import { hashToken } from './tokens';
 
-type Event = Pick<RequestEvent, 'locals' | 'url' | 'route'>;
+type Event = Pick<RequestEvent, 'locals' | 'url' | 'route'> & { request?: Request };
+
+const granted = (event: Event) => {
+	event.locals.access = 'granted';
+};
+/** Records the refusal, then throws it (error() and redirect() never return). */
+function refuse(event: Event, raise: () => never): never {
+	event.locals.access = 'refused';
+	raise();
+}
 
 export interface OrgContext {
 	user: AuthUser;
@@ -22,22 +33,28 @@ const isApi = (event: Event) => event.route.id?.startsWith('/api/') ?? event.url
 
 export function requireUser(event: Event): AuthUser {
 	const user = event.locals.user;
-	if (user) return user;
-	if (isApi(event)) error(401, 'Sign in, or send an API token as a bearer credential.');
-	redirect(303, `/sign-in?next=${encodeURIComponent(event.url.pathname + event.url.search)}`);
+	if (user) {
+		granted(event);
+		return user;
+	}
+	if (isApi(event)) refuse(event, () => error(401, 'Sign in, or send an API token as a bearer credential.'));
+	refuse(event, () => redirect(303, `/sign-in?next=${encodeURIComponent(event.url.pathname + event.url.search)}`));
 }
 
 /** The signed-in user's membership of the organisation `slug`, optionally with a permission. */
 export async function requireMember(event: Event, slug: string, permission?: Permission): Promise<OrgContext> {
 	const user = requireUser(event);
+	// A NUL byte (from /o/%00) cannot be sent to PostgreSQL as text: no such organisation.
+	if (slug.includes('\u0000')) refuse(event, () => error(404, 'Organisation not found.'));
 	const [row] = await db
 		.select({ org: organisations, role: memberships.role })
 		.from(organisations)
 		.innerJoin(memberships, and(eq(memberships.orgId, organisations.id), eq(memberships.userId, user.id)))
 		.where(eq(organisations.slug, slug))
 		.limit(1);
-	if (!row) error(404, 'Organisation not found.');
-	if (permission && !can(row.role, permission)) error(403, 'Your role in this organisation does not allow that.');
+	if (!row) refuse(event, () => error(404, 'Organisation not found.'));
+	if (permission && !can(row.role, permission)) refuse(event, () => error(403, 'Your role in this organisation does not allow that.'));
+	granted(event);
 	return { user, org: row.org, role: row.role };
 }
 
@@ -52,12 +69,13 @@ export async function requireAircraft(
 	const found = isUuid(aircraftId)
 		? await db.query.aircraft.findFirst({ where: and(eq(aircraft.id, aircraftId), eq(aircraft.orgId, ctx.org.id)) })
 		: undefined;
-	if (!found) error(404, 'Aircraft not found.');
-	if (!can(ctx.role, permission)) error(403, 'Your role in this organisation does not allow that.');
+	if (!found) refuse(event, () => error(404, 'Aircraft not found.'));
+	if (!can(ctx.role, permission)) refuse(event, () => error(403, 'Your role in this organisation does not allow that.'));
+	granted(event);
 	return { ...ctx, aircraft: found };
 }
 
-export function mayOnFlight(ctx: { user: AuthUser; role: Role }, flight: Pick<Flight, 'pilotId' | 'instructorId'>, action: FlightAction): boolean {
+export function mayOnFlight(ctx: { user: Pick<AuthUser, 'id'> & Partial<AuthUser>; role: Role }, flight: Pick<Flight, 'pilotId' | 'instructorId'>, action: FlightAction): boolean {
 	const own = flight.pilotId === ctx.user.id || flight.instructorId === ctx.user.id;
 	switch (action) {
 		case 'view':
@@ -80,9 +98,10 @@ export async function requireFlight(
 	const flight = isUuid(flightId)
 		? await db.query.flights.findFirst({ where: and(eq(flights.id, flightId), eq(flights.orgId, ctx.org.id)) })
 		: undefined;
-	if (!flight) error(404, 'Flight not found.');
-	if (!mayOnFlight(ctx, flight, 'view')) error(403, 'This flight belongs to another pilot.');
-	if (!mayOnFlight(ctx, flight, action)) error(403, 'Your role does not allow changing this flight.');
+	if (!flight) refuse(event, () => error(404, 'Flight not found.'));
+	if (!mayOnFlight(ctx, flight, 'view')) refuse(event, () => error(403, 'This flight belongs to another pilot.'));
+	if (!mayOnFlight(ctx, flight, action)) refuse(event, () => error(403, 'Your role does not allow changing this flight.'));
+	granted(event);
 	return { ...ctx, flight };
 }
 
@@ -100,8 +119,88 @@ export async function requireFlightById(event: Event, flightId: string, action: 
 				.where(eq(flights.id, flightId))
 				.limit(1)
 		: [];
-	if (!row[0]) error(404, 'Flight not found.');
+	if (!row[0]) refuse(event, () => error(404, 'Flight not found.'));
 	return requireFlight(event, row[0].slug, flightId, action);
+}
+
+export const RECORDER_TOKEN_PREFIX = 'bdr_';
+
+/** The recorder a request's bearer token belongs to, if the token is current. */
+export async function recorderOf(request: Request): Promise<Recorder | null> {
+	const header = request.headers.get('authorization') ?? '';
+	const token = header.startsWith('Bearer ') ? header.slice(7).trim() : '';
+	if (!token.startsWith(RECORDER_TOKEN_PREFIX) || token.length > 200) return null;
+	const [r] = await db
+		.select()
+		.from(recorders)
+		.where(and(eq(recorders.tokenHash, hashToken(token)), isNull(recorders.revokedAt)))
+		.limit(1);
+	return r ?? null;
+}
+
+/**
+ * A recorder's bearer token (bdr_…) on /api/v1/live/*: the recorder, or null, and then the caller
+ * answers 401 in the recorder API's own words (lib/server/live/api.ts).
+ */
+export async function requireRecorder(event: Event & { request: Request }): Promise<Recorder | null> {
+	const recorder = await recorderOf(event.request);
+	event.locals.access = recorder ? 'granted' : 'refused';
+	return recorder;
+}
+
+/**
+ * What a long-lived answer (a live stream) was authorized with, so it can be asked again later:
+ * the user, the credential (session id, or the hash of the API token) and the flight.
+ */
+export interface FlightGrant {
+	userId: string;
+	flightId: string;
+	credential: { kind: 'session'; sessionId: string } | { kind: 'token'; tokenHash: string } | null;
+}
+
+export function flightGrant(event: Event, flightId: string): FlightGrant {
+	const user = requireUser(event);
+	let credential: FlightGrant['credential'] = null;
+	if (event.locals.authVia === 'session' && event.locals.session) credential = { kind: 'session', sessionId: event.locals.session.id };
+	else if (event.locals.authVia === 'token') {
+		const header = event.request?.headers.get('authorization') ?? '';
+		const bearer = header.startsWith('Bearer ') ? header.slice(7).trim() : '';
+		if (bearer) credential = { kind: 'token', tokenHash: hashToken(bearer) };
+	}
+	return { userId: user.id, flightId, credential };
+}
+
+/**
+ * Whether a grant still holds: the session is not signed out or expired (idle or absolute), the
+ * API token is not revoked, and the user may still view the flight (member of its organisation
+ * with the role, or their own flight). Any doubt, such as an unknown credential, answers false.
+ */
+export async function grantHolds(grant: FlightGrant): Promise<boolean> {
+	const c = grant.credential;
+	if (!c) return false;
+	if (c.kind === 'session') {
+		const [s] = await db
+			.select({ createdAt: sessions.createdAt })
+			.from(sessions)
+			.where(and(eq(sessions.id, c.sessionId), eq(sessions.userId, grant.userId), gt(sessions.expiresAt, new Date())))
+			.limit(1);
+		if (!s || Date.now() - s.createdAt.getTime() > SESSION_ABSOLUTE_MS) return false;
+	} else {
+		const [t] = await db
+			.select({ id: apiTokens.id })
+			.from(apiTokens)
+			.where(and(eq(apiTokens.tokenHash, c.tokenHash), eq(apiTokens.userId, grant.userId), isNull(apiTokens.revokedAt)))
+			.limit(1);
+		if (!t) return false;
+	}
+	const [row] = await db
+		.select({ flight: flights, role: memberships.role })
+		.from(flights)
+		.innerJoin(memberships, and(eq(memberships.orgId, flights.orgId), eq(memberships.userId, grant.userId)))
+		.where(eq(flights.id, grant.flightId))
+		.limit(1);
+	if (!row) return false;
+	return mayOnFlight({ user: { id: grant.userId }, role: row.role }, row.flight, 'view');
 }
 
 const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;

@@ -5,11 +5,12 @@ import { apiTokens, users } from '$lib/server/db/schema';
 import { API_TOKEN_PREFIX } from '$lib/server/hooks/authenticate';
 import { hashToken, newToken } from '$lib/server/tokens';
 import { failForm, parseForm } from '$lib/schemas/form';
+import { plainText } from '$lib/schemas/text';
 import { preferencesSchema } from '$lib/schemas/account';
 import { z } from 'zod';
 import type { Actions, PageServerLoad } from './$types';
 
-const tokenNameSchema = z.object({ name: z.string().trim().min(1, 'Name the token, e.g. "upload script".').max(60, 'Use at most 60 characters.') });
+const tokenNameSchema = z.object({ name: plainText(60, { required: 'Name the token, e.g. "upload script".' }) });
 
 export const load = (async (event) => {
 	const user = requireUser(event);

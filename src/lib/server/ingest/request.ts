@@ -3,6 +3,7 @@
 // file part, or the raw file (text/csv) with the fields in the query string.
 import { z } from 'zod';
 import { MAX_UPLOAD_BYTES, MAX_UPLOAD_LABEL, columnMappingSchema, type ColumnMapping } from '$lib/csv';
+import { plainText } from '$lib/schemas/text';
 import { declarationInputSchema, type DeclarationInput } from './declaration';
 import { FIELD_LIMIT_BYTES, MultipartError, multipartBoundary, readMultipart } from './multipart';
 
@@ -20,7 +21,7 @@ export class UploadRequestError extends Error {
 	}
 }
 
-const optionalText = (max: number) => z.string().trim().max(max, `Use at most ${max} characters.`).optional();
+const optionalText = (max: number) => plainText(max).optional();
 const optionalUuid = z
 	.string()
 	.trim()

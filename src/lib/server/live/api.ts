@@ -1,37 +1,23 @@
 // The recorder-facing HTTP API (POST /api/v1/live/samples, /open, /close): the bearer recorder
-// token checked here (the auth hook leaves /api/v1/live/* to us), the body read with its own size
-// limit, validated whole, and every refusal answered as JSON saying what and where.
+// token found here (the auth hook leaves /api/v1/live/* to us; the routes ask through
+// requireRecorder of access.ts), the body read with its own size limit, validated whole, and every
+// refusal answered as JSON saying what and where.
 import { json } from '@sveltejs/kit';
-import { and, eq, isNull } from 'drizzle-orm';
 import { toDeclaration } from '$lib/schemas/declaration';
 import { db } from '../db';
-import { recorders, type Recorder } from '../db/schema';
-import { hashToken } from '../tokens';
+import type { Recorder } from '../db/schema';
 import { readCsvBatch, readJsonBatch, closeSchema, openSchema, type BatchProblem } from './batch';
 import { MAX_BATCH_BYTES, MAX_BATCH_LABEL } from './config';
-import { aircraftOf, closeByRecorder, LiveRefusal, openByRecorder, touchRecorder } from './flights';
+import { activeAircraftOf, closeByRecorder, LiveRefusal, openByRecorder, touchRecorder } from './flights';
 import { ingestBatch } from './ingest';
 
-export const RECORDER_TOKEN_PREFIX = 'bdr_';
+export { RECORDER_TOKEN_PREFIX } from '../access';
 
 const unauthorized = () =>
 	json(
 		{ error: 'Unknown or revoked recorder token: send Authorization: Bearer bdr_… as shown when the recorder was registered.' },
 		{ status: 401, headers: { 'www-authenticate': 'Bearer realm="burndown-live"' } }
 	);
-
-/** The recorder a request's bearer token belongs to, if the token is current. */
-export async function recorderOf(request: Request): Promise<Recorder | null> {
-	const header = request.headers.get('authorization') ?? '';
-	const token = header.startsWith('Bearer ') ? header.slice(7).trim() : '';
-	if (!token.startsWith(RECORDER_TOKEN_PREFIX) || token.length > 200) return null;
-	const [r] = await db
-		.select()
-		.from(recorders)
-		.where(and(eq(recorders.tokenHash, hashToken(token)), isNull(recorders.revokedAt)))
-		.limit(1);
-	return r ?? null;
-}
 
 class BodyTooLarge extends Error {}
 
@@ -59,7 +45,51 @@ async function readText(request: Request, limit: number): Promise<string> {
 		all.set(p, at);
 		at += p.length;
 	}
-	return new TextDecoder('utf-8', { fatal: true }).decode(all);
+	try {
+		return new TextDecoder('utf-8', { fatal: true }).decode(all);
+	} catch {
+		const at = firstInvalidUtf8(all);
+		throw new LiveRefusal(400, {
+			error: `The body is not valid UTF-8: byte ${at} (counting from 0) is 0x${(all[at] ?? 0).toString(16).padStart(2, '0')}, which does not belong there. Send the batch encoded as UTF-8.`,
+			field: 'body',
+			offset: at
+		});
+	}
+}
+
+/**
+ * Offset of the first byte that breaks UTF-8 (RFC 3629: no overlong forms, no surrogates, nothing
+ * above U+10FFFF), or of the lead byte of a sequence cut short at the end.
+ */
+export function firstInvalidUtf8(b: Uint8Array): number {
+	let i = 0;
+	while (i < b.length) {
+		const c = b[i];
+		if (c < 0x80) {
+			i++;
+			continue;
+		}
+		let n: number;
+		let lo = 0x80;
+		let hi = 0xbf;
+		if (c >= 0xc2 && c <= 0xdf) n = 1;
+		else if (c >= 0xe0 && c <= 0xef) {
+			n = 2;
+			if (c === 0xe0) lo = 0xa0;
+			if (c === 0xed) hi = 0x9f;
+		} else if (c >= 0xf0 && c <= 0xf4) {
+			n = 3;
+			if (c === 0xf0) lo = 0x90;
+			if (c === 0xf4) hi = 0x8f;
+		} else return i;
+		for (let k = 1; k <= n; k++) {
+			if (i + k >= b.length) return i;
+			const d = b[i + k];
+			if (d < (k === 1 ? lo : 0x80) || d > (k === 1 ? hi : 0xbf)) return i + k;
+		}
+		i += n + 1;
+	}
+	return b.length;
 }
 
 const tooLarge = () => json({ error: `The batch is larger than ${MAX_BATCH_LABEL}: send fewer samples per batch.`, field: 'body' }, { status: 413 });
@@ -88,12 +118,11 @@ const badBatch = (problems: BatchProblem[]) =>
  * (a header line of our recorder format with its seq column, then sample lines; flightId and
  * firstSeq in the query string). Answers the Ack of ingest.ts.
  */
-export async function handleSamples(request: Request, url: URL): Promise<Response> {
-	const recorder = await recorderOf(request);
+export async function handleSamples(request: Request, url: URL, recorder: Recorder | null): Promise<Response> {
 	if (!recorder) return unauthorized();
 	try {
 		await touchRecorder(recorder.id);
-		const a = await aircraftOf(db, recorder);
+		const a = await activeAircraftOf(db, recorder);
 		const type = (request.headers.get('content-type') ?? '').split(';')[0].trim().toLowerCase();
 		let result;
 		if (type === 'text/csv' || type === 'text/plain') {
@@ -115,8 +144,7 @@ export async function handleSamples(request: Request, url: URL): Promise<Respons
 }
 
 /** POST /api/v1/live/open: { declaration?, firstSeq?, title?, pilot? } → 201 { flightId, … }. */
-export async function handleOpen(request: Request): Promise<Response> {
-	const recorder = await recorderOf(request);
+export async function handleOpen(request: Request, recorder: Recorder | null): Promise<Response> {
 	if (!recorder) return unauthorized();
 	try {
 		await touchRecorder(recorder.id);
@@ -126,7 +154,7 @@ export async function handleOpen(request: Request): Promise<Response> {
 				{ error: 'The open request was not understood.', problems: parsed.error.issues.map((i) => ({ field: i.path.join('.'), message: i.message })) },
 				{ status: 400 }
 			);
-		const a = await aircraftOf(db, recorder);
+		const a = await activeAircraftOf(db, recorder);
 		const o = parsed.data;
 		const { flight, closedFlightId } = await openByRecorder(recorder, {
 			declaration: o.declaration ? toDeclaration(o.declaration, a) : null,
@@ -144,8 +172,7 @@ export async function handleOpen(request: Request): Promise<Response> {
 }
 
 /** POST /api/v1/live/close: { flightId? } → { flightId, closed }. */
-export async function handleClose(request: Request): Promise<Response> {
-	const recorder = await recorderOf(request);
+export async function handleClose(request: Request, recorder: Recorder | null): Promise<Response> {
 	if (!recorder) return unauthorized();
 	try {
 		await touchRecorder(recorder.id);

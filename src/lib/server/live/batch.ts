@@ -14,6 +14,7 @@ import {
 	recorderRowSchema,
 	type RecorderRow
 } from '$lib/csv';
+import { plainText, textProblem } from '$lib/schemas/text';
 import { MAX_AMOUNT, amountField, declarationSchema, fuelUnitSchema } from '$lib/schemas/declaration';
 import {
 	distanceUnits,
@@ -61,7 +62,15 @@ const jsonSampleSchema = z.object({
 	gs: n,
 	dtg: n,
 	alt: n,
-	wpt: z.string().nullable().optional(),
+	// A waypoint name is shown and stored: the same rule as every other name.
+	wpt: z
+		.string()
+		.nullable()
+		.optional()
+		.superRefine((v, ctx) => {
+			const problem = v ? textProblem(v) : null;
+			if (problem) ctx.addIssue({ code: 'custom', message: problem });
+		}),
 	lat: n,
 	lon: n
 });
@@ -94,7 +103,7 @@ const declarationJsonSchema = declarationSchema(
 export const openSchema = z.object({
 	declaration: declarationJsonSchema.optional(),
 	firstSeq: z.number().int().min(0).max(MAX_SEQ).optional(),
-	title: z.string().trim().max(200).optional(),
+	title: plainText(200).optional(),
 	/** E-mail of the member flying, so the flight is theirs. */
 	pilot: z.email('pilot must be the e-mail address of a member.').optional()
 });
@@ -214,6 +223,14 @@ export function readJsonBatch(body: unknown, densityKgPerL: number): BatchResult
  */
 export function readCsvBatch(text: string, options: { flightId: string | null; firstSeq: number; densityKgPerL: number }): BatchResult {
 	const clean = text.charCodeAt(0) === 0xfeff ? text.slice(1) : text;
+	// PostgreSQL text holds no NUL byte; a cell with one would fail as a server error.
+	const nul = clean.indexOf('\u0000');
+	if (nul !== -1) {
+		const before = clean.slice(0, nul);
+		const line = before.split('\n').length;
+		const column = nul - before.lastIndexOf('\n');
+		return { ok: false, problems: [{ index: null, line, field: 'body', message: `A NUL byte (U+0000) at line ${line}, character ${column}: recorder lines are text.` }] };
+	}
 	const parsed = Papa.parse<string[]>(clean.replace(/\r?\n$/, ''), { delimiter: ',', newline: clean.includes('\r\n') ? '\r\n' : '\n', quoteChar: '"' });
 	const rows = parsed.data;
 	const headerIndex = rows.findIndex((r) => r.some((c) => c.trim() !== ''));

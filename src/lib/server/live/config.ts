@@ -27,6 +27,15 @@ export function sweepIntervalMs(): number {
 	return num('LIVE_SWEEP_SECONDS', 60, 1, 3600) * 1000;
 }
 
+/**
+ * How often an open viewer's stream asks again whether its session or token and its membership
+ * still hold, closing it when not (sign-out, removal, a role change). Also asked at once when
+ * the database reports a change for that user.
+ */
+export function streamRecheckMs(): number {
+	return num('LIVE_STREAM_RECHECK_SECONDS', 30, 0.05, 3600) * 1000;
+}
+
 /** Pings keep proxies from closing a quiet stream and let both ends notice a dead one. */
 export const PING_MS = 15_000;
 /** Samples read per query when a viewer catches up, and per SSE event. */

@@ -46,6 +46,20 @@ export async function aircraftOf(q: Queryable, recorder: Recorder): Promise<Airc
 	return a;
 }
 
+/**
+ * The recorder's aircraft for a write (open, samples): an archived aircraft takes no new flights
+ * or samples until it is restored; closing a flight stays possible.
+ */
+export async function activeAircraftOf(q: Queryable, recorder: Recorder): Promise<Aircraft> {
+	const a = await aircraftOf(q, recorder);
+	if (a.archivedAt)
+		throw new LiveRefusal(409, {
+			error: `The aircraft ${a.registration} is archived: it takes no live flights or samples. An admin can restore it on its page, or register the recorder for another aircraft.`,
+			field: 'aircraft'
+		});
+	return a;
+}
+
 export async function openFlightOf(q: Queryable, recorderId: string): Promise<Flight | null> {
 	const [f] = await q
 		.select()
@@ -154,7 +168,7 @@ export interface OpenOptions {
 export async function openByRecorder(recorder: Recorder, o: OpenOptions): Promise<{ flight: Flight; closedFlightId: string | null }> {
 	const result = await db.transaction(async (tx) => {
 		await lockRecorder(tx, recorder.id);
-		const a = await aircraftOf(tx, recorder);
+		const a = await activeAircraftOf(tx, recorder);
 		const pilotId = o.pilot ? await pilotIdOf(tx, recorder.orgId, o.pilot) : null;
 		const existing = await openFlightOf(tx, recorder.id);
 		const firstSeq = o.firstSeq ?? 0;

@@ -5,7 +5,7 @@
 import pg from 'pg';
 import { NEAR_HEAD, PAGE_SAMPLES } from './config';
 import { loadMeta, type FlightMeta } from './meta';
-import { EVENT_META, EVENT_SAMPLES, NOTIFY_CHANNEL, type LiveNotice, type MetaEvent, type SamplesEvent } from './protocol';
+import { EVENT_META, EVENT_SAMPLES, NOTIFY_CHANNEL, type AccessNotice, type LiveNotice, type MetaEvent, type SamplesEvent } from './protocol';
 import { readRun, type SampleRun } from './samples';
 
 /** One connected viewer: its cursor (last sequence delivered) and how to send it an event. */
@@ -42,6 +42,8 @@ export interface HubOptions {
 export interface HubStats {
 	flights: number;
 	viewers: number;
+	/** Open streams waiting to hear of an access change of their user. */
+	accessWatchers: number;
 	listening: boolean;
 	notices: number;
 	reconnects: number;
@@ -55,6 +57,8 @@ const startCursor = (fs: { meta: FlightMeta | null }) => (fs.meta ? fs.meta.flig
 
 export class LiveHub {
 	private flights = new Map<string, FlightState>();
+	/** Streams to ask again when the database reports an access change for their user. */
+	private accessWatchers = new Map<string, Set<() => void>>();
 	private client: pg.Client | null = null;
 	private connecting: Promise<void> | null = null;
 	private retryMs = 250;
@@ -69,7 +73,9 @@ export class LiveHub {
 	stats(): HubStats {
 		let viewers = 0;
 		for (const f of this.flights.values()) viewers += f.viewers.size;
-		return { flights: this.flights.size, viewers, listening: this.client !== null, ...this.counters };
+		let accessWatchers = 0;
+		for (const s of this.accessWatchers.values()) accessWatchers += s.size;
+		return { flights: this.flights.size, viewers, accessWatchers, listening: this.client !== null, ...this.counters };
 	}
 
 	/**
@@ -116,6 +122,17 @@ export class LiveHub {
 		};
 	}
 
+	/** Calls `onChange` whenever a session, token or membership of `userId` changes; returns the off switch. */
+	watchAccess(userId: string, onChange: () => void): () => void {
+		let set = this.accessWatchers.get(userId);
+		if (!set) this.accessWatchers.set(userId, (set = new Set()));
+		set.add(onChange);
+		return () => {
+			set.delete(onChange);
+			if (set.size === 0 && this.accessWatchers.get(userId) === set) this.accessWatchers.delete(userId);
+		};
+	}
+
 	private async refreshMeta(fs: FlightState): Promise<void> {
 		this.counters.queries++;
 		const meta = await loadMeta(fs.id);
@@ -128,13 +145,17 @@ export class LiveHub {
 	}
 
 	private onNotice(payload: string | undefined): void {
-		let n: LiveNotice;
+		let n: LiveNotice | AccessNotice;
 		try {
 			n = JSON.parse(payload ?? '');
 		} catch {
 			return;
 		}
 		this.counters.notices++;
+		if ('u' in n) {
+			for (const onChange of this.accessWatchers.get(n.u) ?? []) onChange();
+			return;
+		}
 		const fs = this.flights.get(n.f);
 		if (!fs) return;
 		if (n.s > fs.head) fs.head = n.s;
@@ -324,6 +345,7 @@ export class LiveHub {
 		const c = this.client;
 		this.client = null;
 		this.flights.clear();
+		this.accessWatchers.clear();
 		if (c) await c.end().catch(() => {});
 	}
 }

@@ -9,8 +9,8 @@ import { flights, type Flight, type Recorder } from '../db/schema';
 import { mailAlarms, syncAlarms, type NewAlarm } from './alarms';
 import type { Batch, BatchProblem } from './batch';
 import { computationFor, dropComputation } from './computation';
-import { aircraftOf, createFlight, LiveRefusal, lockFlight, lockRecorder, notify, openFlightOf } from './flights';
-import { contiguousFrom, insertSamples, neighbours } from './samples';
+import { activeAircraftOf, aircraftOf, createFlight, LiveRefusal, lockFlight, lockRecorder, notify, openFlightOf } from './flights';
+import { contiguousFrom, differingFields, insertSamples, neighbours } from './samples';
 
 /** The answer to a batch: what is safely stored, so the recorder knows what to send again. */
 export interface Ack {
@@ -39,7 +39,7 @@ async function targetFlight(tx: Tx, recorder: Recorder, batch: Batch) {
 	}
 	const open = await openFlightOf(tx, recorder.id);
 	if (open) return { flight: open, opened: false };
-	const a = await aircraftOf(tx, recorder);
+	const a = await activeAircraftOf(tx, recorder);
 	const flight = await createFlight(tx, recorder, a, { declaration: null, firstSeq: batch.firstSeq, startedAt: new Date(batch.samples[0].tMs) });
 	return { flight, opened: true };
 }
@@ -60,10 +60,20 @@ export async function ingestBatch(recorder: Recorder, batch: Batch): Promise<Ack
 
 			const nb = await neighbours(tx, flight.id, lo, hi);
 			const problems: BatchProblem[] = [];
+			// Same time, other values: not a retry (a retry is byte-for-byte the same sample).
+			let changed: { index: number; seq: number; fields: string[] } | null = null;
 			samples.forEach((s, i) => {
 				const stored = nb.same.get(s.seq);
-				if (stored !== undefined && stored !== s.tMs && problems.length < 50)
-					problems.push({ index: i, seq: s.seq, field: 't', value: formatTimeMs(s.tMs), message: `seq ${s.seq} is stored already with the time ${formatTimeMs(stored)}.` });
+				if (stored === undefined) return;
+				if (stored.tMs !== s.tMs) {
+					if (problems.length < 50)
+						problems.push({ index: i, seq: s.seq, field: 't', value: formatTimeMs(s.tMs), message: `seq ${s.seq} is stored already with the time ${formatTimeMs(stored.tMs)}.` });
+					return;
+				}
+				if (changed === null) {
+					const fields = differingFields(stored, s);
+					if (fields.length > 0) changed = { index: i, seq: s.seq, fields };
+				}
 			});
 			if (problems.length > 0)
 				throw new LiveRefusal(409, {
@@ -71,6 +81,15 @@ export async function ingestBatch(recorder: Recorder, batch: Batch): Promise<Ack
 					flightId: flight.id,
 					problems
 				});
+			if (changed !== null) {
+				const c: { index: number; seq: number; fields: string[] } = changed;
+				throw new LiveRefusal(409, {
+					error: `seq ${c.seq} is stored already with the same time but other values (${c.fields.join(', ')}): a resent batch must repeat its samples exactly. Nothing of this batch was stored.`,
+					flightId: flight.id,
+					seq: c.seq,
+					problems: [{ index: c.index, seq: c.seq, field: c.fields[0], message: `seq ${c.seq} differs from the stored sample in ${c.fields.join(', ')}.` }]
+				});
+			}
 			if (nb.below && samples[0].tMs <= nb.below.tMs)
 				throw new LiveRefusal(400, {
 					error: 'The batch was not stored: its first sample is not later than the stored sample before it.',

@@ -19,6 +19,15 @@ export interface LiveNotice {
 	m?: 1;
 }
 
+/**
+ * NOTIFY payload sent by the database itself (triggers in the migrations) when a user's session
+ * ends, an API token is revoked or a membership changes: open streams of that user ask again
+ * whether they may stay open.
+ */
+export interface AccessNotice {
+	u: string;
+}
+
 /** First event of every stream. */
 export interface HelloEvent {
 	flightId: string;

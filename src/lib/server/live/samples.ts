@@ -47,12 +47,21 @@ export async function contiguousFrom(q: Queryable, flightId: string, known: numb
 	return Number(result.rows[0]?.s ?? known);
 }
 
+/** A stored sample as a retry is compared with it: every column a batch carries. */
+export type StoredSample = Pick<LiveSample, 'tMs' | 'flow' | 'gs' | 'dtg' | 'alt' | 'wpt' | 'lat' | 'lon'>;
+
+/** The columns of two samples that differ (time first), empty when one is an exact resend of the other. */
+export function differingFields(stored: StoredSample, sent: LiveSample): (keyof StoredSample)[] {
+	const keys: (keyof StoredSample)[] = ['tMs', 'flow', 'gs', 'dtg', 'alt', 'wpt', 'lat', 'lon'];
+	return keys.filter((k) => stored[k] !== sent[k]);
+}
+
 export interface Neighbours {
 	/** The stored sample just below the batch's first sequence, if any. */
 	below: { seq: number; tMs: number } | null;
 	above: { seq: number; tMs: number } | null;
-	/** Stored samples with the batch's own sequence numbers (retries), seq → epoch ms. */
-	same: Map<number, number>;
+	/** Stored samples with the batch's own sequence numbers (retries), by seq. */
+	same: Map<number, StoredSample>;
 	/** The highest sequence stored at all (beyond holes too). */
 	highest: number;
 }
@@ -60,21 +69,23 @@ export interface Neighbours {
 /** What is stored around and inside the sequence range lo..hi. */
 export async function neighbours(q: Queryable, flightId: string, lo: number, hi: number): Promise<Neighbours> {
 	const ms = sql`(extract(epoch from t) * 1000)::float8`;
-	const result = await q.execute<{ k: string; seq: number; ms: number }>(sql`
-		(select 'b' as k, seq, ${ms} as ms from samples where flight_id = ${flightId} and seq < ${lo} order by seq desc limit 1)
+	type Row = { k: string; seq: number; ms: number; flow: number | null; gs: number | null; dtg: number | null; alt: number | null; wpt: string | null; lat: number | null; lon: number | null };
+	const none = sql`null::float8 as flow, null::float8 as gs, null::float8 as dtg, null::float8 as alt, null::text as wpt, null::float8 as lat, null::float8 as lon`;
+	const result = await q.execute<Row>(sql`
+		(select 'b' as k, seq, ${ms} as ms, ${none} from samples where flight_id = ${flightId} and seq < ${lo} order by seq desc limit 1)
 		union all
-		(select 'a', seq, ${ms} from samples where flight_id = ${flightId} and seq > ${hi} order by seq limit 1)
+		(select 'a', seq, ${ms}, ${none} from samples where flight_id = ${flightId} and seq > ${hi} order by seq limit 1)
 		union all
-		(select 's', seq, ${ms} from samples where flight_id = ${flightId} and seq between ${lo} and ${hi})
+		(select 's', seq, ${ms}, flow, gs, dtg, alt, wpt, lat, lon from samples where flight_id = ${flightId} and seq between ${lo} and ${hi})
 		union all
-		(select 'h', seq, 0 from samples where flight_id = ${flightId} order by seq desc limit 1)`);
+		(select 'h', seq, 0, ${none} from samples where flight_id = ${flightId} order by seq desc limit 1)`);
 	const out: Neighbours = { below: null, above: null, same: new Map(), highest: -1 };
 	for (const r of result.rows) {
 		const seq = Number(r.seq);
 		const tMs = Math.round(Number(r.ms));
 		if (r.k === 'b') out.below = { seq, tMs };
 		else if (r.k === 'a') out.above = { seq, tMs };
-		else if (r.k === 's') out.same.set(seq, tMs);
+		else if (r.k === 's') out.same.set(seq, { tMs, flow: r.flow, gs: r.gs, dtg: r.dtg, alt: r.alt, wpt: r.wpt, lat: r.lat, lon: r.lon });
 		else out.highest = seq;
 	}
 	return out;

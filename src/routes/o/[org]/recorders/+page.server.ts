@@ -6,11 +6,12 @@ import { aircraft } from '$lib/server/db/schema';
 import { listRecorders, registerRecorder, revokeRecorder, rotateRecorder } from '$lib/server/live/recorders';
 import { idleCloseMinutes } from '$lib/server/live/config';
 import { failForm, parseForm } from '$lib/schemas/form';
+import { plainText } from '$lib/schemas/text';
 import type { Actions, PageServerLoad } from './$types';
 
 const registerSchema = z.object({
 	aircraftId: z.uuid('Choose the aircraft the recorder is fitted to.'),
-	name: z.string().trim().min(1, 'Give the recorder a name, e.g. "Panel recorder".').max(80, 'Use at most 80 characters.')
+	name: plainText(80, { required: 'Give the recorder a name, e.g. "Panel recorder".' })
 });
 const idSchema = z.object({ id: z.uuid('That recorder is not in this organisation.') });
 

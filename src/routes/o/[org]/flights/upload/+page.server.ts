@@ -5,7 +5,8 @@ import { z } from 'zod';
 import { requireMember } from '$lib/server/access';
 import { db } from '$lib/server/db';
 import { aircraft, importProfiles } from '$lib/server/db/schema';
-import { failForm, formValues } from '$lib/schemas/form';
+import { failForm, parseForm } from '$lib/schemas/form';
+import { plainText } from '$lib/schemas/text';
 import { MAX_UPLOAD_BYTES, MAX_UPLOAD_LABEL, columnMappingSchema, createRowReader, headerSignature, profileMapping, type ColumnMapping } from '$lib/csv';
 import type { Actions, PageServerLoad } from './$types';
 
@@ -41,11 +42,18 @@ export const load = (async (event) => {
 	};
 }) satisfies PageServerLoad;
 
+/** A NUL byte inside parsed JSON (written as \\u0000 in the field): jsonb cannot store it. */
+const holdsNul = (v: unknown) => JSON.stringify(v).includes('\\u0000');
+
 const profileFormSchema = z.object({
-	name: z.string().trim().min(1, 'Give the profile a name.').max(60, 'Use at most 60 characters.'),
+	name: plainText(60, { required: 'Give the profile a name.' }),
 	headers: z.string().transform((raw, ctx) => {
 		try {
 			const v = z.array(z.string().max(200)).min(1).max(200).parse(JSON.parse(raw));
+			if (holdsNul(v)) {
+				ctx.addIssue({ code: 'custom', message: 'A column name of the file holds a NUL byte (U+0000): the profile cannot be saved for it.' });
+				return z.NEVER;
+			}
 			return v;
 		} catch {
 			ctx.addIssue({ code: 'custom', message: 'Choose a file first: the profile is saved for its columns.' });
@@ -60,6 +68,10 @@ const profileFormSchema = z.object({
 			ctx.addIssue({ code: 'custom', message: 'The mapping could not be read.' });
 			return z.NEVER;
 		}
+		if (holdsNul(json)) {
+			ctx.addIssue({ code: 'custom', message: 'The mapping holds a NUL byte (U+0000).' });
+			return z.NEVER;
+		}
 		const m = columnMappingSchema.safeParse(json);
 		if (m.success) return m.data;
 		ctx.addIssue({ code: 'custom', message: m.error.issues[0].message });
@@ -71,13 +83,10 @@ const profileFormSchema = z.object({
 export const actions = {
 	saveProfile: async (event) => {
 		const { org, user } = await requireMember(event, event.params.org, 'upload');
-		const form = await event.request.formData();
-		const values = formValues(form);
-		const parsed = profileFormSchema.safeParse(values);
-		if (!parsed.success) {
-			const issue = parsed.error.issues[0];
-			return failForm(400, { [String(issue.path[0] ?? 'name')]: issue.message }, values, 'saveProfile');
-		}
+		// parseForm: the same checks as every form, NUL bytes included (jsonb cannot hold one).
+		const parsed = parseForm(profileFormSchema, await event.request.formData());
+		const values = parsed.values;
+		if (!parsed.ok) return failForm(400, parsed.errors, values, 'saveProfile');
 		const { name, headers, mapping } = parsed.data;
 		// A profile naming columns its own header lacks could never apply.
 		const check = createRowReader(mapping, headers, 1, { densityKgPerL: 0.72 });
