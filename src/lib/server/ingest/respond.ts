@@ -10,7 +10,8 @@ import { aircraft, organisations } from '../db/schema';
 import { ingestRecorderFile, type IngestProgress, type IngestResult } from './ingest';
 
 export type { UploadAnswer, UploadLine };
-import { UploadRequestError, checkFields, openUploadRequest } from './request';
+import { UploadRequestError, checkFields, openUploadRequest, type UploadRequest } from './request';
+import { BusyError, takeUploadSlot, uploadLimits } from '../limits';
 
 export const NDJSON = 'application/x-ndjson';
 
@@ -50,10 +51,12 @@ async function orgSlugOfAircraft(aircraftId: string): Promise<string> {
  * organisation with the upload permission; to anyone else the aircraft is "not found".
  */
 export async function handleUpload(event: Pick<RequestEvent, 'request' | 'url' | 'locals' | 'route'>): Promise<Response> {
+	let upload: UploadRequest | undefined;
 	try {
 		// Who is asking comes first: nobody reads a stranger's upload.
 		requireUser(event);
-		const upload = await openUploadRequest(event.request, event.url);
+		const limits = uploadLimits();
+		upload = await openUploadRequest(event.request, event.url, limits);
 		const fields = checkFields(upload.fields);
 		const slug = await orgSlugOfAircraft(fields.aircraftId);
 		let ctx;
@@ -65,13 +68,20 @@ export async function handleUpload(event: Pick<RequestEvent, 'request' | 'url' |
 			throw e;
 		}
 		if (ctx.aircraft.archivedAt) throw new UploadRequestError(409, `${ctx.aircraft.registration} is archived; restore it before uploading flights.`, 'aircraftId');
+		// Before the file is read: a crowd of uploads is refused, not queued on the server's resources.
+		const releaseSlot = takeUploadSlot(ctx.user.id, ctx.org.id, limits);
+		const file = upload;
+		const finish = () => {
+			releaseSlot();
+			file.discard();
+		};
 		const run = (onProgress?: (p: IngestProgress) => void) =>
 			ingestRecorderFile({
 				orgId: ctx.org.id,
 				aircraft: ctx.aircraft,
 				userId: ctx.user.id,
-				fileName: upload.fileName,
-				source: upload.file,
+				fileName: file.fileName,
+				source: file.file,
 				declaration: fields.declaration,
 				mapping: fields.mapping,
 				profileId: fields.profileId,
@@ -79,7 +89,7 @@ export async function handleUpload(event: Pick<RequestEvent, 'request' | 'url' |
 				title: fields.title,
 				notes: fields.notes,
 				onProgress
-			});
+			}).finally(finish);
 
 		if ((event.request.headers.get('accept') ?? '').includes(NDJSON)) {
 			const encoder = new TextEncoder();
@@ -113,12 +123,24 @@ export async function handleUpload(event: Pick<RequestEvent, 'request' | 'url' |
 		const { httpStatus, body } = answerOf(await run(), ctx.org.slug);
 		return json(body, { status: httpStatus });
 	} catch (e) {
+		// Refused before or while the file was read: stop reading the rest of the body, and close
+		// the connection after the answer, so the unread rest is not taken for the next request.
+		upload?.discard();
+		const close = { connection: 'close' };
 		if (e instanceof UploadRequestError)
 			return json(
-				{ status: e.status === 413 ? 'tooLarge' : 'invalid', error: e.message, field: e.field, errors: e.errors, ...(e.status === 413 ? { limitBytes: MAX_UPLOAD_BYTES } : {}) } satisfies UploadAnswer,
-				{ status: e.status }
+				{
+					status: e.status === 413 ? 'tooLarge' : e.status === 408 ? 'timeout' : 'invalid',
+					error: e.message,
+					field: e.field,
+					errors: e.errors,
+					...(e.status === 413 ? { limitBytes: MAX_UPLOAD_BYTES } : {})
+				} satisfies UploadAnswer,
+				{ status: e.status, headers: close }
 			);
-		if (isHttpError(e)) return json({ status: 'error', error: e.body.message, field: null } satisfies UploadAnswer, { status: e.status });
+		if (e instanceof BusyError)
+			return json({ status: 'busy', error: e.message, field: null, retryAfterS: e.retryAfterS } satisfies UploadAnswer, { status: 429, headers: { ...close, 'retry-after': String(e.retryAfterS) } });
+		if (isHttpError(e)) return json({ status: 'error', error: e.body.message, field: null } satisfies UploadAnswer, { status: e.status, headers: close });
 		throw e;
 	}
 }
