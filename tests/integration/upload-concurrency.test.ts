@@ -53,7 +53,7 @@ function slowUpload(user: AuthUser, aircraftId: string, file: string) {
 		}
 	});
 	const req = new Request(template.url, { method: 'POST', body, headers: { 'content-type': template.headers.get('content-type')! }, duplex: 'half' } as RequestInit);
-	const answer = POST(apiEvent(req, user) as never).then(async (res) => ({ status: res.status, body: await res.json() }));
+	const answer = Promise.resolve(POST(apiEvent(req, user) as never)).then(async (res: Response) => ({ status: res.status, body: await res.json() }));
 	return { state, release, answer };
 }
 
@@ -101,8 +101,8 @@ describe('slow uploads do not starve the app', () => {
 		// While all twelve are open: the API and plain queries answer (they would wait for ever if the uploads held the pool).
 		const base = `http://127.0.0.1:4173/api/v1/flights/${flightId}`;
 		const answers = await Promise.all([
-			...Array.from({ length: 6 }, () => samplesGET(getEvent(other.pilot, `${base}/samples`, flightId)).then((r) => r.status)),
-			...Array.from({ length: 6 }, () => exportGET(getEvent(other.viewer, `${base}/export?what=summary`, flightId)).then((r) => r.status)),
+			...Array.from({ length: 6 }, async () => (await samplesGET(getEvent(other.pilot, `${base}/samples`, flightId))).status),
+			...Array.from({ length: 6 }, async () => (await exportGET(getEvent(other.viewer, `${base}/export?what=summary`, flightId))).status),
 			...Array.from({ length: 12 }, () => db.select({ n: sql<number>`count(*)::int` }).from(flights).then(() => 200))
 		]);
 		expect(answers).toEqual(Array(24).fill(200));
