@@ -113,3 +113,38 @@ describe('arbitrary bodies (fast-check)', () => {
 		expect(ok.status).toBe(201);
 	}, 120_000);
 });
+
+describe('arbitrary file contents (fast-check)', () => {
+	it('a time far outside the representable range answers 400 with its line (it was a 500)', async () => {
+		const mapping = JSON.stringify({ delimiter: ',', decimal: '.', time: { column: 't', format: 'epochS' }, flow: { column: 'ff', unit: 'usgal/h' } });
+		const before = await tableCounts();
+		const res = await upload(club.pilot, { aircraftId: club.tourer.id, file: 't,ff\n1e300,8.5\n0,8.5\n', fields: { mapping } });
+		expect(res.status, JSON.stringify(res.body)).toBe(400);
+		expect(res.body.status).toBe('rejected');
+		expect(res.body.problems[0].line).toBeGreaterThanOrEqual(2);
+		expect(await tableCounts()).toEqual(before);
+	});
+
+	it('answer 201 or a clear 4xx, never a 5xx; only a 201 stores anything', async () => {
+		const cell = fc.oneof(
+			fc.constantFrom('', '-1', '1e300', 'NaN', '0x10', '"', '2026-06-03T09:00:00Z', '2026-06-03T09:00:01Z', '275760-09-13T00:00:00Z', '8.5', '100', '40'),
+			fc.string({ maxLength: 8 })
+		);
+		const file = fc
+			.array(fc.array(cell, { minLength: 1, maxLength: 5 }), { maxLength: 12 })
+			.map((rows) => ['time_utc,fuel_flow_usgph,ground_speed_kt,distance_to_go_nm', ...rows.map((r) => r.join(','))].join('\n'));
+		// Mapped files too: epoch seconds far outside the time range once answered 500.
+		const mapping = JSON.stringify({ delimiter: ',', decimal: '.', time: { column: 'time_utc', format: 'epochS' }, flow: { column: 'fuel_flow_usgph', unit: 'usgal/h' } });
+		let n = 0;
+		await fc.assert(
+			fc.asyncProperty(file, fc.boolean(), async (text, withMapping) => {
+				const before = await tableCounts();
+				// A fresh aircraft-day per run, so a stored file never overlaps the next.
+				const res = await upload(club.pilot, { aircraftId: club.tourer.id, file: text.replaceAll('2026-06-03', `2027-01-${String(1 + (n++ % 28)).padStart(2, '0')}`), fields: withMapping ? { mapping } : {} });
+				expect(res.status, JSON.stringify(res.body).slice(0, 300)).toBeLessThan(500);
+				if (res.status !== 201) expect(await tableCounts()).toEqual(before);
+			}),
+			{ numRuns: 60 }
+		);
+	}, 120_000);
+});

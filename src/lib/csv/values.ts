@@ -134,7 +134,8 @@ export function explainIsoTime(cell: string): string {
 
 /** Formats epoch milliseconds for messages, e.g. 2026-05-02 09:14:05Z (milliseconds when set). */
 export function formatTimeMs(ms: number): string {
-	if (!Number.isFinite(ms)) return String(ms);
+	// Outside ±8.64e15 ms (ECMAScript's time range) toISOString throws: such a value is shown as it is.
+	if (!Number.isFinite(ms) || Math.abs(ms) > 8.64e15) return String(ms);
 	const iso = new Date(ms).toISOString();
 	return `${iso.slice(0, 10)} ${ms % 1000 === 0 ? iso.slice(11, 19) : iso.slice(11, 23)}Z`;
 }
