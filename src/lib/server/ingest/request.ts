@@ -148,7 +148,9 @@ export async function* bytesOf(stream: ReadableStream<Uint8Array> | null, o: { p
 					: await read;
 			} catch (error) {
 				if (signal?.aborted) return;
-				throw error;
+				if (error instanceof UploadRequestError) throw error;
+				// The connection failed or the client hung up: the client's doing, not a server error.
+				throw new UploadRequestError(400, `The upload was interrupted before the file ended (${(error as Error)?.message ?? 'connection closed'}); nothing was stored.`, 'file');
 			} finally {
 				clearTimeout(timer);
 			}
