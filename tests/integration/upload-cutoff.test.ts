@@ -76,6 +76,20 @@ describe('a multipart upload cut off anywhere', () => {
 		const inFile = await send(body.subarray(0, Math.floor((fileStart + closeAt) / 2)), contentType);
 		expect(inFile).toMatchObject({ status: 400, body: { field: 'file' } });
 		expect(inFile.body.error).toMatch(/cut off/);
+		// The upload page asks for NDJSON progress lines: its result line says the same, not a 500.
+		const stream = new ReadableStream<Uint8Array>({
+			start(controller) {
+				controller.enqueue(body.slice(0, Math.floor((fileStart + closeAt) / 2)));
+				controller.close();
+			}
+		});
+		const ndjson = await POST(
+			apiEvent(new Request('http://127.0.0.1:4173/api/v1/flights', { method: 'POST', body: stream, headers: { 'content-type': contentType, accept: 'application/x-ndjson' }, duplex: 'half' } as RequestInit), club.pilot) as never
+		);
+		const lines = (await ndjson.text()).trim().split('\n').map((l) => JSON.parse(l));
+		expect(lines.at(-1)).toMatchObject({ type: 'result', httpStatus: 400, status: 'invalid', field: 'file' });
+		expect(lines.at(-1).error).toMatch(/cut off/);
+		expect(await tableCounts()).toEqual(before);
 		// The whole body is stored: the server (and its pool) still work.
 		const ok = await send(body, contentType);
 		expect(ok.status, JSON.stringify(ok.body)).toBe(201);

@@ -34,6 +34,24 @@ function answerOf(result: IngestResult, slug: string): { httpStatus: number; bod
 	}
 }
 
+/** The answer to an upload refused for what the request is or how it arrived; null for anything else. */
+function refusalOf(e: unknown): { httpStatus: number; body: UploadAnswer & { status: 'invalid' | 'tooLarge' | 'timeout' | 'busy' | 'error' } } | null {
+	if (e instanceof UploadRequestError)
+		return {
+			httpStatus: e.status,
+			body: {
+				status: e.status === 413 ? 'tooLarge' : e.status === 408 ? 'timeout' : 'invalid',
+				error: e.message,
+				field: e.field,
+				errors: e.errors,
+				...(e.status === 413 ? { limitBytes: MAX_UPLOAD_BYTES } : {})
+			}
+		};
+	if (e instanceof BusyError) return { httpStatus: 429, body: { status: 'busy', error: e.message, field: null, retryAfterS: e.retryAfterS } };
+	if (isHttpError(e)) return { httpStatus: e.status, body: { status: 'error', error: e.body.message, field: null } };
+	return null;
+}
+
 /** The organisation of an aircraft, so the usual membership check can run; unknown id → 404. */
 async function orgSlugOfAircraft(aircraftId: string): Promise<string> {
 	const [row] = await db
@@ -105,6 +123,9 @@ export async function handleUpload(event: Pick<RequestEvent, 'request' | 'url' |
 							send({ type: 'result', httpStatus, ...body });
 						})
 						.catch((e) => {
+							// A body cut off, stalled or garbled while the file was read: the same answer as without NDJSON.
+							const refused = refusalOf(e);
+							if (refused) return send({ type: 'result', httpStatus: refused.httpStatus, ...refused.body });
 							console.error('[upload]', e);
 							send({ type: 'result', httpStatus: 500, status: 'error', error: 'Something went wrong on our side. Nothing was stored.', field: null });
 						})
@@ -127,20 +148,8 @@ export async function handleUpload(event: Pick<RequestEvent, 'request' | 'url' |
 		// the connection after the answer, so the unread rest is not taken for the next request.
 		upload?.discard();
 		const close = { connection: 'close' };
-		if (e instanceof UploadRequestError)
-			return json(
-				{
-					status: e.status === 413 ? 'tooLarge' : e.status === 408 ? 'timeout' : 'invalid',
-					error: e.message,
-					field: e.field,
-					errors: e.errors,
-					...(e.status === 413 ? { limitBytes: MAX_UPLOAD_BYTES } : {})
-				} satisfies UploadAnswer,
-				{ status: e.status, headers: close }
-			);
-		if (e instanceof BusyError)
-			return json({ status: 'busy', error: e.message, field: null, retryAfterS: e.retryAfterS } satisfies UploadAnswer, { status: 429, headers: { ...close, 'retry-after': String(e.retryAfterS) } });
-		if (isHttpError(e)) return json({ status: 'error', error: e.body.message, field: null } satisfies UploadAnswer, { status: e.status, headers: close });
+		const refused = refusalOf(e);
+		if (refused) return json(refused.body, { status: refused.httpStatus, headers: refused.body.status === 'busy' ? { ...close, 'retry-after': String(refused.body.retryAfterS) } : close });
 		throw e;
 	}
 }
