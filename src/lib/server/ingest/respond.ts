@@ -139,10 +139,13 @@ export async function handleUpload(event: Pick<RequestEvent, 'request' | 'url' |
 					open = false;
 				}
 			});
-			return new Response(stream, { status: 200, headers: { 'content-type': NDJSON, 'cache-control': 'no-store', 'x-content-type-options': 'nosniff' } });
+			// The connection closes after the answer: when the file was refused part way (too large,
+			// stalled), the rest of the body is never read, and must not be taken for a next request.
+			return new Response(stream, { status: 200, headers: { 'content-type': NDJSON, 'cache-control': 'no-store', 'x-content-type-options': 'nosniff', connection: 'close' } });
 		}
 		const { httpStatus, body } = answerOf(await run(), ctx.org.slug);
-		return json(body, { status: httpStatus });
+		// A file over the limit was not read to its end: close the connection after the answer.
+		return json(body, { status: httpStatus, headers: body.status === 'tooLarge' ? { connection: 'close' } : {} });
 	} catch (e) {
 		// Refused before or while the file was read: stop reading the rest of the body, and close
 		// the connection after the answer, so the unread rest is not taken for the next request.
