@@ -1,5 +1,6 @@
 // What POST /api/v1/flights answers, shared by the server, the upload page and scripts' authors:
 // a JSON body whose `status` names the case, or NDJSON lines (progress, then that body).
+// 'timeout' (408): the body stalled or trickled; 'busy' (429): too many uploads in progress.
 import type { RowProblem } from './row';
 
 /** Server-side progress: reading (bytes of the file read, rows accepted) and the storing steps. */
@@ -11,6 +12,6 @@ export type UploadAnswer =
 	| { status: 'stored'; flightId: string; uploadId: string; url: string; rows: number; report: unknown; summary: unknown }
 	| { status: 'duplicate'; flightId: string; uploadId: string; url: string; error: string }
 	| { status: 'rejected'; error: string; problems: RowProblem[]; problemCount: number }
-	| { status: 'invalid' | 'tooLarge' | 'error'; error: string; field: string | null; errors?: Record<string, string>; limitBytes?: number };
+	| { status: 'invalid' | 'tooLarge' | 'timeout' | 'busy' | 'error'; error: string; field: string | null; errors?: Record<string, string>; limitBytes?: number; retryAfterS?: number };
 
 export type UploadLine = ({ type: 'progress' } & UploadProgress) | ({ type: 'result'; httpStatus: number } & UploadAnswer);

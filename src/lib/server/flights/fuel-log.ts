@@ -1,9 +1,12 @@
 // The exported fuel log: the engine's figures as CSV, one row per sample or one per minute, in a
 // chosen fuel unit (distances in NM, speeds in kt, times UTC), and the flight summary as CSV.
+// The log is written a few thousand rows at a time, so a long flight streams out in bounded
+// memory; every text cell goes through textCell (formula injection), numbers through numberCell.
 import type { FlightComputation, FlightSummary, SampleColumns } from '$lib/fuel';
 import { WPT_NONE } from '$lib/fuel';
 import { fromLitres, type FuelUnit } from '$lib/units';
 import { alarmLabels, flagWords, phaseIds } from '$lib/components/replay/labels';
+import { csvLine, numberCell as cell, textCell } from './csv-cell';
 
 export type LogEvery = 'sample' | 'minute';
 
@@ -25,8 +28,6 @@ export function minuteRows(t: Float64Array, n: number): number[] {
 	return rows;
 }
 
-const cell = (x: number, digits: number): string => (Number.isFinite(x) ? x.toFixed(digits) : '');
-const quote = (s: string): string => (/[",\n\r]/.test(s) ? `"${s.replace(/"/g, '""')}"` : s);
 const iso = (epochS: number) => new Date(Math.round(epochS * 1000)).toISOString();
 
 export interface FuelLogInput {
@@ -38,8 +39,18 @@ export interface FuelLogInput {
 	every: LogEvery;
 }
 
+/** Rows of the fuel log per piece of text fuelLogChunks yields. */
+export const LOG_ROWS_PER_CHUNK = 2000;
+
 /** CSV text; header names carry their units, e.g. on_board_usgal, flow_usgal_per_h. */
 export function fuelLogCsv(x: FuelLogInput): string {
+	let out = '';
+	for (const piece of fuelLogChunks(x)) out += piece;
+	return out;
+}
+
+/** The fuel log as CSV text in pieces of LOG_ROWS_PER_CHUNK rows (the header first), for streaming. */
+export function* fuelLogChunks(x: FuelLogInput, rowsPerChunk = LOG_ROWS_PER_CHUNK): Generator<string> {
 	const { columns: c, computation: r, unit } = x;
 	const fuel = (litres: number) => fromLitres(litres, unit, x.densityKgPerL);
 	// Specific range is distance per unit of fuel: NM/L × litres per unit.
@@ -64,36 +75,43 @@ export function fuelLogCsv(x: FuelLogInput): string {
 		'flags'
 	];
 	const n = r.length;
-	const rows = x.every === 'minute' ? minuteRows(c.t, n) : Array.from({ length: n }, (_, i) => i);
+	const minutes = x.every === 'minute' ? minuteRows(c.t, n) : null;
+	const count = minutes ? minutes.length : n;
 	const t0 = n > 0 ? c.t[0] : 0;
-	const lines = [header.join(',')];
+	yield csvLine(header.map(textCell)) + '\r\n';
 	const alarmKinds = ['lowFuel', 'lowEndurance', 'negativeReserve'] as const;
-	for (const i of rows) {
+	let lines: string[] = [];
+	for (let k = 0; k < count; k++) {
+		const i = minutes ? minutes[k] : k;
 		const w = c.wpt ? c.wpt[i] : WPT_NONE;
-		const alarms = alarmKinds.filter((_, k) => r.alarmState[i] & (1 << k)).map((k) => alarmLabels[k]);
+		const alarms = alarmKinds.filter((_, b) => r.alarmState[i] & (1 << b)).map((b) => alarmLabels[b]);
 		lines.push(
-			[
+			csvLine([
 				iso(c.t[i]),
 				cell(c.t[i] - t0, 1),
-				phaseIds[r.phase[i]] ?? '',
+				textCell(phaseIds[r.phase[i]] ?? ''),
 				cell(fuel(r.flow[i]), 3),
 				cell(fuel(r.used[i]), 3),
 				cell(fuel(r.onBoard[i]), 3),
 				cell(r.endurance[i] * 60, 1),
 				cell(c.gs[i], 1),
 				cell(c.dtg[i], 2),
-				quote(w === WPT_NONE ? '' : (x.waypoints[w] ?? '')),
+				textCell(w === WPT_NONE ? '' : (x.waypoints[w] ?? '')),
 				cell(r.timeToWpt[i] * 60, 1),
 				cell(fuel(r.fuelToWpt[i]), 3),
 				cell(fuel(r.reserveAtWpt[i]), 3),
 				cell(r.reserveAtWptMin[i], 1),
 				cell(r.specificRange[i] * perUnit, 3),
-				quote(alarms.join('; ')),
-				flagWords(r.flags[i]).join(' ')
-			].join(',')
+				textCell(alarms.join('; ')),
+				textCell(flagWords(r.flags[i]).join(' '))
+			])
 		);
+		if (lines.length >= rowsPerChunk) {
+			yield lines.join('\r\n') + '\r\n';
+			lines = [];
+		}
 	}
-	return lines.join('\r\n') + '\r\n';
+	if (lines.length > 0) yield lines.join('\r\n') + '\r\n';
 }
 
 /** The flight summary as field,value,unit rows for a spreadsheet. */
@@ -102,14 +120,16 @@ export function summaryCsv(
 	meta: { registration: string; title: string; pilot: string | null; unit: FuelUnit; densityKgPerL: number; waypoints: readonly string[] }
 ): string {
 	const u = meta.unit;
-	const fuel = (l: number | null | undefined) => (l === null || l === undefined ? '' : fromLitres(l, u, meta.densityKgPerL).toFixed(3));
-	const num = (x: number | null | undefined, d: number) => (x === null || x === undefined || !Number.isFinite(x) ? '' : x.toFixed(d));
+	// Values are cells already: numbers as they are, text (names, titles, labels) through textCell.
+	const fuel = (l: number | null | undefined) => (l === null || l === undefined ? '' : cell(fromLitres(l, u, meta.densityKgPerL), 3));
+	const num = cell;
 	const when = (x: number | null | undefined) => (x === null || x === undefined || !Number.isFinite(x) ? '' : iso(x));
+	const text = textCell;
 	const perUnit = 1 / fromLitres(1, u, meta.densityKgPerL);
 	const rows: [string, string, string][] = [
-		['aircraft', meta.registration, ''],
-		['title', meta.title, ''],
-		['pilot', meta.pilot ?? '', ''],
+		['aircraft', text(meta.registration), ''],
+		['title', text(meta.title), ''],
+		['pilot', text(meta.pilot ?? ''), ''],
 		['start_utc', when(s.start), ''],
 		['end_utc', when(s.end), ''],
 		['samples', String(s.sampleCount), ''],
@@ -129,12 +149,12 @@ export function summaryCsv(
 		['lowest_reserve_at_wpt_time_utc', when(s.lowestReserveAtWpt?.t), ''],
 		[
 			'lowest_reserve_at_wpt_waypoint',
-			s.lowestReserveAtWpt?.wpt === null || s.lowestReserveAtWpt?.wpt === undefined ? '' : (meta.waypoints[s.lowestReserveAtWpt.wpt] ?? ''),
+			s.lowestReserveAtWpt?.wpt === null || s.lowestReserveAtWpt?.wpt === undefined ? '' : text(meta.waypoints[s.lowestReserveAtWpt.wpt] ?? ''),
 			''
 		],
-		['reserve_rule', s.reserve?.rule.label ?? '', s.reserve?.rule.citation ?? ''],
+		['reserve_rule', text(s.reserve?.rule.label ?? ''), s.reserve?.rule.citation ?? ''],
 		['reserve_amount', fuel(s.reserve?.amountL), u],
-		['reserve_basis', s.reserve?.note ?? '', ''],
+		['reserve_basis', text(s.reserve?.note ?? ''), ''],
 		['reserve_reached_utc', when(s.reserveReached?.t), s.reserveReached?.alreadyBelow ? 'already below at the last sample' : 'at the last flow'],
 		['gaps', String(s.gapCount), ''],
 		['gap_time_min', num(s.gapTimeS / 60, 1), 'min'],
@@ -145,5 +165,6 @@ export function summaryCsv(
 		rows.push([`phase_${p.name}_fuel`, fuel(p.fuelL), u]);
 		rows.push([`phase_${p.name}_average_flow`, fuel(p.averageFlowLph), `${u}/h`]);
 	}
-	return ['field,value,unit', ...rows.map((r) => r.map(quote).join(','))].join('\r\n') + '\r\n';
+	// Field names and units are ours; they go through textCell too, as every text cell does.
+	return ['field,value,unit', ...rows.map(([field, value, unit]) => csvLine([textCell(field), value, textCell(unit)]))].join('\r\n') + '\r\n';
 }

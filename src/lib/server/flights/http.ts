@@ -1,5 +1,6 @@
 // Small pieces the flight API routes share: reading a query string with zod into a 400 that
-// names the parameter, and compressing a large body when the client accepts gzip.
+// names the parameter, compressing a large body when the client accepts gzip, and streaming a
+// long text body piece by piece (gzipped on the way when accepted).
 import { json } from '@sveltejs/kit';
 import { promisify } from 'node:util';
 import { gzip } from 'node:zlib';
@@ -37,4 +38,48 @@ export async function maybeGzip(request: Request, body: Uint8Array<ArrayBuffer> 
 	}
 	h.set('content-length', String(bytes.length));
 	return new Response(bytes, { headers: h });
+}
+
+/**
+ * A text body written piece by piece as the client reads it (so only a piece or two is in memory
+ * at a time), gzipped on the way when the request accepts it. `onEnd` runs once, when the body was
+ * sent, failed or the client went away.
+ */
+export function streamText(request: Request, pieces: Iterator<string>, headers: Record<string, string>, onEnd: () => void = () => {}): Response {
+	const encoder = new TextEncoder();
+	let ended = false;
+	const end = () => {
+		if (ended) return;
+		ended = true;
+		onEnd();
+	};
+	let source: ReadableStream<Uint8Array> = new ReadableStream<Uint8Array>(
+		{
+			pull(controller) {
+				try {
+					const next = pieces.next();
+					if (next.done) {
+						controller.close();
+						end();
+					} else controller.enqueue(encoder.encode(next.value));
+				} catch (error) {
+					end();
+					controller.error(error);
+				}
+			},
+			cancel() {
+				pieces.return?.();
+				end();
+			}
+		},
+		// One piece queued ahead at most: the client's pace sets the server's.
+		{ highWaterMark: 1 }
+	);
+	const h = new Headers(headers);
+	h.set('vary', 'accept-encoding');
+	if (/\bgzip\b/.test(request.headers.get('accept-encoding') ?? '')) {
+		source = source.pipeThrough(new CompressionStream('gzip') as unknown as ReadableWritablePair<Uint8Array, Uint8Array>);
+		h.set('content-encoding', 'gzip');
+	}
+	return new Response(source, { headers: h });
 }

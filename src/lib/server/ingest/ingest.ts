@@ -1,14 +1,16 @@
 // Storing a recorder file as a flight: the bytes stream in once, are counted against the size
-// limit, hashed, spooled to a temporary file and parsed as they arrive, while the samples go by
-// binary COPY into the samples table inside one transaction with their flight row. Only when the
-// whole file is good do the upload, its original bytes and the real flight figures join them and
-// the transaction commits; anything wrong rolls all of it back, so nobody ever sees part of a file.
+// limit, hashed, spooled to a temporary file and parsed as they arrive, the samples encoded for
+// binary COPY into a second spool file. Only then, for a file without problems, does the upload
+// take a database connection: the samples go by COPY into the samples table inside one
+// transaction with their flight row, then the upload, its original bytes and the real flight
+// figures join them and the transaction commits; anything wrong rolls all of it back, so nobody
+// ever sees part of a file.
 //
 // Why no staging table: COPY has no ON CONFLICT, which matters for live batches, but an upload's
 // flight is new in this very transaction, so no sample can conflict. Measured here with 1,000,000
 // rows, COPY into a temporary table then INSERT … SELECT took 1.4 s + 5.6 s against 6.7 s for one
 // COPY: INSERT … SELECT does not batch rows the way COPY does, and each row's foreign-key check
-// costs the same either way. The direct COPY also runs while the file is still being parsed.
+// costs the same either way.
 import { createHash, randomUUID } from 'node:crypto';
 import { open, unlink, type FileHandle } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
@@ -37,6 +39,7 @@ import { computeFlight, summarize, WPT_NONE, type FlightSummary, type SampleColu
 import { engineInputsOf, reserveOf } from '$lib/flight-inputs';
 import { declarationProblem, toDeclaration } from '$lib/schemas/declaration';
 import { db as poolDb, pool } from '../db';
+import { uploadConnections } from '../limits';
 import * as schema from '../db/schema';
 import { aircraft as aircraftTable, flights, importProfiles, uploads, type Aircraft, type ImportProfile } from '../db/schema';
 import { SAMPLE_COPY_COLUMNS, SampleCopyEncoder, chunkTuple, copyHeader, copyTrailer, writeWithBackpressure } from './binary-copy';
@@ -207,32 +210,60 @@ function mappingResolver(req: IngestRequest, profiles: readonly Profile[]): Mapp
 	};
 }
 
-/** Stores a recorder file as a flight of `aircraft`, or says exactly why not. */
+/** A temporary file with no name: whatever ends this process, no copy of the upload stays behind. */
+async function anonymousFile(): Promise<FileHandle> {
+	const path = join(tmpdir(), `burndown-upload-${randomUUID()}`);
+	const file = await open(path, 'w+', 0o600);
+	try {
+		await unlink(path);
+	} catch (error) {
+		await file.close().catch(() => {});
+		throw error;
+	}
+	return file;
+}
+
+/** Advisory lock class (two-key form) for the checks and writes of one aircraft's uploads. */
+const LOCK_AIRCRAFT_UPLOAD = 5_120_003;
+
+/**
+ * Stores a recorder file as a flight of `aircraft`, or says exactly why not.
+ *
+ * Two phases, so a slow or hostile client never holds a database connection: first the body is
+ * received, counted, hashed and kept in a spool file while it is parsed, its samples encoded for
+ * COPY into a second spool file (a rejected file ends here, having touched no connection); then,
+ * with one of the few connections uploads may use (uploadConnections), everything goes into the
+ * database in one transaction at the speed of the disk.
+ */
 export async function ingestRecorderFile(req: IngestRequest): Promise<IngestResult> {
 	const startedAt = performance.now();
 	const profiles = await poolDb
 		.select({ id: importProfiles.id, name: importProfiles.name, headerSignature: importProfiles.headerSignature, mapping: importProfiles.mapping, createdAt: importProfiles.createdAt })
 		.from(importProfiles)
 		.where(eq(importProfiles.orgId, req.orgId));
-	// The spool has no name once open: whatever ends this process, no copy of the file stays behind.
-	const spoolPath = join(tmpdir(), `burndown-upload-${randomUUID()}`);
-	const spool = await open(spoolPath, 'w+', 0o600);
-	let client: pg.PoolClient;
+	const spool = await anonymousFile();
+	let copySpool: FileHandle;
 	try {
-		await unlink(spoolPath);
-		client = await pool.connect();
+		copySpool = await anonymousFile();
 	} catch (error) {
-		await spool.close();
+		await spool.close().catch(() => {});
 		throw error;
 	}
-	const db = drizzle(client, { schema, casing: 'snake_case' });
+	try {
+		return await ingestSpooled(req, profiles, spool, copySpool, startedAt);
+	} finally {
+		await spool.close().catch(() => {});
+		await copySpool.close().catch(() => {});
+	}
+}
+
+async function ingestSpooled(req: IngestRequest, profiles: Profile[], spool: FileHandle, copySpool: FileHandle, startedAt: number): Promise<IngestResult> {
 	let spooled = 0;
+	let copyBytes = 0;
 	const hash = createHash('sha256');
 	let bytes = 0;
 	let rows = 0;
 	let lastProgress = 0;
-	let clientBroken = false;
-	let copy: ReturnType<typeof copyFrom> | null = null;
 	const progress = (p: IngestProgress) => req.onProgress?.(p);
 
 	async function* tap(): AsyncGenerator<Uint8Array> {
@@ -245,29 +276,26 @@ export async function ingestRecorderFile(req: IngestRequest): Promise<IngestResu
 			yield chunk;
 		}
 	}
+	const keep = async (piece: Buffer) => {
+		await copySpool.write(piece, 0, piece.length, copyBytes);
+		copyBytes += piece.length;
+	};
 
 	const uploadId = randomUUID();
 	const flightId = randomUUID();
-	try {
-		await client.query('BEGIN');
-		// The samples need their flight row first; its real figures are set once the file is read.
-		await db.insert(flights).values({ id: flightId, orgId: req.orgId, aircraftId: req.aircraft.id, source: 'upload', status: 'closed', startedAt: new Date(), declaration: {} });
-		const stream = client.query(copyFrom(SAMPLES_COPY));
-		copy = stream;
-		const copyFailure: { error: Error | null } = { error: null };
-		stream.on('error', (e: Error) => (copyFailure.error = e));
-		await writeWithBackpressure(stream, copyHeader());
-		const encoder = new SampleCopyEncoder(flightId);
-		const columns = new ColumnBuilder();
-		let rowIndex = 0;
-		let lastSeq = -1;
+	const encoder = new SampleCopyEncoder(flightId);
+	const columns = new ColumnBuilder();
+	let rowIndex = 0;
+	let lastSeq = -1;
 
-		const summary = await parseRecorderCsv(tap(), mappingResolver(req, profiles), {
+	// ---- phase 1: receive and parse, no database connection --------------------------------------
+	let summary: ParseSummary;
+	try {
+		summary = await parseRecorderCsv(tap(), mappingResolver(req, profiles), {
 			densityKgPerL: req.aircraft.densityKgPerL,
 			onRows: async (batch) => {
-				if (copyFailure.error) throw copyFailure.error;
 				for (const r of batch) {
-					if (!encoder.hasRoom()) await writeWithBackpressure(stream, encoder.take()!);
+					if (!encoder.hasRoom()) await keep(encoder.take()!);
 					// Without the recorder's own numbers, the row's place in the file is its sequence.
 					lastSeq = r.seq ?? rowIndex;
 					encoder.push(r, lastSeq);
@@ -285,32 +313,74 @@ export async function ingestRecorderFile(req: IngestRequest): Promise<IngestResu
 				}
 			}
 		});
-		const rest = encoder.take();
-		if (rest) await writeWithBackpressure(stream, rest);
+	} catch (error) {
+		if (error instanceof UploadTooLargeError) return { status: 'tooLarge', limitBytes: MAX_UPLOAD_BYTES, message: error.message };
+		throw error;
+	}
+	const rest = encoder.take();
+	if (rest) await keep(rest);
+	progress({ phase: 'reading', bytes, rows });
+	const parseMs = performance.now() - startedAt;
+
+	if (!summary.ok) {
+		return {
+			status: 'rejected',
+			problems: summary.problems,
+			problemCount: summary.problemCount,
+			message: `The file was not stored: ${summary.problemCount} ${summary.problemCount === 1 ? 'problem' : 'problems'} found.`
+		};
+	}
+	const sha256 = hash.digest('hex');
+
+	// ---- phase 2: one transaction on one of the connections uploads may use ------------------------
+	const releaseSlot = await uploadConnections.acquire();
+	let client: pg.PoolClient;
+	try {
+		client = await pool.connect();
+	} catch (error) {
+		releaseSlot();
+		throw error;
+	}
+	let clientBroken = false;
+	// A checked-out client has no 'error' listener of the pool's: without this one, a connection
+	// dropped by the server mid-transaction would be an unhandled error that ends the process.
+	const onClientError = (e: Error) => {
+		clientBroken = true;
+		console.error('[upload] database connection failed', e.message);
+	};
+	client.on('error', onClientError);
+	const db = drizzle(client, { schema, casing: 'snake_case' });
+	let copy: ReturnType<typeof copyFrom> | null = null;
+	try {
+		await client.query('BEGIN');
+		// The samples need their flight row first; its real figures are set once the checks pass.
+		await db.insert(flights).values({ id: flightId, orgId: req.orgId, aircraftId: req.aircraft.id, source: 'upload', status: 'closed', startedAt: new Date(), declaration: {} });
+		const stream = client.query(copyFrom(SAMPLES_COPY));
+		copy = stream;
+		const copyFailure: { error: Error | null } = { error: null };
+		stream.on('error', (e: Error) => (copyFailure.error = e));
+		await writeWithBackpressure(stream, copyHeader());
+		for (let at = 0; at < copyBytes; at += CHUNK_BYTES) {
+			if (copyFailure.error) throw copyFailure.error;
+			// A fresh buffer per piece: the COPY stream may still hold the previous one.
+			const piece = Buffer.allocUnsafe(Math.min(CHUNK_BYTES, copyBytes - at));
+			const { bytesRead } = await copySpool.read(piece, 0, piece.length, at);
+			if (bytesRead !== piece.length) throw new Error('The spooled samples were shorter than what was written.');
+			await writeWithBackpressure(stream, piece);
+		}
 		await writeWithBackpressure(stream, copyTrailer());
 		stream.end();
 		await finished(stream);
 		copy = null;
 		if (copyFailure.error) throw copyFailure.error;
-		progress({ phase: 'reading', bytes, rows });
-		const parseMs = performance.now() - startedAt;
-
-		if (!summary.ok) {
-			await client.query('ROLLBACK');
-			return {
-				status: 'rejected',
-				problems: summary.problems,
-				problemCount: summary.problemCount,
-				message: `The file was not stored: ${summary.problemCount} ${summary.problemCount === 1 ? 'problem' : 'problems'} found.`
-			};
-		}
 
 		progress({ phase: 'storing', step: 'checks', rows });
-		const sha256 = hash.digest('hex');
 		const a = req.aircraft;
-		// Uploads for one aircraft take turns from here on, so the duplicate and "newest flight"
-		// checks cannot race each other.
-		await client.query('SELECT 1 FROM aircraft WHERE id = $1 FOR UPDATE', [a.id]);
+		// Uploads for one aircraft take turns from here on, so the duplicate, overlap and "newest
+		// flight" checks cannot race each other. An advisory lock rather than a row lock on the
+		// aircraft: every transaction here already holds a key-share lock on that row (its flight's
+		// foreign key), and two of them upgrading it to FOR UPDATE deadlock.
+		await client.query('SELECT pg_advisory_xact_lock($1, hashtext($2))', [LOCK_AIRCRAFT_UPLOAD, a.id]);
 		const dup = await client.query<{ upload_id: string; flight_id: string | null }>(
 			'SELECT u.id AS upload_id, f.id AS flight_id FROM uploads u LEFT JOIN flights f ON f.upload_id = u.id WHERE u.aircraft_id = $1 AND u.sha256 = $2 LIMIT 1',
 			[a.id, sha256]
@@ -336,6 +406,10 @@ export async function ingestRecorderFile(req: IngestRequest): Promise<IngestResu
 				message: `This recording overlaps another flight of ${a.registration} (started ${overlap.rows[0].started_at.toISOString().slice(0, 16).replace('T', ' ')}Z); an aircraft flies one flight at a time.`
 			};
 		}
+		// The aircraft's figures as they are now, not as they were when this request began: another
+		// upload may have moved them while this one waited for the lock.
+		const [current] = await db.select().from(aircraftTable).where(eq(aircraftTable.id, a.id)).limit(1);
+		const ac = current ?? a;
 		const later = await client.query('SELECT 1 FROM flights WHERE aircraft_id = $1 AND id <> $3 AND started_at > $2 LIMIT 1', [a.id, first, flightId]);
 		const newest = later.rowCount === 0;
 		const before = await client.query<{ on_board: number | null }>(
@@ -345,17 +419,17 @@ export async function ingestRecorderFile(req: IngestRequest): Promise<IngestResu
 		const previousFlightL = before.rows[0]?.on_board ?? null;
 		// The aircraft's own figure is "after the last flight": it only describes the time before
 		// this one when this is the newest flight.
-		const previousOnBoardL = newest ? (a.lastOnBoardL ?? previousFlightL) : previousFlightL;
-		const problem = declarationProblem(req.declaration, a, previousOnBoardL);
+		const previousOnBoardL = newest ? (ac.lastOnBoardL ?? previousFlightL) : previousFlightL;
+		const problem = declarationProblem(req.declaration, ac, previousOnBoardL);
 		if (problem) {
 			await client.query('ROLLBACK');
 			return { status: 'invalid', field: 'declaration', message: problem };
 		}
-		const declaration = toDeclaration(req.declaration, a);
+		const declaration = toDeclaration(req.declaration, ac);
 
 		progress({ phase: 'storing', step: 'summary', rows });
-		const computation = computeFlight({ columns: columns.columns(), ...engineInputsOf(a, { declaration, previousOnBoardL }, []) });
-		const flightSummary = summarize(computation, { reserve: reserveOf(a) });
+		const computation = computeFlight({ columns: columns.columns(), ...engineInputsOf(ac, { declaration, previousOnBoardL }, []) });
+		const flightSummary = summarize(computation, { reserve: reserveOf(ac) });
 		const warnings = [...computation.warnings.map((w) => w.message), ...computation.problems.slice(0, 10).map((p) => p.message)];
 
 		progress({ phase: 'storing', step: 'original', rows });
@@ -425,11 +499,11 @@ export async function ingestRecorderFile(req: IngestRequest): Promise<IngestResu
 		} catch {
 			clientBroken = true;
 		}
-		if (error instanceof UploadTooLargeError) return { status: 'tooLarge', limitBytes: MAX_UPLOAD_BYTES, message: error.message };
 		throw error;
 	} finally {
+		client.off('error', onClientError);
 		client.release(clientBroken ? new Error('connection left in an unknown state') : undefined);
-		await spool.close().catch(() => {});
+		releaseSlot();
 	}
 }
 

@@ -43,6 +43,12 @@ export function multipartBoundary(contentType: string | null): string | null {
 	return b && b.length <= 70 ? b : null;
 }
 
+/** Errors a stream reports when it was torn down by something else, which is then the real cause. */
+function isStreamNoise(error: unknown): boolean {
+	const code = (error as NodeJS.ErrnoException | null)?.code;
+	return code === 'ERR_STREAM_PREMATURE_CLOSE' || code === 'ERR_STREAM_DESTROYED' || code === 'ABORT_ERR';
+}
+
 type Event =
 	| { kind: 'field'; name: string | undefined; value: string; truncated: boolean }
 	| { kind: 'file'; name: string | undefined; stream: Readable; filename: string | undefined; mimeType: string }
@@ -54,7 +60,12 @@ type Event =
  * is read only as fast as the parts are consumed: while a file part's stream is not read, busboy
  * holds back its write callback, so this stops pulling from `source`.
  */
-export async function* readMultipart(source: AsyncIterable<Uint8Array>, boundary: string, fieldLimit = FIELD_LIMIT_BYTES): AsyncGenerator<MultipartPart> {
+export async function* readMultipart(
+	source: AsyncIterable<Uint8Array>,
+	boundary: string,
+	fieldLimit = FIELD_LIMIT_BYTES,
+	signal?: AbortSignal
+): AsyncGenerator<MultipartPart> {
 	let bb: busboy.Busboy;
 	try {
 		bb = busboy({
@@ -98,16 +109,27 @@ export async function* readMultipart(source: AsyncIterable<Uint8Array>, boundary
 		partsSeen++;
 		push({ kind: 'field', name, value, truncated: info.valueTruncated });
 	});
+	// The first error of the form as a whole, for a file stream that busboy destroyed with a less
+	// telling one, or before anyone read it.
+	let formError: unknown = null;
+	const fileErrors = new WeakMap<Readable, unknown>();
 	bb.on('file', (name, stream, info) => {
 		partsSeen++;
 		openFile = stream;
 		stream.once('end', () => {
 			if (openFile === stream) openFile = null;
 		});
+		// busboy destroys a file stream with an error when the body ends inside it, which may be
+		// before (or without) anyone reading it: an 'error' event nobody listens to ends the process.
+		stream.on('error', (error) => fileErrors.set(stream, error));
 		push({ kind: 'file', name, stream, filename: info.filename, mimeType: info.mimeType });
 	});
 	// Listeners stay for the whole body: an error after the caller stopped listening must not crash.
-	bb.on('error', (error) => push({ kind: 'error', error: explain(error) }));
+	bb.on('error', (error) => {
+		const explained = explain(error);
+		formError ??= explained;
+		push({ kind: 'error', error: explained });
+	});
 	bb.on('finish', () => push({ kind: 'end' }));
 
 	let stopped = false;
@@ -116,6 +138,11 @@ export async function* readMultipart(source: AsyncIterable<Uint8Array>, boundary
 		stopped = true;
 		bb.destroy();
 	};
+	// The caller gave up on the body (a refused upload): stop reading it; nothing is reported.
+	if (signal) {
+		if (signal.aborted) stop();
+		else signal.addEventListener('abort', stop, { once: true });
+	}
 
 	// Feeds the body to busboy, waiting whenever it says its buffer is full.
 	const pump = async () => {
@@ -163,10 +190,14 @@ export async function* readMultipart(source: AsyncIterable<Uint8Array>, boundary
 					started = true;
 					let ended = false;
 					try {
+						if (fileErrors.has(stream)) throw fileErrors.get(stream);
 						for await (const chunk of stream) yield chunk as Buffer;
+						if (fileErrors.has(stream)) throw fileErrors.get(stream);
 						ended = true;
 					} catch (error) {
-						throw explain(error);
+						// busboy may hand the file stream a generic error ("premature close") when the
+						// form failed: the form's own error says more.
+						throw formError && !(error instanceof MultipartError) && isStreamNoise(error) ? formError : explain(error);
 					} finally {
 						// A reader that gives up half way: stop reading the request body too.
 						if (!ended) stop();

@@ -10,7 +10,8 @@ import { aircraft, organisations } from '../db/schema';
 import { ingestRecorderFile, type IngestProgress, type IngestResult } from './ingest';
 
 export type { UploadAnswer, UploadLine };
-import { UploadRequestError, checkFields, openUploadRequest } from './request';
+import { UploadRequestError, checkFields, openUploadRequest, type UploadRequest } from './request';
+import { BusyError, takeUploadSlot, uploadLimits } from '../limits';
 
 export const NDJSON = 'application/x-ndjson';
 
@@ -33,6 +34,24 @@ function answerOf(result: IngestResult, slug: string): { httpStatus: number; bod
 	}
 }
 
+/** The answer to an upload refused for what the request is or how it arrived; null for anything else. */
+function refusalOf(e: unknown): { httpStatus: number; body: UploadAnswer & { status: 'invalid' | 'tooLarge' | 'timeout' | 'busy' | 'error' } } | null {
+	if (e instanceof UploadRequestError)
+		return {
+			httpStatus: e.status,
+			body: {
+				status: e.status === 413 ? 'tooLarge' : e.status === 408 ? 'timeout' : 'invalid',
+				error: e.message,
+				field: e.field,
+				errors: e.errors,
+				...(e.status === 413 ? { limitBytes: MAX_UPLOAD_BYTES } : {})
+			}
+		};
+	if (e instanceof BusyError) return { httpStatus: 429, body: { status: 'busy', error: e.message, field: null, retryAfterS: e.retryAfterS } };
+	if (isHttpError(e)) return { httpStatus: e.status, body: { status: 'error', error: e.body.message, field: null } };
+	return null;
+}
+
 /** The organisation of an aircraft, so the usual membership check can run; unknown id → 404. */
 async function orgSlugOfAircraft(aircraftId: string): Promise<string> {
 	const [row] = await db
@@ -50,10 +69,12 @@ async function orgSlugOfAircraft(aircraftId: string): Promise<string> {
  * organisation with the upload permission; to anyone else the aircraft is "not found".
  */
 export async function handleUpload(event: Pick<RequestEvent, 'request' | 'url' | 'locals' | 'route'>): Promise<Response> {
+	let upload: UploadRequest | undefined;
 	try {
 		// Who is asking comes first: nobody reads a stranger's upload.
 		requireUser(event);
-		const upload = await openUploadRequest(event.request, event.url);
+		const limits = uploadLimits();
+		upload = await openUploadRequest(event.request, event.url, limits);
 		const fields = checkFields(upload.fields);
 		const slug = await orgSlugOfAircraft(fields.aircraftId);
 		let ctx;
@@ -65,13 +86,20 @@ export async function handleUpload(event: Pick<RequestEvent, 'request' | 'url' |
 			throw e;
 		}
 		if (ctx.aircraft.archivedAt) throw new UploadRequestError(409, `${ctx.aircraft.registration} is archived; restore it before uploading flights.`, 'aircraftId');
+		// Before the file is read: a crowd of uploads is refused, not queued on the server's resources.
+		const releaseSlot = takeUploadSlot(ctx.user.id, ctx.org.id, limits);
+		const file = upload;
+		const finish = () => {
+			releaseSlot();
+			file.discard();
+		};
 		const run = (onProgress?: (p: IngestProgress) => void) =>
 			ingestRecorderFile({
 				orgId: ctx.org.id,
 				aircraft: ctx.aircraft,
 				userId: ctx.user.id,
-				fileName: upload.fileName,
-				source: upload.file,
+				fileName: file.fileName,
+				source: file.file,
 				declaration: fields.declaration,
 				mapping: fields.mapping,
 				profileId: fields.profileId,
@@ -79,7 +107,7 @@ export async function handleUpload(event: Pick<RequestEvent, 'request' | 'url' |
 				title: fields.title,
 				notes: fields.notes,
 				onProgress
-			});
+			}).finally(finish);
 
 		if ((event.request.headers.get('accept') ?? '').includes(NDJSON)) {
 			const encoder = new TextEncoder();
@@ -95,6 +123,9 @@ export async function handleUpload(event: Pick<RequestEvent, 'request' | 'url' |
 							send({ type: 'result', httpStatus, ...body });
 						})
 						.catch((e) => {
+							// A body cut off, stalled or garbled while the file was read: the same answer as without NDJSON.
+							const refused = refusalOf(e);
+							if (refused) return send({ type: 'result', httpStatus: refused.httpStatus, ...refused.body });
 							console.error('[upload]', e);
 							send({ type: 'result', httpStatus: 500, status: 'error', error: 'Something went wrong on our side. Nothing was stored.', field: null });
 						})
@@ -108,17 +139,20 @@ export async function handleUpload(event: Pick<RequestEvent, 'request' | 'url' |
 					open = false;
 				}
 			});
-			return new Response(stream, { status: 200, headers: { 'content-type': NDJSON, 'cache-control': 'no-store', 'x-content-type-options': 'nosniff' } });
+			// The connection closes after the answer: when the file was refused part way (too large,
+			// stalled), the rest of the body is never read, and must not be taken for a next request.
+			return new Response(stream, { status: 200, headers: { 'content-type': NDJSON, 'cache-control': 'no-store', 'x-content-type-options': 'nosniff', connection: 'close' } });
 		}
 		const { httpStatus, body } = answerOf(await run(), ctx.org.slug);
-		return json(body, { status: httpStatus });
+		// A file over the limit was not read to its end: close the connection after the answer.
+		return json(body, { status: httpStatus, headers: body.status === 'tooLarge' ? { connection: 'close' } : {} });
 	} catch (e) {
-		if (e instanceof UploadRequestError)
-			return json(
-				{ status: e.status === 413 ? 'tooLarge' : 'invalid', error: e.message, field: e.field, errors: e.errors, ...(e.status === 413 ? { limitBytes: MAX_UPLOAD_BYTES } : {}) } satisfies UploadAnswer,
-				{ status: e.status }
-			);
-		if (isHttpError(e)) return json({ status: 'error', error: e.body.message, field: null } satisfies UploadAnswer, { status: e.status });
+		// Refused before or while the file was read: stop reading the rest of the body, and close
+		// the connection after the answer, so the unread rest is not taken for the next request.
+		upload?.discard();
+		const close = { connection: 'close' };
+		const refused = refusalOf(e);
+		if (refused) return json(refused.body, { status: refused.httpStatus, headers: refused.body.status === 'busy' ? { ...close, 'retry-after': String(refused.body.retryAfterS) } : close });
 		throw e;
 	}
 }

@@ -1,14 +1,18 @@
 // Export of a flight's computed fuel log: ?what=log (default) as CSV, one row per sample or
 // ?every=minute; ?what=summary as CSV or ?format=json. Fuel in ?unit= (default: the aircraft's
 // display unit). Computed on the server with the same engine and inputs as the replay page.
+// The log streams out as the client reads it; a flight with many samples is a heavy export, and
+// only a few of those run at once (the rest answer 429 with a wait), so a crowd of viewers cannot
+// exhaust the server's memory.
 import { error, json } from '@sveltejs/kit';
 import { eq } from 'drizzle-orm';
 import { exportQuerySchema } from '$lib/schemas/flight';
 import { requireFlightById } from '$lib/server/access';
 import { db } from '$lib/server/db';
 import { users } from '$lib/server/db/schema';
-import { fuelLogCsv, summaryCsv } from '$lib/server/flights/fuel-log';
-import { maybeGzip, parseQuery } from '$lib/server/flights/http';
+import { fuelLogChunks, summaryCsv } from '$lib/server/flights/fuel-log';
+import { parseQuery, streamText } from '$lib/server/flights/http';
+import { exportLimits, heavyExports } from '$lib/server/limits';
 import { loadFlight } from '$lib/server/flights/load';
 import { computeLoaded } from '$lib/server/flights/summary';
 import type { RequestHandler } from './$types';
@@ -23,31 +27,57 @@ export const GET: RequestHandler = async (event) => {
 	const query = parseQuery(exportQuerySchema, event.url);
 	if (!query.ok) return query.response;
 	const q = query.data;
-	const loaded = await loadFlight(flight.id);
-	if (!loaded) error(404, 'Flight not found.');
-	const { computation, summary } = computeLoaded(loaded);
-	const a = loaded.aircraft;
-	const unit = q.unit ?? a.displayUnit;
-	const headers = { 'cache-control': 'private, no-store' };
-
-	if (q.what === 'summary') {
-		const pilot = flight.pilotId ? ((await db.query.users.findFirst({ where: eq(users.id, flight.pilotId), columns: { name: true } }))?.name ?? null) : null;
-		const meta = { registration: a.registration, title: flight.title, pilot, unit, densityKgPerL: a.densityKgPerL, waypoints: loaded.samples.waypoints };
-		if (q.format === 'json') {
+	const limits = exportLimits();
+	let release = () => {};
+	if (flight.sampleCount >= limits.heavySamples) {
+		const place = heavyExports.tryAcquire();
+		if (!place) {
+			const retryAfterS = 15;
 			return json(
-				{ flight: { id: flight.id, title: flight.title, startedAt: flight.startedAt.toISOString(), registration: a.registration, pilot }, units: 'litres, L/h, NM, kt, seconds, epoch seconds UTC', waypoints: loaded.samples.waypoints, warnings: computation.warnings, summary },
-				{ headers: { ...headers, 'content-disposition': `attachment; filename="${fileName(a.registration, flight.startedAt, 'summary', 'json')}"` } }
+				{ error: `The server is exporting ${limits.heavyConcurrent} long flights already; try again in ${retryAfterS} s.`, retryAfterS },
+				{ status: 429, headers: { 'retry-after': String(retryAfterS), 'cache-control': 'no-store' } }
 			);
 		}
-		return new Response(summaryCsv(summary, meta), {
-			headers: { ...headers, 'content-type': 'text/csv; charset=utf-8', 'content-disposition': `attachment; filename="${fileName(a.registration, flight.startedAt, 'summary', 'csv')}"` }
-		});
+		release = place;
 	}
+	let streaming = false;
+	try {
+		const loaded = await loadFlight(flight.id);
+		if (!loaded) error(404, 'Flight not found.');
+		const { computation, summary } = computeLoaded(loaded);
+		const a = loaded.aircraft;
+		const unit = q.unit ?? a.displayUnit;
+		const headers = { 'cache-control': 'private, no-store' };
 
-	const csv = fuelLogCsv({ columns: loaded.input.columns, computation, waypoints: loaded.samples.waypoints, unit, densityKgPerL: a.densityKgPerL, every: q.every });
-	return maybeGzip(event.request, csv, {
-		...headers,
-		'content-type': 'text/csv; charset=utf-8',
-		'content-disposition': `attachment; filename="${fileName(a.registration, flight.startedAt, q.every === 'minute' ? 'fuel-log-per-minute' : 'fuel-log', 'csv')}"`
-	});
+		if (q.what === 'summary') {
+			const pilot = flight.pilotId ? ((await db.query.users.findFirst({ where: eq(users.id, flight.pilotId), columns: { name: true } }))?.name ?? null) : null;
+			const meta = { registration: a.registration, title: flight.title, pilot, unit, densityKgPerL: a.densityKgPerL, waypoints: loaded.samples.waypoints };
+			if (q.format === 'json') {
+				return json(
+					{ flight: { id: flight.id, title: flight.title, startedAt: flight.startedAt.toISOString(), registration: a.registration, pilot }, units: 'litres, L/h, NM, kt, seconds, epoch seconds UTC', waypoints: loaded.samples.waypoints, warnings: computation.warnings, summary },
+					{ headers: { ...headers, 'content-disposition': `attachment; filename="${fileName(a.registration, flight.startedAt, 'summary', 'json')}"` } }
+				);
+			}
+			return new Response(summaryCsv(summary, meta), {
+				headers: { ...headers, 'content-type': 'text/csv; charset=utf-8', 'content-disposition': `attachment; filename="${fileName(a.registration, flight.startedAt, 'summary', 'csv')}"` }
+			});
+		}
+
+		const pieces = fuelLogChunks({ columns: loaded.input.columns, computation, waypoints: loaded.samples.waypoints, unit, densityKgPerL: a.densityKgPerL, every: q.every });
+		const response = streamText(
+			event.request,
+			pieces,
+			{
+				...headers,
+				'content-type': 'text/csv; charset=utf-8',
+				'content-disposition': `attachment; filename="${fileName(a.registration, flight.startedAt, q.every === 'minute' ? 'fuel-log-per-minute' : 'fuel-log', 'csv')}"`
+			},
+			release
+		);
+		// The place is given back when the body has been sent (or the client went away).
+		streaming = true;
+		return response;
+	} finally {
+		if (!streaming) release();
+	}
 };
