@@ -72,6 +72,21 @@ export const signInAttempts = pgTable(
 	(t) => [index().on(t.email, t.at), index().on(t.address, t.at)]
 );
 
+/**
+ * One row per counted request for the other rate limits (password-reset requests, sign-ups),
+ * by bucket ('reset:account', 'sign-up:address', …) and key (an address or an e-mail).
+ */
+export const rateLimitEvents = pgTable(
+	'rate_limit_events',
+	{
+		id: bigint({ mode: 'number' }).primaryKey().generatedAlwaysAsIdentity(),
+		bucket: text().notNull(),
+		key: text().notNull(),
+		at: tstz().notNull().defaultNow()
+	},
+	(t) => [index().on(t.bucket, t.key, t.at)]
+);
+
 export const passwordResets = pgTable('password_resets', {
 	tokenHash: text().primaryKey(),
 	userId: text()
