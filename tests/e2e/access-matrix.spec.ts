@@ -84,7 +84,7 @@ const MATRIX: Row[] = [
 
 /** Routes that need no membership, checked elsewhere or public by design. */
 const OUTSIDE_MATRIX = new Set([
-	'/', '/sign-in', '/sign-up', '/sign-out', '/reset-password', '/reset-password/[token]', '/invite/[token]', '/caution', '/api/health',
+	'/', '/sign-in', '/sign-up', '/sign-up/[token]', '/sign-out', '/reset-password', '/reset-password/[token]', '/invite/[token]', '/caution', '/api/health',
 	// Recorder-token routes: tested with valid, revoked and foreign tokens in tests/integration/live*.
 	'/api/v1/live/samples', '/api/v1/live/open', '/api/v1/live/close'
 ]);

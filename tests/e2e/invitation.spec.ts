@@ -3,7 +3,7 @@
 // role. The demo mailbox page shows a signed-in user only their own mail.
 import { expect, test } from '@playwright/test';
 import { linksIn, waitForMail } from '../helpers/mailbox';
-import { DEMO_ORG, DEMO_USERS, signIn, uniqueEmail } from './support';
+import { DEMO_ORG, DEMO_USERS, finishSignUp, signIn, signUp, uniqueEmail } from './support';
 
 test('invitation by e-mail', async ({ page, browser }) => {
 	const invitee = uniqueEmail('newpilot');
@@ -29,7 +29,7 @@ test('invitation by e-mail', async ({ page, browser }) => {
 	await p.getByLabel('Your name').fill('Rowan Ashdown');
 	await p.getByLabel('E-mail').fill(invitee);
 	await p.getByLabel('Password').fill('invited and welcome');
-	await p.getByRole('button', { name: 'Create account' }).click();
+	await finishSignUp(p, invitee);
 	await expect(p).toHaveURL(/\/invite\/inv_/);
 	await p.getByRole('button', { name: 'Accept and join' }).click();
 	await expect(p).toHaveURL(new RegExp(`/o/${DEMO_ORG}$`));
@@ -47,11 +47,7 @@ test('invitation by e-mail', async ({ page, browser }) => {
 
 test('password reset by e-mailed link', async ({ page }) => {
 	const email = uniqueEmail('forgetful');
-	await page.goto('/sign-up');
-	await page.getByLabel('Your name').fill('Jules Fenwick');
-	await page.getByLabel('E-mail').fill(email);
-	await page.getByLabel('Password').fill('first passphrase here');
-	await page.getByRole('button', { name: 'Create account' }).click();
+	await signUp(page, 'Jules Fenwick', email, 'first passphrase here');
 	await page.getByRole('button', { name: 'Sign out' }).click();
 
 	await page.goto('/reset-password');

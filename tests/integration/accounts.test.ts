@@ -8,6 +8,7 @@ import { hashPassword, lucia, verifyPassword, ARGON2_OPTIONS } from '$lib/server
 import { acceptInvitation, createOrganisation, inviteMember, slugify } from '$lib/server/services/organisations';
 import { completePasswordReset, requestPasswordReset } from '$lib/server/services/password-reset';
 import { beginSignInAttempt, THROTTLE } from '$lib/server/throttle';
+import { backgroundSettled } from '$lib/server/mail';
 import { linksIn, mailTo } from '../helpers/mailbox';
 
 let n = 0;
@@ -94,7 +95,8 @@ describe('password reset', () => {
 	it('works once, changes the password and ends every session', async () => {
 		const u = await makeUser();
 		await lucia.createSession(u.id, { createdAt: new Date() });
-		await requestPasswordReset(u.email, 'http://127.0.0.1:4173');
+		await requestPasswordReset(u.email, '192.0.2.40', 'http://127.0.0.1:4173');
+		await backgroundSettled();
 		const token = linksIn((await mailTo(u.email)).at(-1)!)[0].split('/reset-password/')[1];
 		expect(await completePasswordReset(token, 'brand new passphrase')).toBe(u.id);
 		expect(await completePasswordReset(token, 'another passphrase')).toBeNull();
@@ -105,7 +107,8 @@ describe('password reset', () => {
 	});
 
 	it('sends nothing for an unknown address', async () => {
-		await requestPasswordReset('nobody-here@example.org', 'http://127.0.0.1:4173');
+		await requestPasswordReset('nobody-here@example.org', '192.0.2.40', 'http://127.0.0.1:4173');
+		await backgroundSettled();
 		expect(await mailTo('nobody-here@example.org')).toEqual([]);
 	});
 });

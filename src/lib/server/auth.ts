@@ -5,7 +5,7 @@ import { DrizzlePostgreSQLAdapter } from '@lucia-auth/adapter-drizzle';
 import { Lucia, TimeSpan } from 'lucia';
 import type { Cookies } from '@sveltejs/kit';
 import { eq } from 'drizzle-orm';
-import { db } from './db';
+import { db, type Tx } from './db';
 import { sessions, users } from './db/schema';
 
 /** Idle timeout: lucia extends a session when less than half of this is left. */
@@ -97,10 +97,8 @@ export async function readSession(
 	return { user, session };
 }
 
-export async function setPassword(userId: string, password: string): Promise<void> {
-	await db
-		.update(users)
-		.set({ passwordHash: await hashPassword(password) })
-		.where(eq(users.id, userId));
-	await lucia.invalidateUserSessions(userId);
+/** Stores a new password hash and ends every session of the account, inside the caller's transaction. */
+export async function replacePassword(tx: Tx, userId: string, passwordHash: string): Promise<void> {
+	await tx.update(users).set({ passwordHash }).where(eq(users.id, userId));
+	await tx.delete(sessions).where(eq(sessions.userId, userId));
 }

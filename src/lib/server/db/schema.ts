@@ -96,6 +96,25 @@ export const passwordResets = pgTable('password_resets', {
 	usedAt: tstz()
 });
 
+/**
+ * Sign-ups waiting for their e-mailed link: the account is created only when the link is used,
+ * so the sign-up page answers the same whether or not the address already has an account.
+ */
+export const pendingSignUps = pgTable(
+	'pending_sign_ups',
+	{
+		tokenHash: text().primaryKey(),
+		email: text().notNull(),
+		name: text().notNull(),
+		passwordHash: text().notNull(),
+		/** Where to go once the account exists (already checked by safeNext). */
+		next: text().notNull(),
+		createdAt: tstz().notNull().defaultNow(),
+		expiresAt: tstz().notNull()
+	},
+	(t) => [index().on(t.email)]
+);
+
 /** Personal tokens for scripts calling the JSON API (shown once, stored as a hash). */
 export const apiTokens = pgTable('api_tokens', {
 	id: uuid().primaryKey().defaultRandom(),

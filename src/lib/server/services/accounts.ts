@@ -1,10 +1,13 @@
 // Signing in and signing up: the throttles, the password check and the e-mails around them, kept
 // out of the routes so the rules can be tested without a browser.
-import { eq } from 'drizzle-orm';
+import { and, eq, gt } from 'drizzle-orm';
+import { generateIdFromEntropySize } from 'lucia';
 import { db } from '../db';
-import { users } from '../db/schema';
-import { dummyPasswordHash, verifyPassword } from '../auth';
-import { beginSignInAttempt, settleSignInAttempt } from '../throttle';
+import { pendingSignUps, users } from '../db/schema';
+import { dummyPasswordHash, hashPassword, verifyPassword } from '../auth';
+import { inBackground, link, sendMail } from '../mail';
+import { beginSignInAttempt, settleSignInAttempt, takeRateLimit } from '../throttle';
+import { hashToken, newToken } from '../tokens';
 
 export type SignInResult =
 	| { ok: true; userId: string }
@@ -21,4 +24,83 @@ export async function signInWithPassword(email: string, password: string, addres
 	await settleSignInAttempt(attempt.attemptId, ok && !!user);
 	if (!user || !ok) return { ok: false, reason: 'mismatch' };
 	return { ok: true, userId: user.id };
+}
+
+export const SIGN_UP_VALID_HOURS = 24;
+
+export type SignUpResult = { ok: true } | { ok: false; reason: 'throttled' };
+
+/**
+ * Starts a sign-up: the same answer, and the same work before it, whether or not the address has
+ * an account. A new address gets a link that creates the account; an existing one gets a note to
+ * its owner instead (OWASP Authentication Cheat Sheet: account enumeration).
+ */
+export async function startSignUp(input: { name: string; email: string; password: string; next: string }, address: string, origin: string): Promise<SignUpResult> {
+	if (await takeRateLimit([{ bucket: 'sign-up:address', key: address }])) return { ok: false, reason: 'throttled' };
+	const passwordHash = await hashPassword(input.password);
+	inBackground('sign-up e-mail', async () => {
+		const existing = await db.query.users.findFirst({ where: eq(users.email, input.email), columns: { id: true } });
+		if (existing) {
+			await sendMail({
+				to: input.email,
+				subject: 'Someone tried to create a Burndown account with your address',
+				text:
+					`This address already has a Burndown account, so no new account was made.\n\n` +
+					`If it was you, sign in here: ${link('/sign-in', origin)}\n` +
+					`Forgot the password? Choose a new one here: ${link('/reset-password', origin)}\n\n` +
+					`If it was not you, ignore this message; nothing changed.`
+			});
+			return;
+		}
+		const token = newToken('sgn_');
+		await db.insert(pendingSignUps).values({
+			tokenHash: hashToken(token),
+			email: input.email,
+			name: input.name,
+			passwordHash,
+			next: input.next,
+			expiresAt: new Date(Date.now() + SIGN_UP_VALID_HOURS * 3600_000)
+		});
+		await sendMail({
+			to: input.email,
+			subject: 'Finish creating your Burndown account',
+			text:
+				`Someone (we hope you) asked to create a Burndown account for this address.\n\n` +
+				`Open this link to finish (valid ${SIGN_UP_VALID_HOURS} hours, once):\n${link(`/sign-up/${token}`, origin)}\n\n` +
+				`If it was not you, ignore this message; no account is made.`
+		});
+	});
+	return { ok: true };
+}
+
+/** The pending sign-up behind a link, if it is still open. */
+export async function findPendingSignUp(token: string) {
+	return (
+		(await db.query.pendingSignUps.findFirst({
+			where: and(eq(pendingSignUps.tokenHash, hashToken(token)), gt(pendingSignUps.expiresAt, new Date())),
+			columns: { email: true, name: true }
+		})) ?? null
+	);
+}
+
+/**
+ * Uses a sign-up link once: creates the account, and voids every other pending sign-up of the
+ * address. Null when the link is unknown, expired or used, or the address got an account meanwhile.
+ */
+export async function completeSignUp(token: string): Promise<{ userId: string; next: string } | null> {
+	return db.transaction(async (tx) => {
+		const [row] = await tx
+			.delete(pendingSignUps)
+			.where(and(eq(pendingSignUps.tokenHash, hashToken(token)), gt(pendingSignUps.expiresAt, new Date())))
+			.returning();
+		if (!row) return null;
+		await tx.delete(pendingSignUps).where(eq(pendingSignUps.email, row.email));
+		const id = generateIdFromEntropySize(10);
+		const inserted = await tx
+			.insert(users)
+			.values({ id, name: row.name, email: row.email, passwordHash: row.passwordHash })
+			.onConflictDoNothing()
+			.returning({ id: users.id });
+		return inserted.length ? { userId: id, next: row.next } : null;
+	});
 }

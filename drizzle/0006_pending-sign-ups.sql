@@ -1,0 +1,11 @@
+CREATE TABLE "pending_sign_ups" (
+	"token_hash" text PRIMARY KEY NOT NULL,
+	"email" text NOT NULL,
+	"name" text NOT NULL,
+	"password_hash" text NOT NULL,
+	"next" text NOT NULL,
+	"created_at" timestamp (3) with time zone DEFAULT now() NOT NULL,
+	"expires_at" timestamp (3) with time zone NOT NULL
+);
+--> statement-breakpoint
+CREATE INDEX "pending_sign_ups_email_index" ON "pending_sign_ups" USING btree ("email");
