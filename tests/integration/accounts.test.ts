@@ -74,8 +74,8 @@ describe('invitations', () => {
 		const stored = await db.select().from(invitations).where(eq(invitations.orgId, org.id));
 		expect(stored[0].tokenHash).not.toContain(token);
 
-		expect(await acceptInvitation(token, invitee.id)).toEqual({ orgSlug: org.slug });
-		expect(await acceptInvitation(token, invitee.id)).toBeNull();
+		expect(await acceptInvitation(token, invitee)).toEqual({ orgSlug: org.slug });
+		expect(await acceptInvitation(token, invitee)).toBeNull();
 		const m = await db.select().from(memberships).where(and(eq(memberships.orgId, org.id), eq(memberships.userId, invitee.id)));
 		expect(m.map((r) => r.role)).toEqual(['instructor']);
 	});
@@ -85,7 +85,7 @@ describe('invitations', () => {
 		const org = await createOrganisation('Copper Hollow Flyers', admin.id);
 		await inviteMember({ orgId: org.id, orgName: org.name, email: 'later@example.org', role: 'pilot', invitedBy: admin, origin: 'http://127.0.0.1:4173' });
 		const token = linksIn((await mailTo('later@example.org')).at(-1)!)[0].split('/invite/')[1];
-		await expect(acceptInvitation(token, 'no-such-user')).rejects.toThrow();
+		await expect(acceptInvitation(token, { id: 'no-such-user', email: 'later@example.org' })).rejects.toThrow();
 		const [inv] = await db.select().from(invitations).where(eq(invitations.orgId, org.id));
 		expect(inv.acceptedAt).toBeNull();
 	});

@@ -53,3 +53,16 @@ export function inBackground(label: string, work: () => Promise<void>): void {
 export async function backgroundSettled(): Promise<void> {
 	while (pending.size > 0) await Promise.allSettled([...pending]);
 }
+
+/**
+ * Words someone else chose (a name, an organisation's name) as they may appear in a message we
+ * send: one line of plain text, control and format characters gone, at most `max` characters.
+ */
+export function plainLine(value: string, max = 60): string {
+	const flat = value
+		.replace(/[\p{Cc}\p{Cf}\p{Zl}\p{Zp}]+/gu, ' ')
+		.replace(/\s+/g, ' ')
+		.trim();
+	const chars = [...flat];
+	return chars.length <= max ? flat : chars.slice(0, max - 1).join('').trimEnd() + '…';
+}

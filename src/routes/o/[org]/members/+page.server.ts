@@ -28,7 +28,8 @@ export const actions = {
 		const { org, user } = await requireMember(event, event.params.org, 'manageMembers');
 		const form = parseForm(invitationSchema, await event.request.formData());
 		if (!form.ok) return failForm(400, form.errors, form.values, 'invite');
-		await inviteMember({ orgId: org.id, orgName: org.name, email: form.data.email, role: form.data.role, invitedBy: user, origin: event.url.origin });
+		const result = await inviteMember({ orgId: org.id, orgName: org.name, email: form.data.email, role: form.data.role, invitedBy: user, origin: event.url.origin });
+		if (!result.sent) return { action: 'invite', already: result.already, email: form.data.email };
 		return { action: 'invite', invited: form.data.email };
 	},
 	role: async (event) => {
