@@ -150,3 +150,25 @@ export async function acceptInvitation(token: string, user: { id: string; email:
 		return { orgSlug: org!.slug };
 	});
 }
+
+export type MemberChange = 'done' | 'last-admin' | 'not-allowed';
+
+/**
+ * Changes a member's role, or removes the member (role null), keeping at least one admin. Runs
+ * under the organisation's row lock and re-reads the actor's role there: two admins demoting each
+ * other at once are serialised, and the second finds either one admin left or itself no admin.
+ */
+export async function changeMembership(orgId: string, actorId: string, userId: string, role: Role | null): Promise<MemberChange> {
+	return db.transaction(async (tx) => {
+		await lockOrganisation(tx, orgId);
+		const rows = await tx.select({ userId: memberships.userId, role: memberships.role }).from(memberships).where(eq(memberships.orgId, orgId));
+		if (rows.find((r) => r.userId === actorId)?.role !== 'admin') return 'not-allowed';
+		const target = rows.find((r) => r.userId === userId);
+		if (!target) return 'done';
+		const adminsAfter = rows.filter((r) => (r.userId === userId ? role === 'admin' : r.role === 'admin')).length;
+		if (adminsAfter === 0) return 'last-admin';
+		if (role === null) await tx.delete(memberships).where(and(eq(memberships.orgId, orgId), eq(memberships.userId, userId)));
+		else await tx.update(memberships).set({ role }).where(and(eq(memberships.orgId, orgId), eq(memberships.userId, userId)));
+		return 'done';
+	});
+}
