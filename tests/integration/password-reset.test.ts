@@ -142,3 +142,25 @@ describe('sign-up', () => {
 		expect(statuses.filter((s) => s === 429)).toHaveLength(2);
 	});
 });
+
+describe('common passwords', () => {
+	// OWASP ASVS 5.0 V6.2.4 (from memory): new passwords are checked against at least the 3,000
+	// most common; these two top every published list.
+	it.each(['password', '12345678', 'P@ssw0rd', 'qwertyuiop'])('refuses %j at sign-up and at reset', async (weak) => {
+		const email = `weak-${Date.now().toString(36)}${n++}@example.org`;
+		const signUp = await run(() => signUpActions.default(fakeEvent({ path: '/sign-up', form: { name: 'Weak', email, password: weak }, address: '192.0.2.240' }) as never));
+		expect(signUp.status).toBe(400);
+		expect(signUp.value.errors.password).toMatch(/common/);
+		await backgroundSettled();
+		expect(await mailTo(email)).toEqual([]);
+
+		const u = await makeUser();
+		await askReset(u.email, '192.0.2.241');
+		const [link] = await resetLinks(u.email);
+		const reset = await useReset(link, weak);
+		expect(reset.status).toBe(400);
+		expect(reset.value.errors.password).toMatch(/common/);
+		// The link is still good for a better password.
+		expect((await useReset(link, 'a much better passphrase')).redirect).toBe('/');
+	});
+});
