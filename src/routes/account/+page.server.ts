@@ -1,5 +1,7 @@
 import { and, desc, eq, isNull } from 'drizzle-orm';
+import { redirect } from '@sveltejs/kit';
 import { requireUser } from '$lib/server/access';
+import { endAllSessions, endOtherSessions, listSessions } from '$lib/server/auth';
 import { db } from '$lib/server/db';
 import { apiTokens, users } from '$lib/server/db/schema';
 import { API_TOKEN_PREFIX } from '$lib/server/hooks/authenticate';
@@ -18,7 +20,7 @@ export const load = (async (event) => {
 		.from(apiTokens)
 		.where(and(eq(apiTokens.userId, user.id), isNull(apiTokens.revokedAt)))
 		.orderBy(desc(apiTokens.createdAt));
-	return { tokens };
+	return { tokens, sessions: await listSessions(user.id, event.locals.session?.id ?? null) };
 }) satisfies PageServerLoad;
 
 export const actions = {
@@ -37,6 +39,18 @@ export const actions = {
 		await db.insert(apiTokens).values({ userId: user.id, name: form.data.name, tokenHash: hashToken(token) });
 		// Shown once: only the hash is stored.
 		return { action: 'createToken', token };
+	},
+	signOutOthers: async (event) => {
+		const user = requireUser(event);
+		// A personal API token has no session of its own to keep: it ends them all.
+		if (event.locals.session) await endOtherSessions(user.id, event.locals.session.id);
+		else await endAllSessions(user.id, event.cookies);
+		return { action: 'signOutOthers', done: true };
+	},
+	signOutEverywhere: async (event) => {
+		const user = requireUser(event);
+		await endAllSessions(user.id, event.cookies);
+		redirect(303, '/sign-in');
 	},
 	revokeToken: async (event) => {
 		const user = requireUser(event);

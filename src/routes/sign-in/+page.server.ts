@@ -22,7 +22,7 @@ export const actions = {
 			return failForm(429, { form: `Too many failed sign-ins for ${who}. Wait ${result.retryAfterMin} minutes and try again, or reset your password.` }, { email });
 		}
 		if (!result.ok) return failForm(400, { form: 'That e-mail address and password do not match an account.' }, { email });
-		await startSession(result.userId, cookies);
+		await startSession(result.userId, cookies, request.headers.get('user-agent'));
 		redirect(303, safeNext(url.searchParams.get('next')));
 	}
 } satisfies Actions;

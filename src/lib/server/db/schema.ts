@@ -47,13 +47,18 @@ export type User = typeof users.$inferSelect;
 export const sessions = pgTable(
 	'sessions',
 	{
+		/** SHA-256 (hex) of the random token in the cookie; never the token itself. */
 		id: text().primaryKey(),
 		userId: text()
 			.notNull()
 			.references(() => users.id, { onDelete: 'cascade' }),
 		expiresAt: tstz().notNull(),
 		/** Start of the session, for the absolute timeout (lucia only slides expiresAt). */
-		createdAt: tstz().notNull().defaultNow()
+		createdAt: tstz().notNull().defaultNow(),
+		/** Last request seen, written at most every few minutes (the account page's list). */
+		lastSeenAt: tstz().notNull().defaultNow(),
+		/** The browser's User-Agent at sign-in, cut to 200 characters, to tell devices apart. */
+		userAgent: text()
 	},
 	(t) => [index().on(t.userId)]
 );

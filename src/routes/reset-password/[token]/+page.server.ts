@@ -16,7 +16,7 @@ export const actions = {
 		if (weak) return failForm(400, { password: weak }, {});
 		const userId = await completePasswordReset(params.token, form.data.password);
 		if (!userId) return failForm(400, { form: 'This link has expired or was used already. Ask for a new one.' }, {});
-		await startSession(userId, cookies);
+		await startSession(userId, cookies, request.headers.get('user-agent'));
 		redirect(303, '/');
 	}
 } satisfies Actions;

@@ -13,10 +13,10 @@ export const load = (async ({ params }) => {
 }) satisfies PageServerLoad;
 
 export const actions = {
-	default: async ({ params, cookies }) => {
+	default: async ({ params, cookies, request }) => {
 		const done = await completeSignUp(params.token);
 		if (!done) return failForm(400, { form: 'This link has expired or was used already. Sign up again, or sign in.' }, {});
-		await startSession(done.userId, cookies);
+		await startSession(done.userId, cookies, request.headers.get('user-agent'));
 		redirect(303, done.next);
 	}
 } satisfies Actions;
