@@ -80,6 +80,7 @@ const MATRIX: Row[] = [
 	{ route: '/o/[org]/recorders', method: 'POST', path: () => `${O}/recorders?/revoke`, form: { id: '' }, expect: only(['admin'], 400) },
 	{ route: '/o/[org]/flights/upload', method: 'POST', path: () => `${O}/flights/upload?/saveProfile`, form: { name: '' }, expect: only(['admin', 'instructor', 'pilot', 'student'], 400) },
 	{ route: '/account', method: 'POST', path: () => '/account?/createToken', form: { name: '' }, expect: anyone(400) },
+	{ route: '/account', method: 'POST', path: () => '/account?/changePassword', form: { current: '' }, expect: anyone(400) },
 	{ route: '/account', method: 'POST', path: () => '/account?/signOutOthers', form: {}, expect: anyone(200) },
 	// An empty CSV for the trainer: members who may upload get the file's error, the rest are refused first.
 	{ route: '/api/v1/flights', method: 'POST', path: () => `/api/v1/flights?aircraftId=${DEMO_AIRCRAFT.trainer}&declaration=full`, body: { data: '', type: 'text/csv' }, expect: only(FLIGHT_EDITORS.concat('student'), 400, 401) },

@@ -87,3 +87,38 @@ describe('the account page', () => {
 		expect(here.jar.get(lucia.sessionCookieName)).toBeFalsy();
 	});
 });
+
+describe('changing the password on the account page', () => {
+	const change = (d: Awaited<ReturnType<typeof device>>, form: Record<string, string>, address = '192.0.2.150') =>
+		run(() => accountActions.changePassword(fakeEvent({ path: '/account?/changePassword', form, user: d.user, session: d.session, cookies: d.jar, address, routeId: '/account' }) as never));
+
+	it('needs the current password, refuses common ones, and ends the other sessions', async () => {
+		const userId = await makeUser();
+		const other = await device(userId);
+		const here = await device(userId);
+
+		const wrong = await change(here, { current: 'not it', password: 'a newer passphrase', confirm: 'a newer passphrase' });
+		expect(wrong.status).toBe(400);
+		expect(wrong.value.errors.current).toMatch(/not your current password/);
+
+		// OWASP ASVS 5.0 V6.2.4 (from memory): the common-password check applies to changes too.
+		const weak = await change(here, { current: 'a good passphrase', password: 'password', confirm: 'password' });
+		expect(weak.status).toBe(400);
+		expect(weak.value.errors.password).toMatch(/common/);
+
+		expect((await change(here, { current: 'a good passphrase', password: 'a newer passphrase', confirm: 'a newer passphrase' })).status).toBe(200);
+		const row = await db.query.users.findFirst({ where: eq(users.id, userId) });
+		const { verifyPassword } = await import('$lib/server/auth');
+		expect(await verifyPassword(row!.passwordHash, 'a newer passphrase')).toBe(true);
+		expect((await readSession(other.jar as never)).user).toBeNull();
+		expect((await readSession(here.jar as never)).user?.id).toBe(userId);
+	});
+
+	it('counts wrong current passwords against the sign-in throttle', async () => {
+		const userId = await makeUser();
+		const here = await device(userId);
+		const statuses = [];
+		for (let i = 0; i < 12; i++) statuses.push((await change(here, { current: `guess ${i}`, password: 'a newer passphrase', confirm: 'a newer passphrase' }, `198.51.100.${i}`)).status);
+		expect(statuses.filter((s) => s === 429).length).toBeGreaterThanOrEqual(2);
+	});
+});

@@ -139,8 +139,11 @@ export async function endAllSessions(userId: string, cookies: Cookies): Promise<
 	clearSessionCookie(cookies);
 }
 
-/** Stores a new password hash and ends every session of the account, inside the caller's transaction. */
-export async function replacePassword(tx: Tx, userId: string, passwordHash: string): Promise<void> {
+/**
+ * Stores a new password hash and ends every session of the account (but `keepSessionId`, the
+ * device that changed it), inside the caller's transaction.
+ */
+export async function replacePassword(tx: Tx, userId: string, passwordHash: string, keepSessionId?: string): Promise<void> {
 	await tx.update(users).set({ passwordHash }).where(eq(users.id, userId));
-	await tx.delete(sessions).where(eq(sessions.userId, userId));
+	await tx.delete(sessions).where(keepSessionId ? and(eq(sessions.userId, userId), ne(sessions.id, keepSessionId)) : eq(sessions.userId, userId));
 }

@@ -7,7 +7,9 @@ import { apiTokens, users } from '$lib/server/db/schema';
 import { API_TOKEN_PREFIX } from '$lib/server/hooks/authenticate';
 import { hashToken, newToken } from '$lib/server/tokens';
 import { failForm, parseForm } from '$lib/schemas/form';
-import { preferencesSchema } from '$lib/schemas/account';
+import { changePasswordSchema, preferencesSchema } from '$lib/schemas/account';
+import { commonPasswordError } from '$lib/server/passwords';
+import { changePassword } from '$lib/server/services/accounts';
 import { z } from 'zod';
 import type { Actions, PageServerLoad } from './$types';
 
@@ -39,6 +41,17 @@ export const actions = {
 		await db.insert(apiTokens).values({ userId: user.id, name: form.data.name, tokenHash: hashToken(token) });
 		// Shown once: only the hash is stored.
 		return { action: 'createToken', token };
+	},
+	changePassword: async (event) => {
+		const user = requireUser(event);
+		const form = parseForm(changePasswordSchema, await event.request.formData());
+		if (!form.ok) return failForm(400, form.errors, {}, 'changePassword');
+		const weak = commonPasswordError(form.data.password);
+		if (weak) return failForm(400, { password: weak }, {}, 'changePassword');
+		const result = await changePassword(user, form.data.current, form.data.password, event.locals.session?.id ?? null, event.getClientAddress());
+		if (typeof result === 'object') return failForm(429, { current: `Too many failed attempts for this account. Wait ${result.throttled} minutes and try again.` }, {}, 'changePassword');
+		if (result === 'wrong-current') return failForm(400, { current: 'That is not your current password.' }, {}, 'changePassword');
+		return { action: 'changePassword', changed: true };
 	},
 	signOutOthers: async (event) => {
 		const user = requireUser(event);

@@ -4,7 +4,7 @@ import { and, eq, gt } from 'drizzle-orm';
 import { generateIdFromEntropySize } from 'lucia';
 import { db } from '../db';
 import { pendingSignUps, users } from '../db/schema';
-import { dummyPasswordHash, hashPassword, verifyPassword } from '../auth';
+import { dummyPasswordHash, hashPassword, replacePassword, verifyPassword } from '../auth';
 import { inBackground, link, sendMail } from '../mail';
 import { beginSignInAttempt, settleSignInAttempt, takeRateLimit } from '../throttle';
 import { hashToken, newToken } from '../tokens';
@@ -103,4 +103,23 @@ export async function completeSignUp(token: string): Promise<{ userId: string; n
 			.returning({ id: users.id });
 		return inserted.length ? { userId: id, next: row.next } : null;
 	});
+}
+
+export type ChangePasswordResult = 'done' | 'wrong-current' | { throttled: number };
+
+/**
+ * Changes a signed-in user's password after checking the current one. The check counts against
+ * the sign-in throttle like a sign-in, so this form is no side door for guessing; the change ends
+ * every other session of the account and keeps this one.
+ */
+export async function changePassword(user: { id: string; email: string }, current: string, next: string, sessionId: string | null, address: string): Promise<ChangePasswordResult> {
+	const attempt = await beginSignInAttempt(user.email, address);
+	if (!attempt.allowed) return { throttled: attempt.retryAfterMin };
+	const row = await db.query.users.findFirst({ where: eq(users.id, user.id), columns: { passwordHash: true } });
+	const ok = !!row && (await verifyPassword(row.passwordHash, current));
+	await settleSignInAttempt(attempt.attemptId, ok);
+	if (!ok) return 'wrong-current';
+	const passwordHash = await hashPassword(next);
+	await db.transaction((tx) => replacePassword(tx, user.id, passwordHash, sessionId ?? undefined));
+	return 'done';
 }
