@@ -4,12 +4,13 @@ import { failForm, parseForm, withoutSecrets } from '$lib/schemas/form';
 import { signUpSchema } from '$lib/schemas/account';
 import { safeNext } from '$lib/server/redirects';
 import { commonPasswordError } from '$lib/server/passwords';
+import { mailboxEnabled } from '$lib/server/mail/mailbox';
 import type { Actions, PageServerLoad } from './$types';
 
 // Public by design. The answer never says whether the address already has an account.
 export const load = (async ({ locals, url }) => {
 	if (locals.user) redirect(303, safeNext(url.searchParams.get('next')));
-	return {};
+	return { demo: mailboxEnabled() };
 }) satisfies PageServerLoad;
 
 export const actions = {
