@@ -1,6 +1,6 @@
 // Signing in and signing up: the throttles, the password check and the e-mails around them, kept
 // out of the routes so the rules can be tested without a browser.
-import { and, eq, gt } from 'drizzle-orm';
+import { and, eq, gt, lt } from 'drizzle-orm';
 import { generateIdFromEntropySize } from 'lucia';
 import { db } from '../db';
 import { pendingSignUps, users } from '../db/schema';
@@ -52,6 +52,8 @@ export async function startSignUp(input: { name: string; email: string; password
 			});
 			return;
 		}
+		// Keep the table small: links past their day are of no use.
+		if (Math.random() < 0.05) await db.delete(pendingSignUps).where(lt(pendingSignUps.expiresAt, new Date()));
 		const token = newToken('sgn_');
 		await db.insert(pendingSignUps).values({
 			tokenHash: hashToken(token),
