@@ -83,6 +83,9 @@ const server = new SMTPServer({
 		receive(stream, session).then(
 			(mail) => {
 				console.log(`mail sink: ${mail.subject || '(no subject)'} → ${mail.to.join(', ')}`);
+				// The links too: a signed-out demo visitor (finishing a sign-up, say) has no mailbox
+				// page to read, and whoever runs the sink can read its folder anyway.
+				for (const href of mail.text.match(/https?:\/\/[^\s<>"]+/g) ?? []) console.log(`mail sink:   ${href}`);
 				callback();
 			},
 			(error: Error & { responseCode?: number }) => {

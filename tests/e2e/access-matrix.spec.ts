@@ -44,6 +44,8 @@ const MATRIX: Row[] = [
 	{ route: '/orgs', method: 'GET', path: () => '/orgs', expect: anyone(200) },
 	{ route: '/orgs', method: 'POST', path: () => '/orgs?/create', form: { name: '' }, expect: anyone(400, 303) },
 	{ route: '/account', method: 'GET', path: () => '/account', expect: anyone(200) },
+	// Demo mode only (the end-to-end app runs in it): each user's own mail.
+	{ route: '/dev/mailbox', method: 'GET', path: () => '/dev/mailbox', expect: anyone(200) },
 	{ route: '/o/[org]', method: 'GET', path: () => O, expect: members(200) },
 	{ route: '/o/[org]/aircraft', method: 'GET', path: () => `${O}/aircraft`, expect: members(200) },
 	{ route: '/o/[org]/aircraft/new', method: 'GET', path: () => `${O}/aircraft/new`, expect: only(['admin'], 200) },
@@ -87,8 +89,12 @@ const MATRIX: Row[] = [
 	{ route: '/account', method: 'POST', path: () => '/account?/createToken', form: { name: '' }, expect: anyone(400) },
 	{ route: '/account', method: 'POST', path: () => '/account?/preferences', form: { prefFuelUnit: 'furlongs' }, expect: anyone(400) },
 	{ route: '/account', method: 'POST', path: () => '/account?/revokeToken', form: { id: '' }, expect: anyone(400) },
+	{ route: '/account', method: 'POST', path: () => '/account?/changePassword', form: { current: '' }, expect: anyone(400) },
+	{ route: '/account', method: 'POST', path: () => '/account?/signOutOthers', form: {}, expect: anyone(200) },
 	// An empty CSV for the trainer: members who may upload get the file's error, the rest are refused first.
-	{ route: '/api/v1/flights', method: 'POST', path: () => `/api/v1/flights?aircraftId=${DEMO_AIRCRAFT.trainer}&declaration=full`, body: { data: '', type: 'text/csv' }, expect: only(FLIGHT_EDITORS.concat('student'), 400, 401) }
+	{ route: '/api/v1/flights', method: 'POST', path: () => `/api/v1/flights?aircraftId=${DEMO_AIRCRAFT.trainer}&declaration=full`, body: { data: '', type: 'text/csv' }, expect: only(FLIGHT_EDITORS.concat('student'), 400, 401) },
+	// Last: it ends the role's own session, so every row after it would see a signed-out user.
+	{ route: '/account', method: 'POST', path: () => '/account?/signOutEverywhere', form: {}, expect: anyone(303) }
 ];
 
 /** Routes that need no membership: public by design (the one list), or checked elsewhere. */

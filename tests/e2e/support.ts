@@ -1,6 +1,7 @@
 // Shared steps for the end-to-end tests: demo accounts, signing in through the real form, and a
 // request context signed in as a role (for the route × role matrix).
 import { expect, request, type APIRequestContext, type Page } from '@playwright/test';
+import { linksIn, waitForMail } from '../helpers/mailbox';
 
 export const ORIGIN = 'http://127.0.0.1:4173';
 export const DEMO_PASSWORD = 'burndown-demo';
@@ -48,4 +49,28 @@ export async function apiAs(role: DemoRole | 'anonymous'): Promise<APIRequestCon
 /** A unique address per test run, so reruns against the same database do not collide. */
 export function uniqueEmail(prefix: string): string {
 	return `${prefix}-${Date.now().toString(36)}${Math.floor(Math.random() * 1e4)}@example.org`;
+}
+
+/**
+ * Submits the sign-up form already filled on `page`, then follows the e-mailed link (read from
+ * the test mail sink's folder) and creates the account.
+ */
+export async function finishSignUp(page: Page, email: string): Promise<void> {
+	await page.getByRole('button', { name: 'Create account' }).click();
+	await expect(page.getByRole('status')).toContainText(email);
+	const mail = await waitForMail(email, { predicate: (m) => m.subject.startsWith('Finish creating') });
+	const href = linksIn(mail).find((l) => l.includes('/sign-up/'));
+	expect(href, 'sign-up link in the e-mail').toBeTruthy();
+	await page.goto(new URL(href!).pathname);
+	await page.getByRole('button', { name: 'Create my account' }).click();
+	await expect(page).not.toHaveURL(/\/sign-up/);
+}
+
+/** Signs up a new account through the form and the e-mailed link. */
+export async function signUp(page: Page, name: string, email: string, password: string): Promise<void> {
+	await page.goto('/sign-up');
+	await page.getByLabel('Your name').fill(name);
+	await page.getByLabel('E-mail').fill(email);
+	await page.getByLabel('Password').fill(password);
+	await finishSignUp(page, email);
 }

@@ -1,16 +1,12 @@
 // Sign-in throttling: after 10 failed attempts in 15 minutes an account is refused with a clear
 // message, even with the right password (OWASP ASVS 2.2.1 allows at most 100 failures an hour).
 import { expect, test } from '@playwright/test';
-import { uniqueEmail } from './support';
+import { signUp, uniqueEmail } from './support';
 
 test('an account is throttled after repeated failed sign-ins', async ({ page }) => {
 	const email = uniqueEmail('target');
 	const password = 'the real passphrase';
-	await page.goto('/sign-up');
-	await page.getByLabel('Your name').fill('Casey Marsh');
-	await page.getByLabel('E-mail').fill(email);
-	await page.getByLabel('Password').fill(password);
-	await page.getByRole('button', { name: 'Create account' }).click();
+	await signUp(page, 'Casey Marsh', email, password);
 	await page.getByRole('button', { name: 'Sign out' }).click();
 
 	const attempt = (pw: string) =>

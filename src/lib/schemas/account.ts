@@ -31,6 +31,10 @@ export const resetPasswordSchema = z
 	.object({ password, confirm: z.string() })
 	.refine((v) => v.password === v.confirm, { message: 'The two passwords differ.', path: ['confirm'] });
 
+export const changePasswordSchema = z
+	.object({ current: z.string().min(1, 'Enter your current password.').max(128, 'Use at most 128 characters.'), password, confirm: z.string() })
+	.refine((v) => v.password === v.confirm, { message: 'The two passwords differ.', path: ['confirm'] });
+
 export const preferencesSchema = z.object({
 	prefFuelUnit: z.enum(['', 'usgal', 'l', 'impgal', 'lb', 'kg']).transform((v) => (v === '' ? null : v))
 });

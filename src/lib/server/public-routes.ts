@@ -7,6 +7,7 @@ export const PUBLIC_ROUTES: ReadonlyMap<string, string> = new Map([
 	['/', 'the product page; members are sent on to their organisation'],
 	['/sign-in', 'signing in'],
 	['/sign-up', 'creating an account'],
+	['/sign-up/[token]', 'confirming a sign-up: the e-mailed link is the credential'],
 	['/sign-out', 'ends the current session, if any'],
 	['/reset-password', 'asking for a reset link'],
 	['/reset-password/[token]', 'the link itself is the credential'],

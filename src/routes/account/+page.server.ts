@@ -1,12 +1,16 @@
 import { and, desc, eq, isNull } from 'drizzle-orm';
+import { redirect } from '@sveltejs/kit';
 import { requireUser } from '$lib/server/access';
+import { endAllSessions, endOtherSessions, listSessions } from '$lib/server/auth';
 import { db } from '$lib/server/db';
 import { apiTokens, users } from '$lib/server/db/schema';
 import { API_TOKEN_PREFIX } from '$lib/server/hooks/authenticate';
 import { hashToken, newToken } from '$lib/server/tokens';
 import { failForm, parseForm } from '$lib/schemas/form';
 import { plainText } from '$lib/schemas/text';
-import { preferencesSchema } from '$lib/schemas/account';
+import { changePasswordSchema, preferencesSchema } from '$lib/schemas/account';
+import { commonPasswordError } from '$lib/server/passwords';
+import { changePassword } from '$lib/server/services/accounts';
 import { z } from 'zod';
 import type { Actions, PageServerLoad } from './$types';
 
@@ -19,7 +23,7 @@ export const load = (async (event) => {
 		.from(apiTokens)
 		.where(and(eq(apiTokens.userId, user.id), isNull(apiTokens.revokedAt)))
 		.orderBy(desc(apiTokens.createdAt));
-	return { tokens };
+	return { tokens, sessions: await listSessions(user.id, event.locals.session?.id ?? null) };
 }) satisfies PageServerLoad;
 
 export const actions = {
@@ -38,6 +42,29 @@ export const actions = {
 		await db.insert(apiTokens).values({ userId: user.id, name: form.data.name, tokenHash: hashToken(token) });
 		// Shown once: only the hash is stored.
 		return { action: 'createToken', token };
+	},
+	changePassword: async (event) => {
+		const user = requireUser(event);
+		const form = parseForm(changePasswordSchema, await event.request.formData());
+		if (!form.ok) return failForm(400, form.errors, {}, 'changePassword');
+		const weak = commonPasswordError(form.data.password);
+		if (weak) return failForm(400, { password: weak }, {}, 'changePassword');
+		const result = await changePassword(user, form.data.current, form.data.password, event.locals.session?.id ?? null, event.getClientAddress());
+		if (typeof result === 'object') return failForm(429, { current: `Too many failed attempts for this account. Wait ${result.throttled} minutes and try again.` }, {}, 'changePassword');
+		if (result === 'wrong-current') return failForm(400, { current: 'That is not your current password.' }, {}, 'changePassword');
+		return { action: 'changePassword', changed: true };
+	},
+	signOutOthers: async (event) => {
+		const user = requireUser(event);
+		// A personal API token has no session of its own to keep: it ends them all.
+		if (event.locals.session) await endOtherSessions(user.id, event.locals.session.id);
+		else await endAllSessions(user.id, event.cookies);
+		return { action: 'signOutOthers', done: true };
+	},
+	signOutEverywhere: async (event) => {
+		const user = requireUser(event);
+		await endAllSessions(user.id, event.cookies);
+		redirect(303, '/sign-in');
 	},
 	revokeToken: async (event) => {
 		const user = requireUser(event);

@@ -1,9 +1,6 @@
 import { redirect } from '@sveltejs/kit';
-import { eq } from 'drizzle-orm';
-import { db } from '$lib/server/db';
-import { users } from '$lib/server/db/schema';
-import { dummyPasswordHash, startSession, verifyPassword } from '$lib/server/auth';
-import { checkSignInThrottle, recordSignInAttempt } from '$lib/server/throttle';
+import { startSession } from '$lib/server/auth';
+import { signInWithPassword } from '$lib/server/services/accounts';
 import { failForm, parseForm, withoutSecrets } from '$lib/schemas/form';
 import { signInSchema } from '$lib/schemas/account';
 import { safeNext } from '$lib/server/redirects';
@@ -19,20 +16,13 @@ export const actions = {
 		const form = parseForm(signInSchema, await request.formData());
 		if (!form.ok) return failForm(400, form.errors, withoutSecrets(form.values));
 		const { email, password } = form.data;
-		const address = getClientAddress();
-
-		const verdict = await checkSignInThrottle(email, address);
-		if (!verdict.allowed) {
-			const who = verdict.scope === 'account' ? 'this account' : 'your network address';
-			return failForm(429, { form: `Too many failed sign-ins for ${who}. Wait ${verdict.retryAfterMin} minutes and try again, or reset your password.` }, { email });
+		const result = await signInWithPassword(email, password, getClientAddress());
+		if (!result.ok && result.reason === 'throttled') {
+			const who = result.scope === 'account' ? 'this account' : 'your network address';
+			return failForm(429, { form: `Too many failed sign-ins for ${who}. Wait ${result.retryAfterMin} minutes and try again, or reset your password.` }, { email });
 		}
-
-		const user = await db.query.users.findFirst({ where: eq(users.email, email) });
-		const ok = await verifyPassword(user?.passwordHash ?? (await dummyPasswordHash()), password);
-		await recordSignInAttempt(email, address, ok && !!user);
-		if (!user || !ok) return failForm(400, { form: 'That e-mail address and password do not match an account.' }, { email });
-
-		await startSession(user.id, cookies);
+		if (!result.ok) return failForm(400, { form: 'That e-mail address and password do not match an account.' }, { email });
+		await startSession(result.userId, cookies, request.headers.get('user-agent'));
 		redirect(303, safeNext(url.searchParams.get('next')));
 	}
 } satisfies Actions;

@@ -48,13 +48,18 @@ export type User = typeof users.$inferSelect;
 export const sessions = pgTable(
 	'sessions',
 	{
+		/** SHA-256 (hex) of the random token in the cookie; never the token itself. */
 		id: text().primaryKey(),
 		userId: text()
 			.notNull()
 			.references(() => users.id, { onDelete: 'cascade' }),
 		expiresAt: tstz().notNull(),
 		/** Start of the session, for the absolute timeout (lucia only slides expiresAt). */
-		createdAt: tstz().notNull().defaultNow()
+		createdAt: tstz().notNull().defaultNow(),
+		/** Last request seen, written at most every few minutes (the account page's list). */
+		lastSeenAt: tstz().notNull().defaultNow(),
+		/** The browser's User-Agent at sign-in, cut to 200 characters, to tell devices apart. */
+		userAgent: text()
 	},
 	(t) => [index().on(t.userId)]
 );
@@ -73,6 +78,21 @@ export const signInAttempts = pgTable(
 	(t) => [index().on(t.email, t.at), index().on(t.address, t.at)]
 );
 
+/**
+ * One row per counted request for the other rate limits (password-reset requests, sign-ups),
+ * by bucket ('reset:account', 'sign-up:address', …) and key (an address or an e-mail).
+ */
+export const rateLimitEvents = pgTable(
+	'rate_limit_events',
+	{
+		id: bigint({ mode: 'number' }).primaryKey().generatedAlwaysAsIdentity(),
+		bucket: text().notNull(),
+		key: text().notNull(),
+		at: tstz().notNull().defaultNow()
+	},
+	(t) => [index().on(t.bucket, t.key, t.at)]
+);
+
 export const passwordResets = pgTable('password_resets', {
 	tokenHash: text().primaryKey(),
 	userId: text()
@@ -81,6 +101,25 @@ export const passwordResets = pgTable('password_resets', {
 	expiresAt: tstz().notNull(),
 	usedAt: tstz()
 });
+
+/**
+ * Sign-ups waiting for their e-mailed link: the account is created only when the link is used,
+ * so the sign-up page answers the same whether or not the address already has an account.
+ */
+export const pendingSignUps = pgTable(
+	'pending_sign_ups',
+	{
+		tokenHash: text().primaryKey(),
+		email: text().notNull(),
+		name: text().notNull(),
+		passwordHash: text().notNull(),
+		/** Where to go once the account exists (already checked by safeNext). */
+		next: text().notNull(),
+		createdAt: tstz().notNull().defaultNow(),
+		expiresAt: tstz().notNull()
+	},
+	(t) => [index().on(t.email)]
+);
 
 /** Personal tokens for scripts calling the JSON API (shown once, stored as a hash). */
 export const apiTokens = pgTable('api_tokens', {

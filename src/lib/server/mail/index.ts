@@ -34,3 +34,35 @@ export async function sendMail(message: Message): Promise<void> {
 export function link(path: string, fallbackOrigin?: string): string {
 	return new URL(path, process.env.ORIGIN ?? fallbackOrigin ?? 'http://127.0.0.1:5180').toString();
 }
+
+const pending = new Set<Promise<void>>();
+
+/**
+ * Runs work (look-ups, writes, sending) after the caller has answered, so a response takes the
+ * same time whether or not there was anything to send. Failures are logged, never thrown.
+ */
+export function inBackground(label: string, work: () => Promise<void>): void {
+	const task: Promise<void> = new Promise<void>((resolve) => setImmediate(resolve))
+		.then(work)
+		.catch((error) => console.error(`[mail] ${label} failed:`, error))
+		.finally(() => pending.delete(task));
+	pending.add(task);
+}
+
+/** Resolves once every background task started so far (and any they started) has finished. */
+export async function backgroundSettled(): Promise<void> {
+	while (pending.size > 0) await Promise.allSettled([...pending]);
+}
+
+/**
+ * Words someone else chose (a name, an organisation's name) as they may appear in a message we
+ * send: one line of plain text, control and format characters gone, at most `max` characters.
+ */
+export function plainLine(value: string, max = 60): string {
+	const flat = value
+		.replace(/[\p{Cc}\p{Cf}\p{Zl}\p{Zp}]+/gu, ' ')
+		.replace(/\s+/g, ' ')
+		.trim();
+	const chars = [...flat];
+	return chars.length <= max ? flat : chars.slice(0, max - 1).join('').trimEnd() + '…';
+}

@@ -1,5 +1,6 @@
 // Reads the local SMTP sink's folder for the development/demo mailbox page. Never enabled in
-// production: only when BURNDOWN_DEMO=1 and MAILBOX_DIR is set.
+// production: only when BURNDOWN_DEMO=1 and MAILBOX_DIR is set. The page shows a signed-in user
+// only their own messages: the sink also holds everyone's reset and invitation links.
 import { readdir, readFile } from 'node:fs/promises';
 import { join } from 'node:path';
 
@@ -18,7 +19,13 @@ export interface StoredMessage {
 
 export const mailboxEnabled = () => process.env.BURNDOWN_DEMO === '1' && !!process.env.MAILBOX_DIR;
 
-export async function listMailbox(limit = 100): Promise<StoredMessage[]> {
+/** The newest messages delivered to `address` (compared without regard to case). */
+export async function listMailboxFor(address: string, limit = 100): Promise<StoredMessage[]> {
+	const wanted = address.toLowerCase();
+	return (await listMailbox()).filter((m) => m.to.some((t) => t.toLowerCase() === wanted)).slice(0, limit);
+}
+
+async function listMailbox(): Promise<StoredMessage[]> {
 	const dir = process.env.MAILBOX_DIR;
 	if (!dir) return [];
 	let names: string[];
@@ -38,6 +45,5 @@ export async function listMailbox(limit = 100): Promise<StoredMessage[]> {
 	);
 	return messages
 		.filter((m): m is StoredMessage => m !== null)
-		.sort((a, b) => b.date.localeCompare(a.date))
-		.slice(0, limit);
+		.sort((a, b) => b.date.localeCompare(a.date));
 }
