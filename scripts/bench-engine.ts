@@ -125,7 +125,8 @@ function main(): void {
 		profile: { capacityL: 200, lowerLevelL: 130, unusableL: 8, densityKgPerL: 0.719, meterFactor: 1.02 },
 		declaration: { kind: 'full' },
 		events,
-		thresholds: { lowFuelL: 40, lowEnduranceMin: 45 }
+		thresholds: { lowFuelL: 40, lowEnduranceMin: 45 },
+		reserve: { ruleId: 'faa-91.151-vfr-day' }
 	};
 
 	for (let r = 0; r < WARMUP_RUNS; r++) computeFlight(input);
@@ -150,7 +151,7 @@ function main(): void {
 	const msPerMillion = (median * 1_000_000) / SAMPLES;
 
 	const s0 = performance.now();
-	const summary = summarize(result, { reserve: { ruleId: 'faa-91.151-vfr-day' } });
+	const summary = summarize(result);
 	const summaryMs = performance.now() - s0;
 
 	console.log('\nbatch computeFlight (full per-sample state)');
@@ -204,7 +205,8 @@ function main(): void {
 	const n = appends * APPEND_CHUNK;
 	for (let i = 0; i < n; i++) {
 		if (!Object.is(liveResult.onBoard[i], result.onBoard[i])) mismatches++;
-		if (!Object.is(liveResult.reserveAtWpt[i], result.reserveAtWpt[i])) mismatches++;
+		if (!Object.is(liveResult.arrivalL[i], result.arrivalL[i])) mismatches++;
+		if (!Object.is(liveResult.reserveL[i], result.reserveL[i])) mismatches++;
 	}
 
 	// Steady state: 10 more samples onto a flight that already holds a million.

@@ -1,9 +1,9 @@
 // The exported fuel log: the engine's figures as CSV, one row per sample or one per minute, in a
 // chosen fuel unit (distances in NM, speeds in kt, times UTC), and the flight summary as CSV.
 import type { FlightComputation, FlightSummary, SampleColumns } from '$lib/fuel';
-import { WPT_NONE } from '$lib/fuel';
+import { alarmKinds, cruiseBasisCodes, WPT_NONE } from '$lib/fuel';
 import { fromLitres, type FuelUnit } from '$lib/units';
-import { alarmLabels, flagWords, phaseIds } from '$lib/components/replay/labels';
+import { alarmLabels, arrivalWords, flagWords, phaseIds } from '$lib/components/replay/labels';
 
 export type LogEvery = 'sample' | 'minute';
 
@@ -57,8 +57,12 @@ export function fuelLogCsv(x: FuelLogInput): string {
 		'waypoint',
 		'time_to_wpt_min',
 		`fuel_to_wpt_${unit}`,
-		`reserve_at_wpt_${unit}`,
-		'reserve_at_wpt_min',
+		`left_on_arrival_${unit}`,
+		`reserve_${unit}`,
+		'reserve_basis',
+		`arrival_margin_${unit}`,
+		'arrival_margin_cruise_min',
+		'arrival',
 		`specific_range_nm_per_${unit}`,
 		'alarms',
 		'flags'
@@ -67,7 +71,6 @@ export function fuelLogCsv(x: FuelLogInput): string {
 	const rows = x.every === 'minute' ? minuteRows(c.t, n) : Array.from({ length: n }, (_, i) => i);
 	const t0 = n > 0 ? c.t[0] : 0;
 	const lines = [header.join(',')];
-	const alarmKinds = ['lowFuel', 'lowEndurance', 'negativeReserve'] as const;
 	for (const i of rows) {
 		const w = c.wpt ? c.wpt[i] : WPT_NONE;
 		const alarms = alarmKinds.filter((_, k) => r.alarmState[i] & (1 << k)).map((k) => alarmLabels[k]);
@@ -85,8 +88,12 @@ export function fuelLogCsv(x: FuelLogInput): string {
 				quote(w === WPT_NONE ? '' : (x.waypoints[w] ?? '')),
 				cell(r.timeToWpt[i] * 60, 1),
 				cell(fuel(r.fuelToWpt[i]), 3),
-				cell(fuel(r.reserveAtWpt[i]), 3),
-				cell(r.reserveAtWptMin[i], 1),
+				cell(fuel(r.arrivalL[i]), 3),
+				cell(fuel(r.reserveL[i]), 3),
+				Number.isFinite(r.reserveL[i]) ? (cruiseBasisCodes[r.reserveBasis[i]] ?? '') : '',
+				cell(fuel(r.arrivalL[i] - r.reserveL[i]), 3),
+				cell(r.arrivalMarginMin[i], 1),
+				arrivalWords[r.arrivalState[i]]?.id ?? '',
 				cell(r.specificRange[i] * perUnit, 3),
 				quote(alarms.join('; ')),
 				flagWords(r.flags[i]).join(' ')
@@ -124,18 +131,21 @@ export function summaryCsv(
 		['cruise_specific_range', num(s.cruiseSpecificRangeNmPerL === null ? null : s.cruiseSpecificRangeNmPerL * perUnit, 3), `NM/${u}`],
 		['distance', num(s.distanceNm, 1), 'NM'],
 		['average_gs', num(s.averageGsKt, 1), 'kt'],
-		['lowest_reserve_at_wpt', fuel(s.lowestReserveAtWpt?.reserveL), u],
-		['lowest_reserve_at_wpt_min', num(s.lowestReserveAtWpt?.minutes, 1), 'min'],
-		['lowest_reserve_at_wpt_time_utc', when(s.lowestReserveAtWpt?.t), ''],
-		[
-			'lowest_reserve_at_wpt_waypoint',
-			s.lowestReserveAtWpt?.wpt === null || s.lowestReserveAtWpt?.wpt === undefined ? '' : (meta.waypoints[s.lowestReserveAtWpt.wpt] ?? ''),
-			''
-		],
 		['reserve_rule', s.reserve?.rule.label ?? '', s.reserve?.rule.citation ?? ''],
 		['reserve_amount', fuel(s.reserve?.amountL), u],
-		['reserve_basis', s.reserve?.note ?? '', ''],
-		['reserve_reached_utc', when(s.reserveReached?.t), s.reserveReached?.alreadyBelow ? 'already below at the last sample' : 'at the last flow'],
+		['reserve_basis', s.reserve?.basis ?? '', s.reserve?.note ?? ''],
+		['verdict', s.verdict?.state ?? '', 'fuel on board at shutdown against the reserve amount'],
+		['landed_margin', fuel(s.verdict?.marginL), u],
+		['landed_margin_cruise_min', num(s.verdict?.marginMin, 1), 'min at normal cruise'],
+		['thinnest_arrival_margin', fuel(s.thinnestMargin?.marginL), `${u}, airborne, held for the alarm persistence`],
+		['thinnest_arrival_margin_cruise_min', num(s.thinnestMargin?.minutes, 1), 'min at normal cruise'],
+		['thinnest_arrival_margin_time_utc', when(s.thinnestMargin?.t), ''],
+		[
+			'thinnest_arrival_margin_waypoint',
+			s.thinnestMargin?.wpt === null || s.thinnestMargin?.wpt === undefined ? '' : (meta.waypoints[s.thinnestMargin.wpt] ?? ''),
+			''
+		],
+		['below_reserve_from_utc', when(s.reserveReachedAt?.t), 'first moment in the flight with fuel on board below the reserve amount'],
 		['gaps', String(s.gapCount), ''],
 		['gap_time_min', num(s.gapTimeS / 60, 1), 'min'],
 		['alarms', String(s.alarmCount), '']

@@ -2,7 +2,6 @@
 // fuel inputs: recomputed from the stored rows with the same engine the browser runs, after an
 // upload, a declaration change or a fuel event added or removed.
 import { and, desc, eq, ne } from 'drizzle-orm';
-import { reserveOf } from '$lib/flight-inputs';
 import { computeFlight, summarize, type FlightComputation, type FlightSummary } from '$lib/fuel';
 import { db } from '../db';
 import { aircraft, flights } from '../db/schema';
@@ -10,7 +9,7 @@ import { loadFlight, type LoadedFlight, type Queryable } from './load';
 
 export function computeLoaded(f: LoadedFlight): { computation: FlightComputation; summary: FlightSummary } {
 	const computation = computeFlight(f.input);
-	return { computation, summary: summarize(computation, { reserve: reserveOf(f.setup) }) };
+	return { computation, summary: summarize(computation) };
 }
 
 /**

@@ -34,7 +34,8 @@ import {
 	type UploadProgress
 } from '$lib/csv';
 import { computeFlight, summarize, WPT_NONE, type FlightSummary, type SampleColumns } from '$lib/fuel';
-import { engineInputsOf, reserveOf } from '$lib/flight-inputs';
+import { engineInputsOf, fuelSetupOf } from '$lib/flight-inputs';
+import { recentCruiseFlowLph } from '../flights/recent-cruise';
 import { declarationProblem, toDeclaration } from '$lib/schemas/declaration';
 import { db as poolDb, pool } from '../db';
 import * as schema from '../db/schema';
@@ -354,8 +355,10 @@ export async function ingestRecorderFile(req: IngestRequest): Promise<IngestResu
 		const declaration = toDeclaration(req.declaration, a);
 
 		progress({ phase: 'storing', step: 'summary', rows });
-		const computation = computeFlight({ columns: columns.columns(), ...engineInputsOf(a, { declaration, previousOnBoardL }, []) });
-		const flightSummary = summarize(computation, { reserve: reserveOf(a) });
+		// Earlier flights only, committed before this upload: read outside this transaction.
+		const recent = await recentCruiseFlowLph(a.id, { id: flightId, startedAt: first });
+		const computation = computeFlight({ columns: columns.columns(), ...engineInputsOf(fuelSetupOf(a, recent), { declaration, previousOnBoardL }, []) });
+		const flightSummary = summarize(computation);
 		const warnings = [...computation.warnings.map((w) => w.message), ...computation.problems.slice(0, 10).map((p) => p.message)];
 
 		progress({ phase: 'storing', step: 'original', rows });
