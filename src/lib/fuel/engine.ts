@@ -56,6 +56,50 @@ import {
 	timeToWaypointH
 } from './waypoint';
 
+
+/*
+ * Module-level copies of what the kernel uses per sample: an imported binding can compile to a
+ * getter call (CommonJS interop in tsx and the test runner), which at a million samples costs as
+ * much as the arithmetic. Same values, read directly.
+ */
+const K_PHASE_STOPPED = PHASE_STOPPED;
+const K_PHASE_TAXI = PHASE_TAXI;
+const K_PHASE_CLIMB = PHASE_CLIMB;
+const K_PHASE_CRUISE = PHASE_CRUISE;
+const K_BASIS_NONE = BASIS_NONE;
+const K_BASIS_BASELINE = BASIS_BASELINE;
+const K_BASIS_MEASURED = BASIS_MEASURED;
+const K_BASIS_RECENT = BASIS_RECENT;
+const K_MIN_MEASURED_CRUISE_S = MIN_MEASURED_CRUISE_S;
+const K_ARRIVAL_NONE = ARRIVAL_NONE;
+const K_ARRIVAL_KEEPS = ARRIVAL_KEEPS;
+const K_ARRIVAL_EATS_INTO = ARRIVAL_EATS_INTO;
+const K_ARRIVAL_RUNS_OUT = ARRIVAL_RUNS_OUT;
+const K_ARRIVAL_NO_RESERVE = ARRIVAL_NO_RESERVE;
+const K_FLAG_REJECTED = FLAG_REJECTED;
+const K_FLAG_FLOW_HELD = FLAG_FLOW_HELD;
+const K_FLAG_FLOW_FILLED = FLAG_FLOW_FILLED;
+const K_FLAG_GAP_FILLED = FLAG_GAP_FILLED;
+const K_FLAG_EVENT = FLAG_EVENT;
+const K_FLAG_ENDURANCE = FLAG_ENDURANCE;
+const K_FLAG_WAYPOINT = FLAG_WAYPOINT;
+const K_WPT_NONE = WPT_NONE;
+const kRowProblem = rowProblem;
+const kTrackPhase = trackPhase;
+const kGapThresholdFor = gapThresholdFor;
+const kSegmentLitres = segmentLitres;
+const kGapFillFlow = gapFillFlow;
+const kEnduranceH = enduranceH;
+const kTimeToWaypointH = timeToWaypointH;
+const kFuelToWaypointL = fuelToWaypointL;
+const kSpecificRangeNmPerL = specificRangeNmPerL;
+const kPushTrailingMax = pushTrailingMax;
+const kResetTrailingMax = resetTrailingMax;
+const kEnduranceJudgeFlow = enduranceJudgeFlow;
+const kUpdateAlarm = updateAlarm;
+const kEventDelta = eventDelta;
+const kDescribeProblem = describeProblem;
+
 /** Option defaults (our choice). */
 export const DEFAULT_OPTIONS = {
 	minFlowLph: 0.5,
@@ -417,7 +461,7 @@ export function runKernel(s: EngineState, cols: SampleColumns, out: Outputs, fro
 		const d = dtg[i];
 		const a = alt !== undefined ? alt[i] : NaN;
 
-		// Fast path for a good row; rowProblem says exactly what is wrong with the others.
+		// Fast path for a good row; kRowProblem says exactly what is wrong with the others.
 		const suspect =
 			!(ti > lastT && ti < Infinity) ||
 			rawFlow < 0 ||
@@ -428,9 +472,9 @@ export function runKernel(s: EngineState, cols: SampleColumns, out: Outputs, fro
 			d > maxDtgLim ||
 			a < minAltLim ||
 			a > maxAltLim;
-		const problem = suspect ? rowProblem(ti, lastT, rawFlow, g, d, a, lim) : 0;
+		const problem = suspect ? kRowProblem(ti, lastT, rawFlow, g, d, a, lim) : 0;
 		if (problem !== 0) {
-			s.problems.push(describeProblem(problem, i, problemValue(problem, ti, rawFlow, g, d, a), lastT));
+			s.problems.push(kDescribeProblem(problem, i, problemValue(problem, ti, rawFlow, g, d, a), lastT));
 			// A skipped sample carries the running totals so the arrays stay aligned with the input.
 			oFlow[i] = NaN;
 			oUsed[i] = usedTotal - usedOffset;
@@ -443,11 +487,11 @@ export function runKernel(s: EngineState, cols: SampleColumns, out: Outputs, fro
 			oRange[i] = NaN;
 			oReserveL[i] = lastIdx >= 0 ? oReserveL[lastIdx] : NaN;
 			oCruise[i] = lastIdx >= 0 ? oCruise[lastIdx] : NaN;
-			oBasis[i] = lastIdx >= 0 ? oBasis[lastIdx] : BASIS_NONE;
-			oArrivalState[i] = ARRIVAL_NONE;
+			oBasis[i] = lastIdx >= 0 ? oBasis[lastIdx] : K_BASIS_NONE;
+			oArrivalState[i] = K_ARRIVAL_NONE;
 			oPhase[i] = 0;
 			oAlarm[i] = alarmBits;
-			oFlags[i] = FLAG_REJECTED;
+			oFlags[i] = K_FLAG_REJECTED;
 			continue;
 		}
 
@@ -458,24 +502,24 @@ export function runKernel(s: EngineState, cols: SampleColumns, out: Outputs, fro
 			// A blank flow cell holds the last reading for now (a live flight cannot see the next
 			// one); when the next reading comes, the stretch is filled with the higher of the two.
 			f = lastRealFlow;
-			if (f === f) flags |= FLAG_FLOW_HELD;
+			if (f === f) flags |= K_FLAG_FLOW_HELD;
 		}
-		const p = trackPhase(ph, ti, f, g, a);
+		const p = kTrackPhase(ph, ti, f, g, a);
 
 		if (lastIdx >= 0) {
 			const dt = ti - lastT;
-			const threshold = gapThresholdFor(gap, dt);
+			const threshold = kGapThresholdFor(gap, dt);
 			const isGap = dt > threshold;
-			let inc = segmentLitres(lastFlow, f, dt, isGap);
+			let inc = kSegmentLitres(lastFlow, f, dt, isGap);
 			if (isGap) {
-				flags |= FLAG_GAP_FILLED;
+				flags |= K_FLAG_GAP_FILLED;
 				s.gaps.push({
 					kind: 'time',
 					start: lastT,
 					end: ti,
 					startIndex: lastIdx,
 					endIndex: i,
-					filledFlowLph: gapFillFlow(lastFlow, f)
+					filledFlowLph: kGapFillFlow(lastFlow, f)
 				});
 			}
 			if (rawFlow === rawFlow && held && lastRealIdx >= 0 && lastRealFlow === lastRealFlow) {
@@ -486,7 +530,7 @@ export function runKernel(s: EngineState, cols: SampleColumns, out: Outputs, fro
 				inc = (fill * (ti - lastRealT) - lastRealFlow * (lastT - lastRealT)) / 3600;
 				const extraLph = fill - lastRealFlow;
 				for (let j = lastRealIdx + 1; j < i; j++) {
-					if (oFlags[j] & FLAG_REJECTED) {
+					if (oFlags[j] & K_FLAG_REJECTED) {
 						// A skipped sample carries the totals of the one before it.
 						oUsed[j] = oUsed[j - 1];
 						oOnBoard[j] = oOnBoard[j - 1];
@@ -497,14 +541,14 @@ export function runKernel(s: EngineState, cols: SampleColumns, out: Outputs, fro
 					oFlow[j] = fill;
 					oUsed[j] += extra;
 					oOnBoard[j] = ob;
-					oEndurance[j] = enduranceH(ob, fill, minFlow);
+					oEndurance[j] = kEnduranceH(ob, fill, minFlow);
 					const fuelJ = fill * oTime[j];
 					oFuel[j] = fuelJ;
 					const arr = ob - fuelJ;
 					oArrival[j] = arr;
 					oMarginMin[j] = ((arr - oReserveL[j]) / oCruise[j]) * 60;
 					oArrivalState[j] = arrivalCode(arr, oReserveL[j]);
-					oFlags[j] = (oFlags[j] & ~FLAG_FLOW_HELD) | FLAG_FLOW_FILLED;
+					oFlags[j] = (oFlags[j] & ~K_FLAG_FLOW_HELD) | K_FLAG_FLOW_FILLED;
 					if (extraLph > 0) phaseFuel[oPhase[j]] += (extraLph * (t[j] - t[j - 1])) / 3600;
 				}
 				if (ti - lastRealT > threshold)
@@ -513,7 +557,7 @@ export function runKernel(s: EngineState, cols: SampleColumns, out: Outputs, fro
 			usedTotal += inc;
 			// The segment belongs to the sample's phase, except the last stretch before the engine
 			// stops, which belongs to the phase it ended.
-			const seg = p <= PHASE_STOPPED && lastPhase > p ? lastPhase : p;
+			const seg = p <= K_PHASE_STOPPED && lastPhase > p ? lastPhase : p;
 			phaseTime[seg] += dt;
 			phaseFuel[seg] += inc;
 			// Distance bridges blank ground-speed cells and missing rows alike: the trapezoid
@@ -533,7 +577,7 @@ export function runKernel(s: EngineState, cols: SampleColumns, out: Outputs, fro
 			const ev = events[eventIdx++];
 			nextEventT = eventIdx < nEv ? events[eventIdx].t : Infinity;
 			const before = anchorOnBoard - (usedTotal - anchorUsed);
-			flags |= FLAG_EVENT;
+			flags |= K_FLAG_EVENT;
 			if (ev.kind === 'resetUsed') {
 				s.resolvedEvents.push({
 					event: ev,
@@ -545,7 +589,7 @@ export function runKernel(s: EngineState, cols: SampleColumns, out: Outputs, fro
 				});
 				usedOffset = usedTotal;
 			} else {
-				const r = eventDelta(ev, before, profile, s.setup.options.formatFuel);
+				const r = kEventDelta(ev, before, profile, s.setup.options.formatFuel);
 				if (r.warning) s.warnings.push({ ...r.warning, index: i });
 				anchorOnBoard = r.afterL;
 				anchorUsed = usedTotal;
@@ -575,10 +619,10 @@ export function runKernel(s: EngineState, cols: SampleColumns, out: Outputs, fro
 			});
 		}
 
-		const endurance = enduranceH(ob, f, minFlow);
+		const endurance = kEnduranceH(ob, f, minFlow);
 		oEndurance[i] = endurance;
 		if (f > minFlow) {
-			flags |= FLAG_ENDURANCE;
+			flags |= K_FLAG_ENDURANCE;
 			if (f > maxFlow) maxFlow = f;
 			if (firstRunT !== firstRunT) firstRunT = ti;
 			lastRunT = ti;
@@ -595,19 +639,19 @@ export function runKernel(s: EngineState, cols: SampleColumns, out: Outputs, fro
 		// set baseline, else this flight's cruise so far (once long enough), else recent flights.
 		let cruise: number;
 		let basis: number;
-		const cruiseTime = phaseTime[PHASE_CRUISE];
+		const cruiseTime = phaseTime[K_PHASE_CRUISE];
 		if (baseline === baseline) {
 			cruise = baseline;
-			basis = BASIS_BASELINE;
-		} else if (cruiseTime >= MIN_MEASURED_CRUISE_S && phaseFuel[PHASE_CRUISE] > 0) {
-			cruise = (phaseFuel[PHASE_CRUISE] / cruiseTime) * 3600;
-			basis = BASIS_MEASURED;
+			basis = K_BASIS_BASELINE;
+		} else if (cruiseTime >= K_MIN_MEASURED_CRUISE_S && phaseFuel[K_PHASE_CRUISE] > 0) {
+			cruise = (phaseFuel[K_PHASE_CRUISE] / cruiseTime) * 3600;
+			basis = K_BASIS_MEASURED;
 		} else if (recent === recent) {
 			cruise = recent;
-			basis = BASIS_RECENT;
+			basis = K_BASIS_RECENT;
 		} else {
 			cruise = NaN;
-			basis = BASIS_NONE;
+			basis = K_BASIS_NONE;
 		}
 		// The one reserve amount every statement compares fuel against.
 		const reserveL = (reserveMin / 60) * cruise;
@@ -621,10 +665,10 @@ export function runKernel(s: EngineState, cols: SampleColumns, out: Outputs, fro
 
 		// No waypoint figures on the ground (a taxi or take-off roll would divide by a low speed)
 		// nor below the waypoint ground speed: NaN by construction, never Infinity.
-		const onGround = p === PHASE_TAXI || p === PHASE_STOPPED;
-		const airborne = p >= PHASE_CLIMB && g >= airborneGs;
-		const hours = onGround ? NaN : timeToWaypointH(d, g, wptGs);
-		const fuel = fuelToWaypointL(f, hours);
+		const onGround = p === K_PHASE_TAXI || p === K_PHASE_STOPPED;
+		const airborne = p >= K_PHASE_CLIMB && g >= airborneGs;
+		const hours = onGround ? NaN : kTimeToWaypointH(d, g, wptGs);
+		const fuel = kFuelToWaypointL(f, hours);
 		const arrival = ob - fuel;
 		const marginL = arrival - reserveL;
 		oTime[i] = hours;
@@ -632,35 +676,39 @@ export function runKernel(s: EngineState, cols: SampleColumns, out: Outputs, fro
 		oArrival[i] = arrival;
 		oMarginMin[i] = (marginL / cruise) * 60;
 		oArrivalState[i] = arrivalCode(arrival, reserveL);
-		oRange[i] = specificRangeNmPerL(g, f, wptGs, minFlow);
-		if (arrival === arrival) flags |= FLAG_WAYPOINT;
+		oRange[i] = kSpecificRangeNmPerL(g, f, wptGs, minFlow);
+		if (arrival === arrival) flags |= K_FLAG_WAYPOINT;
 		if (airborne) {
 			st.airborne = true;
-			if (marginL === marginL) {
-				const kept = pushTrailingMax(win, ti, marginL);
+			if (marginL >= thinnest) {
+				// A window holding this sample cannot hold less than the thinnest so far: start the
+				// next window after it (exact, and it keeps the queue empty most of the flight).
+				if (win.runStart === win.runStart) kResetTrailingMax(win);
+			} else if (marginL === marginL) {
+				const kept = kPushTrailingMax(win, ti, marginL);
 				if (kept < thinnest) {
 					thinnest = kept;
 					st.thinnestMarginMin = (kept / cruise) * 60;
 					st.thinnestMarginT = ti;
 					st.thinnestMarginIndex = i;
-					const w = wpt !== undefined ? wpt[i] : WPT_NONE;
-					st.thinnestMarginWpt = w === WPT_NONE ? null : w;
+					const w = wpt !== undefined ? wpt[i] : K_WPT_NONE;
+					st.thinnestMarginWpt = w === K_WPT_NONE ? null : w;
 				}
-			} else if (win.runStart === win.runStart) resetTrailingMax(win);
-		} else if (win.runStart === win.runStart) resetTrailingMax(win);
+			} else if (win.runStart === win.runStart) kResetTrailingMax(win);
+		} else if (win.runStart === win.runStart) kResetTrailingMax(win);
 
-		// The values alarms judge: endurance at the flow of alarms.ts enduranceJudgeFlow(); the
+		// The values alarms judge: endurance at the flow of alarms.ts kEnduranceJudgeFlow(); the
 		// arrival margin against the reserve (against empty tanks when there is no reserve
 		// amount), airborne only.
-		const judgeFlow = enduranceJudgeFlow(f, cruise, p === PHASE_CLIMB, minFlow);
+		const judgeFlow = kEnduranceJudgeFlow(f, cruise, p === K_PHASE_CLIMB, minFlow);
 		const enduranceMin = (ob / judgeFlow) * 60;
 		const arrivalValue = airborne ? (reserveL === reserveL ? marginL : arrival) : NaN;
 		// Most samples are nowhere near an alarm: one compare each before the full update.
 		if (alarmBits !== 0 || pendingBelow || ob < fuelThreshold || enduranceMin < enduranceThreshold || arrivalValue < arrivalThreshold) {
 			alarmBits =
-				updateAlarm(alarmFuel, ob, ti, i, episodes) |
-				updateAlarm(alarmEndurance, enduranceMin, ti, i, episodes) |
-				updateAlarm(alarmArrival, arrivalValue, ti, i, episodes);
+				kUpdateAlarm(alarmFuel, ob, ti, i, episodes) |
+				kUpdateAlarm(alarmEndurance, enduranceMin, ti, i, episodes) |
+				kUpdateAlarm(alarmArrival, arrivalValue, ti, i, episodes);
 			pendingBelow =
 				alarmFuel.belowSince === alarmFuel.belowSince ||
 				alarmEndurance.belowSince === alarmEndurance.belowSince ||
@@ -727,10 +775,10 @@ export function runKernel(s: EngineState, cols: SampleColumns, out: Outputs, fro
 
 /** ARRIVAL_* code from the fuel left on arrival and the reserve amount (either may be NaN). */
 export function arrivalCode(arrivalL: number, reserveL: number): number {
-	if (arrivalL !== arrivalL) return ARRIVAL_NONE;
-	if (arrivalL < 0) return ARRIVAL_RUNS_OUT;
-	if (reserveL !== reserveL) return ARRIVAL_NO_RESERVE;
-	return arrivalL >= reserveL ? ARRIVAL_KEEPS : ARRIVAL_EATS_INTO;
+	if (arrivalL !== arrivalL) return K_ARRIVAL_NONE;
+	if (arrivalL < 0) return K_ARRIVAL_RUNS_OUT;
+	if (reserveL !== reserveL) return K_ARRIVAL_NO_RESERVE;
+	return arrivalL >= reserveL ? K_ARRIVAL_KEEPS : K_ARRIVAL_EATS_INTO;
 }
 
 function view<T extends Float64Array | Uint8Array>(a: T, n: number): T {
