@@ -4,6 +4,7 @@
 // itself is the shared one ($lib/schemas/declaration), in the form's words.
 import { z } from 'zod';
 import type { Declaration, FuelEventKind } from '$lib/fuel';
+import { verdictStates } from '$lib/fuel';
 import { toLitres, type FuelUnit } from '$lib/units';
 import { MAX_AMOUNT, amountField, declarationKindOf, declarationSchema, fuelUnitSchema, toDeclaration } from './declaration';
 
@@ -118,7 +119,7 @@ export type DeclarationInput = z.output<ReturnType<typeof declarationFormSchema>
 export type FuelEventInput = z.output<ReturnType<typeof fuelEventFormSchema>>;
 export type NoteInput = z.output<typeof noteFormSchema>;
 
-export const FLIGHT_SORTS = ['date', 'aircraft', 'pilot', 'block', 'used', 'flow', 'onboard', 'alarms'] as const;
+export const FLIGHT_SORTS = ['date', 'aircraft', 'pilot', 'block', 'used', 'flow', 'onboard', 'margin', 'alarms'] as const;
 export type FlightSort = (typeof FLIGHT_SORTS)[number];
 export const FLIGHTS_PER_PAGE = 25;
 
@@ -137,6 +138,8 @@ export const flightListQuerySchema = z.object({
 	pilot: z.string().trim().min(1).max(100).optional().catch(undefined),
 	from: day.catch(null),
 	to: day.catch(null),
+	/** The flight's reserve verdict (FlightSummary.verdict.state). */
+	verdict: z.enum(verdictStates).optional().catch(undefined),
 	sort: z.enum(FLIGHT_SORTS).default('date').catch('date'),
 	dir: z.enum(['asc', 'desc']).optional().catch(undefined),
 	page: z.coerce.number().int().min(1).max(100_000).default(1).catch(1)
