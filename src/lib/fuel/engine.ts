@@ -2,7 +2,7 @@
 // loop over index ranges, carrying every running value in an EngineState, which is why a live
 // flight gives exactly the numbers of a replay of the same samples.
 
-import { arrivalPersistS, createAlarmTracks, enduranceJudgeFlow, updateAlarm, type AlarmTrack } from './alarms';
+import { arrivalPersistS, createAlarmTracks, updateAlarm, type AlarmTrack } from './alarms';
 import { checkProfile, litresText, resolveDeclaration } from './declaration';
 import { eventDelta, normalizeEvents } from './events';
 import { createGapTracker, gapThresholdFor, type GapTracker } from './gaps';
@@ -95,7 +95,6 @@ const kFuelToWaypointL = fuelToWaypointL;
 const kSpecificRangeNmPerL = specificRangeNmPerL;
 const kPushTrailingMax = pushTrailingMax;
 const kResetTrailingMax = resetTrailingMax;
-const kEnduranceJudgeFlow = enduranceJudgeFlow;
 const kUpdateAlarm = updateAlarm;
 const kEventDelta = eventDelta;
 const kDescribeProblem = describeProblem;
@@ -675,7 +674,18 @@ export function runKernel(s: EngineState, cols: SampleColumns, out: Outputs, fro
 		oFuel[i] = fuel;
 		oArrival[i] = arrival;
 		oMarginMin[i] = (marginL / cruise) * 60;
-		oArrivalState[i] = arrivalCode(arrival, reserveL);
+		// arrivalCode() written out: one more call per sample would push trackPhase and friends out
+		// of V8's inlining budget (see phases.ts). properties.test.ts checks the two agree.
+		oArrivalState[i] =
+			arrival !== arrival
+				? K_ARRIVAL_NONE
+				: arrival < 0
+					? K_ARRIVAL_RUNS_OUT
+					: reserveL !== reserveL
+						? K_ARRIVAL_NO_RESERVE
+						: arrival >= reserveL
+							? K_ARRIVAL_KEEPS
+							: K_ARRIVAL_EATS_INTO;
 		oRange[i] = kSpecificRangeNmPerL(g, f, wptGs, minFlow);
 		if (arrival === arrival) flags |= K_FLAG_WAYPOINT;
 		if (airborne) {
@@ -697,10 +707,18 @@ export function runKernel(s: EngineState, cols: SampleColumns, out: Outputs, fro
 			} else if (win.runStart === win.runStart) kResetTrailingMax(win);
 		} else if (win.runStart === win.runStart) kResetTrailingMax(win);
 
-		// The values alarms judge: endurance at the flow of alarms.ts kEnduranceJudgeFlow(); the
-		// arrival margin against the reserve (against empty tanks when there is no reserve
-		// amount), airborne only.
-		const judgeFlow = kEnduranceJudgeFlow(f, cruise, p === K_PHASE_CLIMB, minFlow);
+		// The values alarms judge: endurance at the flow of alarms.ts enduranceJudgeFlow() (written
+		// out for the same inlining reason; properties.test.ts checks they agree); the arrival
+		// margin against the reserve (against empty tanks when there is no reserve), airborne only.
+		const judgeFlow = !(f > minFlow)
+			? NaN
+			: cruise !== cruise
+				? p === K_PHASE_CLIMB
+					? NaN
+					: f
+				: p === K_PHASE_CLIMB || cruise > f
+					? cruise
+					: f;
 		const enduranceMin = (ob / judgeFlow) * 60;
 		const arrivalValue = airborne ? (reserveL === reserveL ? marginL : arrival) : NaN;
 		// Most samples are nowhere near an alarm: one compare each before the full update.
