@@ -10,7 +10,7 @@ import pg from 'pg';
 import { scratchDatabase, startBenchApp } from './lib/bench-app';
 import { hashToken, newToken } from '../src/lib/server/tokens';
 import { computeFlight, summarize } from '../src/lib/fuel';
-import { engineInputsOf, reserveOf } from '../src/lib/flight-inputs';
+import { engineInputsOf } from '../src/lib/flight-inputs';
 import { decodeBinary, decodeJson, type JsonPayload } from '../src/lib/components/replay/payload';
 import { downsampleMinMax } from '../src/lib/components/replay/series';
 import { generateFlight, insertFlight, PROFILE_OVERHEAD_S } from '../tests/integration/replay-fixture';
@@ -121,7 +121,7 @@ try {
 			const raw = f.body;
 			const data = v.query.includes('binary') ? decodeBinary(raw) : decodeJson(JSON.parse(new TextDecoder().decode(raw)) as JsonPayload);
 			const c = computeFlight({ columns: data.columns, ...engineInputsOf(data.setup, data, data.events) });
-			summarize(c, { reserve: reserveOf(data.setup) });
+			summarize(c);
 			clientMs.push(performance.now() - t0);
 		}
 		const decoded = runs[0].body.length;

@@ -40,7 +40,9 @@ const FLIGHTS: DemoFlight[] = [
 		refuel: { at: '2026-06-20T09:50:00Z', kind: 'toFull', note: 'Filled to full at Saltmere' }
 	},
 	{ file: 'kestrel-trainer-merrow-leaned.csv', registration: 'BD-KTR', pilot: 'demo-pilot', title: 'Merrow and back, leaned in cruise', declaration: { kind: 'full', amount: null } },
-	{ file: 'kestrel-trainer-merrow-rich.csv', registration: 'BD-KTR', pilot: 'demo-pilot', title: 'Merrow and back, never leaned', declaration: { kind: 'full', amount: null } }
+	{ file: 'kestrel-trainer-merrow-rich.csv', registration: 'BD-KTR', pilot: 'demo-pilot', title: 'Merrow and back, never leaned', declaration: { kind: 'full', amount: null } },
+	// Lands below its 30 min reserve: the verdict, the flights list and the alarm say so.
+	{ file: 'kestrel-trainer-long-way-round.csv', registration: 'BD-KTR', pilot: 'demo-student', instructor: 'demo-instructor', title: 'The long way round against a headwind, filled to the tabs', declaration: { kind: 'lower', amount: null } }
 ];
 
 export async function loadDemoFlights(): Promise<number> {

@@ -266,6 +266,14 @@ function dropout(): { samples: Sample[]; blank: [number, number] } {
 	return { samples: s, blank: [blankAt, blankAt + 45] };
 }
 
+function longWayRound(): Sample[] {
+	// BD-KTR filled only to the tabs for a long way round against a headwind, no stop: it lands
+	// below the 30 min reserve (the demo's flight whose verdict and alarm say so).
+	const r = new Recorder(utc(2026, 7, 11, 9, 20), 81);
+	r.run([W.KESTRL, W.LOWGAP, W.MERROW, W.BRAMBL, W.SALTMR, W.CAIRNS, W.FENWAY, W.KESTRL], trainer, { cruiseAltFt: 4500, windKt: -18 });
+	return r.samples;
+}
+
 function dieselNight(): string {
 	// BD-KTD's panel logger: its own layout, semicolons, decimal commas, metric units and clock
 	// times; the evening flight runs past midnight UTC, so the clock rolls over.
@@ -310,6 +318,7 @@ const written = [
 	writeOurs('kestrel-local-training.csv', localTraining(), { flowColumn: 'fuel_flow_usgph' }),
 	writeOurs('kestrel-trainer-merrow-leaned.csv', trainerTrip(false), { flowColumn: 'fuel_flow_usgph' }),
 	writeOurs('kestrel-trainer-merrow-rich.csv', trainerTrip(true), { flowColumn: 'fuel_flow_usgph' }),
+	writeOurs('kestrel-trainer-long-way-round.csv', longWayRound(), { flowColumn: 'fuel_flow_usgph' }),
 	(() => {
 		const d = dropout();
 		// Avgas at its standard weight, 6.0 lb per US gallon (FAA-H-8083-30): this recorder logs lb/h.

@@ -14,6 +14,12 @@ export interface AircraftFuelSetup {
 	lowEnduranceMin: number | null;
 	reserveRule: string;
 	reserveCustomMin: number | null;
+	/**
+	 * The aircraft's recent median cruise flow, L/h, from the stored summaries of its earlier
+	 * flights (src/lib/server/flights/recent-cruise.ts): the reserve's basis when no normal-cruise
+	 * flow is set and the flight has not measured its own yet.
+	 */
+	recentCruiseLph?: number | null;
 }
 
 export interface StoredFuelEvent {
@@ -23,9 +29,9 @@ export interface StoredFuelEvent {
 	note?: string;
 }
 
-export function fuelSetupOf<T extends AircraftFuelSetup>(a: T): AircraftFuelSetup {
+export function fuelSetupOf<T extends AircraftFuelSetup>(a: T, recentCruiseLph: number | null = a.recentCruiseLph ?? null): AircraftFuelSetup {
 	const { capacityL, lowerLevelL, unusableL, densityKgPerL, meterFactor, baselineCruiseLph, lowFuelL, lowEnduranceMin, reserveRule, reserveCustomMin } = a;
-	return { capacityL, lowerLevelL, unusableL, densityKgPerL, meterFactor, baselineCruiseLph, lowFuelL, lowEnduranceMin, reserveRule, reserveCustomMin };
+	return { capacityL, lowerLevelL, unusableL, densityKgPerL, meterFactor, baselineCruiseLph, lowFuelL, lowEnduranceMin, reserveRule, reserveCustomMin, recentCruiseLph };
 }
 
 export function profileOf(a: AircraftFuelSetup): FuelProfile {
@@ -40,7 +46,7 @@ export function profileOf(a: AircraftFuelSetup): FuelProfile {
 }
 
 export function thresholdsOf(a: AircraftFuelSetup): AlarmThresholds {
-	return { lowFuelL: a.lowFuelL, lowEnduranceMin: a.lowEnduranceMin, negativeReserve: true };
+	return { lowFuelL: a.lowFuelL, lowEnduranceMin: a.lowEnduranceMin, arrivalBelowReserve: true };
 }
 
 export function reserveOf(a: AircraftFuelSetup): ReserveSetting {
@@ -68,6 +74,8 @@ export function engineInputsOf(
 		previousOnBoardL: flight.previousOnBoardL,
 		events: eventsOf(events),
 		thresholds: thresholdsOf(a),
+		reserve: reserveOf(a),
+		recentCruiseFlowLph: a.recentCruiseLph ?? null,
 		options
 	};
 }

@@ -1,5 +1,7 @@
-// Display helpers shared by pages: fuel amounts in a chosen unit, reserve-rule labels.
+// Display helpers shared by pages: fuel amounts in a chosen unit, reserve-rule labels. Rounding
+// itself lives in $lib/rounding.
 import { reserveRules } from '$lib/fuel';
+import { fixed, type RoundMode } from '$lib/rounding';
 import { fromLitres, fuelUnitLabels, type FuelUnit } from '$lib/units';
 
 export function reserveRuleLabel(id: string, customMin: number | null): string {
@@ -11,8 +13,8 @@ export function reserveRuleCitation(id: string): string {
 	return reserveRules.find((r) => r.id === id)?.citation ?? '';
 }
 
-/** "12.3 US gal" — litres in the display unit, with a sensible number of decimals. */
-export function fuel(litres: number | null | undefined, unit: FuelUnit, densityKgPerL: number, digits = 1): string {
+/** "12.3 US gal" — litres in the display unit, rounded to nearest (or down, for margins). */
+export function fuel(litres: number | null | undefined, unit: FuelUnit, densityKgPerL: number, digits = 1, mode: RoundMode = 'nearest'): string {
 	if (litres === null || litres === undefined || !Number.isFinite(litres)) return '—';
-	return `${fromLitres(litres, unit, densityKgPerL).toFixed(digits)} ${fuelUnitLabels[unit]}`;
+	return `${fixed(fromLitres(litres, unit, densityKgPerL), digits, mode)} ${fuelUnitLabels[unit]}`;
 }

@@ -1,6 +1,7 @@
 // Unit constants and conversions for every quantity Burndown shows, in one place.
 // Internally the engine works in litres, litres per hour, knots, nautical miles, feet and seconds;
 // everything else is converted at the edges with the exact factors below.
+import { round as roundFigure } from './rounding';
 
 /** 1 US gallon = 231 in³ = 3.785411784 L exactly (NIST Handbook 44, Appendix C). */
 export const LITRES_PER_US_GALLON = 3.785411784;
@@ -215,10 +216,9 @@ export function formatDuration(hours: number, options: DurationFormatOptions = {
 	const { round = 'nearest', missing = '–:––' } = options;
 	if (!Number.isFinite(hours)) return missing;
 	const sign = hours < 0 ? '-' : '';
-	const minutesExact = Math.abs(hours) * 60;
-	// A tiny tolerance keeps 1.5 h computed as 1.4999999999 from showing 1:29 when rounding down.
-	const totalMinutes =
-		round === 'down' ? Math.floor(minutesExact + 1e-9) : Math.round(minutesExact);
+	// One rounding for every screen (rounding.ts): noise removed first, so 3 h computed as
+	// 2.9999999999 shows 3:00 rounded down too.
+	const totalMinutes = roundFigure(Math.abs(hours) * 60, 0, round);
 	const h = Math.floor(totalMinutes / 60);
 	const m = totalMinutes - h * 60;
 	return `${totalMinutes === 0 ? '' : sign}${h}:${m < 10 ? '0' : ''}${m}`;

@@ -6,6 +6,7 @@ import pg from 'pg';
 import { expect, test, type Page } from '@playwright/test';
 import { computeFlight, type FlightComputation } from '../../src/lib/fuel';
 import { engineInputsOf, fuelSetupOf, type AircraftFuelSetup } from '../../src/lib/flight-inputs';
+import { arrivalWords } from '../../src/lib/components/replay/labels';
 import { LITRES_PER_US_GALLON } from '../../src/lib/units';
 import { generateFlight, insertFlight, WAYPOINTS } from '../integration/replay-fixture';
 import { DEMO_AIRCRAFT, DEMO_ORG, DEMO_USERS, signIn } from './support';
@@ -87,8 +88,11 @@ test('open a flight from the list, scrub, and read figures that match the engine
 	near(await figure(page, 'fig-onboard'), gal(c.onBoard[i]), 1);
 	near(await figure(page, 'fig-used'), gal(c.used[i]), 2);
 	near(await figure(page, 'fig-flow'), gal(c.flow[i]), 2);
-	near(await figure(page, 'fig-reserve-wpt'), gal(c.reserveAtWpt[i]), 2);
-	expect(await figure(page, 'fig-reserve-wpt-min')).toBe(Math.floor(c.reserveAtWptMin[i]));
+	// Fuel left on arrival is rounded down (never more than the engine's figure).
+	const arrivalShown = await figure(page, 'fig-arrival');
+	expect(arrivalShown).toBeLessThanOrEqual(gal(c.arrivalL[i]) + 1e-9);
+	expect(gal(c.arrivalL[i]) - arrivalShown).toBeLessThan(0.01 + 1e-9);
+	await expect(page.getByTestId('fig-waypoint')).toHaveAttribute('data-arrival', arrivalWords[c.arrivalState[i]].id);
 	const endurance = (await page.getByTestId('fig-endurance').innerText()).match(/(\d+):(\d\d)/)!;
 	expect(Number(endurance[1]) * 60 + Number(endurance[2])).toBe(Math.floor(c.endurance[i] * 60));
 	await expect(page.getByTestId('fig-wpt-name')).toHaveText(samples.wpt[i]!);

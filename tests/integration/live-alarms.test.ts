@@ -89,6 +89,21 @@ describe('alarm e-mails', () => {
 		await call('close', w.tokenA, {});
 	});
 
+	it('a corrected declaration that only moves the crossing is the same episode: nobody is mailed twice', async () => {
+		const open = await call('open', w.tokenA, { declaration: { kind: 'onBoard', amount: 12 } });
+		const flightId = open.body.flightId;
+		const before = (await mailTo(w.admin.email)).length;
+		// 12 US gal at 9 US gal/h: below 10 US gal after 800 s.
+		for (let s = 0; s < 1000; s += 100) expect((await call('samples', w.tokenA, { flightId, samples: samples(s, 100) })).status).toBe(200);
+		await mailsSettled(w.admin.email, before + 1);
+		// The pilot corrects the start fuel to 11.5 US gal: the same low-fuel episode, raised 200 s earlier.
+		await setLiveDeclaration(flightId, { kind: 'onBoard', amountL: 11.5 * US_GAL }, null);
+		const rows = await db.select().from(flightAlarms).where(eq(flightAlarms.flightId, flightId));
+		expect(rows.filter((r) => r.kind === 'lowFuel' && r.clearedAt === null)).toHaveLength(1);
+		expect(await mailsSettled(w.admin.email, before + 2, 1500)).toHaveLength(before + 1);
+		await call('close', w.tokenA, {});
+	});
+
 	it('a corrected declaration that removes the danger clears the alarm and mails nobody', async () => {
 		const open = await call('open', w.tokenA, { declaration: { kind: 'onBoard', amount: 9 } });
 		const flightId = open.body.flightId;

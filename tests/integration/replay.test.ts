@@ -8,7 +8,7 @@ import { eq } from 'drizzle-orm';
 import { db, pool } from '$lib/server/db';
 import { aircraft, flightNotes, flights, fuelEvents, memberships, organisations, users } from '$lib/server/db/schema';
 import { computeFlight, summarize, type FlightSummary } from '$lib/fuel';
-import { engineInputsOf, fuelSetupOf, reserveOf } from '$lib/flight-inputs';
+import { engineInputsOf, fuelSetupOf } from '$lib/flight-inputs';
 import { decodeBinary, decodeJson, type JsonPayload } from '$lib/components/replay/payload';
 import { recomputeSummary } from '$lib/server/flights/summary';
 import { LITRES_PER_US_GALLON } from '$lib/units';
@@ -96,7 +96,7 @@ async function expectedComputation(id = flightId) {
 	const setup = fuelSetupOf(setupRow);
 	const columns = { t: samples.t, flow: samples.flow, gs: samples.gs, dtg: samples.dtg, alt: samples.alt, wpt: Int32Array.from(samples.wpt, (w) => WAYPOINTS.indexOf(w!)) };
 	const c = computeFlight({ columns, ...engineInputsOf(setup, f, events) });
-	return { c, summary: summarize(c, { reserve: reserveOf(setup) }) };
+	return { c, summary: summarize(c) };
 }
 
 /** Both sides as JSON would carry them (NaN → null, -0 → 0), as jsonb stores the summary. */
@@ -170,7 +170,7 @@ describe('samples API', () => {
 		const body = (await (await samplesAs(U.pilot)).json()) as JsonPayload;
 		const d = decodeJson(body);
 		const c = computeFlight({ columns: d.columns, ...engineInputsOf(d.setup, d, d.events) });
-		const browser = summarize(c, { reserve: reserveOf(d.setup) });
+		const browser = summarize(c);
 		expect(plain(browser)).toEqual(plain(await storedSummary()));
 		// The dropout in the fixture shows up as a gap, and the flight used fuel.
 		expect(browser.gapCount).toBe(1);
@@ -209,7 +209,7 @@ describe('export', () => {
 		const { c } = await expectedComputation();
 		expect(rows).toHaveLength(c.length);
 		const col = (name: string) => header.indexOf(name);
-		for (const name of ['time_utc', 'flow_l_per_h', 'used_l', 'on_board_l', 'endurance_min', 'reserve_at_wpt_l', 'reserve_at_wpt_min', 'specific_range_nm_per_l', 'phase']) expect(col(name), name).toBeGreaterThanOrEqual(0);
+		for (const name of ['time_utc', 'flow_l_per_h', 'used_l', 'on_board_l', 'endurance_min', 'left_on_arrival_l', 'reserve_l', 'arrival_margin_l', 'arrival_margin_cruise_min', 'arrival', 'specific_range_nm_per_l', 'phase']) expect(col(name), name).toBeGreaterThanOrEqual(0);
 		// Every 97th row and the last one: values printed to 3 decimals (fuel) or 1 (minutes).
 		for (let i = 0; i < c.length; i += i === c.length - 1 ? 1 : Math.min(97, c.length - 1 - i)) {
 			const r = rows[i];
@@ -219,7 +219,7 @@ describe('export', () => {
 			expect(Number(r[col('flow_l_per_h')])).toBeCloseTo(c.flow[i], 3);
 			if (Number.isFinite(c.endurance[i])) expect(Number(r[col('endurance_min')])).toBeCloseTo(c.endurance[i] * 60, 1);
 			else expect(r[col('endurance_min')]).toBe('');
-			if (Number.isFinite(c.reserveAtWpt[i])) expect(Number(r[col('reserve_at_wpt_l')])).toBeCloseTo(c.reserveAtWpt[i], 3);
+			if (Number.isFinite(c.arrivalL[i])) expect(Number(r[col('left_on_arrival_l')])).toBeCloseTo(c.arrivalL[i], 3);
 			if (i === c.length - 1) break;
 		}
 		expect(rows.some((r) => r[col('flags')].includes('gap-filled'))).toBe(true);

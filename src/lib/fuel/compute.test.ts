@@ -8,12 +8,12 @@ const allNaN = (a: Float64Array): boolean => a.every((v) => Number.isNaN(v));
 
 describe('degenerate inputs', () => {
 	it('no samples: empty arrays and an empty summary', () => {
-		const c = computeFlight(input(columns([])));
+		const c = computeFlight(input(columns([]), { reserve: { ruleId: 'faa-91.151-vfr-day' } }));
 		expect(c.length).toBe(0);
 		expect(c.used.length).toBe(0);
 		expect(c.alarms).toEqual([]);
-		const s = summarize(c, { reserve: { ruleId: 'faa-91.151-vfr-day' } });
-		expect(s).toMatchObject({ fuelUsedL: 0, onBoardAtShutdownL: null, start: null, blockTimeS: 0, blockTimeBasis: 'none', averageFlowLph: null, maxFlowLph: null, lowestReserveAtWpt: null, reserveReached: null });
+		const s = summarize(c);
+		expect(s).toMatchObject({ fuelUsedL: 0, onBoardAtShutdownL: null, start: null, blockTimeS: 0, blockTimeBasis: 'none', averageFlowLph: null, maxFlowLph: null, thinnestMargin: null, reserveReachedAt: null, verdict: null });
 		expect(s.reserve?.basis).toBe('none');
 	});
 
@@ -39,7 +39,7 @@ describe('degenerate inputs', () => {
 
 	it('ground speed zero throughout: no waypoint figures, no time moving', () => {
 		const c = computeFlight(input(columns(series(100, () => ({ flow: 20, gs: 0, dtg: 30 })))));
-		for (const a of [c.timeToWpt, c.fuelToWpt, c.reserveAtWpt, c.reserveAtWptMin, c.specificRange]) expect(allNaN(a)).toBe(true);
+		for (const a of [c.timeToWpt, c.fuelToWpt, c.arrivalL, c.arrivalMarginMin, c.specificRange]) expect(allNaN(a)).toBe(true);
 		expect(c.flags.every((f) => (f & FLAG_WAYPOINT) === 0)).toBe(true);
 		expect(c.alarms).toEqual([]);
 		const s = summarize(c);

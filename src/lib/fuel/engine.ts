@@ -2,15 +2,32 @@
 // loop over index ranges, carrying every running value in an EngineState, which is why a live
 // flight gives exactly the numbers of a replay of the same samples.
 
-import { createAlarmTracks, updateAlarm, type AlarmTrack } from './alarms';
+import { arrivalPersistS, createAlarmTracks, updateAlarm, type AlarmTrack } from './alarms';
 import { checkProfile, litresText, resolveDeclaration } from './declaration';
 import { eventDelta, normalizeEvents } from './events';
 import { createGapTracker, gapThresholdFor, type GapTracker } from './gaps';
 import { gapFillFlow, segmentLitres } from './integrate';
-import { createPhaseTracker, PHASE_COUNT, PHASE_STOPPED, trackPhase, type PhaseTracker } from './phases';
+import { createPhaseTracker, PHASE_CLIMB, PHASE_COUNT, PHASE_CRUISE, PHASE_STOPPED, PHASE_TAXI, trackPhase, type PhaseTracker } from './phases';
 import {
+	BASIS_BASELINE,
+	BASIS_MEASURED,
+	BASIS_NONE,
+	BASIS_RECENT,
+	MIN_MEASURED_CRUISE_S,
+	reserveAmount,
+	reserveMinutesOf,
+	type ReserveSetting
+} from './reserve';
+import { createTrailingMax, pushTrailingMax, resetTrailingMax, type TrailingMax } from './window';
+import {
+	ARRIVAL_EATS_INTO,
+	ARRIVAL_KEEPS,
+	ARRIVAL_NO_RESERVE,
+	ARRIVAL_NONE,
+	ARRIVAL_RUNS_OUT,
 	FLAG_ENDURANCE,
 	FLAG_EVENT,
+	FLAG_FLOW_FILLED,
 	FLAG_FLOW_HELD,
 	FLAG_GAP_FILLED,
 	FLAG_REJECTED,
@@ -35,10 +52,52 @@ import { DEFAULT_LIMITS, describeProblem, problemField, rowProblem, type RowLimi
 import {
 	enduranceH,
 	fuelToWaypointL,
-	reserveMinutes,
 	specificRangeNmPerL,
 	timeToWaypointH
 } from './waypoint';
+
+
+/*
+ * Module-level copies of what the kernel uses per sample: an imported binding can compile to a
+ * getter call (CommonJS interop in tsx and the test runner), which at a million samples costs as
+ * much as the arithmetic. Same values, read directly.
+ */
+const K_PHASE_STOPPED = PHASE_STOPPED;
+const K_PHASE_TAXI = PHASE_TAXI;
+const K_PHASE_CLIMB = PHASE_CLIMB;
+const K_PHASE_CRUISE = PHASE_CRUISE;
+const K_BASIS_NONE = BASIS_NONE;
+const K_BASIS_BASELINE = BASIS_BASELINE;
+const K_BASIS_MEASURED = BASIS_MEASURED;
+const K_BASIS_RECENT = BASIS_RECENT;
+const K_MIN_MEASURED_CRUISE_S = MIN_MEASURED_CRUISE_S;
+const K_ARRIVAL_NONE = ARRIVAL_NONE;
+const K_ARRIVAL_KEEPS = ARRIVAL_KEEPS;
+const K_ARRIVAL_EATS_INTO = ARRIVAL_EATS_INTO;
+const K_ARRIVAL_RUNS_OUT = ARRIVAL_RUNS_OUT;
+const K_ARRIVAL_NO_RESERVE = ARRIVAL_NO_RESERVE;
+const K_FLAG_REJECTED = FLAG_REJECTED;
+const K_FLAG_FLOW_HELD = FLAG_FLOW_HELD;
+const K_FLAG_FLOW_FILLED = FLAG_FLOW_FILLED;
+const K_FLAG_GAP_FILLED = FLAG_GAP_FILLED;
+const K_FLAG_EVENT = FLAG_EVENT;
+const K_FLAG_ENDURANCE = FLAG_ENDURANCE;
+const K_FLAG_WAYPOINT = FLAG_WAYPOINT;
+const K_WPT_NONE = WPT_NONE;
+const kRowProblem = rowProblem;
+const kTrackPhase = trackPhase;
+const kGapThresholdFor = gapThresholdFor;
+const kSegmentLitres = segmentLitres;
+const kGapFillFlow = gapFillFlow;
+const kEnduranceH = enduranceH;
+const kTimeToWaypointH = timeToWaypointH;
+const kFuelToWaypointL = fuelToWaypointL;
+const kSpecificRangeNmPerL = specificRangeNmPerL;
+const kPushTrailingMax = pushTrailingMax;
+const kResetTrailingMax = resetTrailingMax;
+const kUpdateAlarm = updateAlarm;
+const kEventDelta = eventDelta;
+const kDescribeProblem = describeProblem;
 
 /** Option defaults (our choice). */
 export const DEFAULT_OPTIONS = {
@@ -96,6 +155,11 @@ export interface EngineSetup {
 	declaration: ResolvedDeclaration;
 	events: FuelEvent[];
 	thresholds: AlarmThresholds | undefined;
+	reserve: ReserveSetting | null;
+	/** Minutes of the reserve rule; NaN without a rule (or a custom one without minutes). */
+	reserveMinutes: number;
+	/** The aircraft's recent median cruise flow, L/h; NaN when not supplied. */
+	recentCruiseLph: number;
 	options: ResolvedOptions;
 	warnings: EngineWarning[];
 }
@@ -107,11 +171,17 @@ export function prepare(input: EngineInputs): EngineSetup {
 	const options = resolveOptions(input.options);
 	const declaration = resolveDeclaration(input.declaration, profile, input.previousOnBoardL, options.formatFuel);
 	const { events, warnings: eventWarnings } = normalizeEvents(input.events, profile);
+	const reserve = input.reserve ?? null;
+	const minutes = reserve ? reserveMinutesOf(reserve) : null;
+	const recent = input.recentCruiseFlowLph;
 	return {
 		profile,
 		declaration,
 		events,
 		thresholds: input.thresholds,
+		reserve,
+		reserveMinutes: minutes === null ? NaN : minutes,
+		recentCruiseLph: typeof recent === 'number' && Number.isFinite(recent) && recent > 0 ? recent : NaN,
 		options,
 		warnings: [...profileWarnings, ...declaration.warnings, ...eventWarnings]
 	};
@@ -125,11 +195,13 @@ const FLOAT_OUTPUTS = [
 	'endurance',
 	'timeToWpt',
 	'fuelToWpt',
-	'reserveAtWpt',
-	'reserveAtWptMin',
-	'specificRange'
+	'arrivalL',
+	'arrivalMarginMin',
+	'specificRange',
+	'reserveL',
+	'cruiseFlow'
 ] as const;
-const BYTE_OUTPUTS = ['phase', 'alarmState', 'flags'] as const;
+const BYTE_OUTPUTS = ['phase', 'alarmState', 'flags', 'arrivalState', 'reserveBasis'] as const;
 
 /** The per-sample result arrays; live mode allocates them with spare room and grows them. */
 export type Outputs = Pick<FlightComputation, (typeof FLOAT_OUTPUTS)[number] | (typeof BYTE_OUTPUTS)[number]>;
@@ -162,7 +234,14 @@ export interface EngineState {
 	lastPhase: number;
 	lastRealFlowT: number;
 	lastRealFlowIdx: number;
+	/** The last real (not blank) flow reading, after the meter factor. */
+	lastRealFlow: number;
 	flowHeld: boolean;
+	/** The last real ground speed and its time, to bridge distance across blank cells. */
+	lastRealGs: number;
+	lastRealGsT: number;
+	/** The arrival margin held over the persistence time, for the thinnest airborne margin. */
+	marginWindow: TrailingMax;
 	usedTotal: number;
 	usedOffset: number;
 	/**
@@ -204,11 +283,16 @@ function emptyStats(): FlightStats {
 		phaseTimeS: new Float64Array(PHASE_COUNT),
 		phaseFuelL: new Float64Array(PHASE_COUNT),
 		phaseDistanceNm: new Float64Array(PHASE_COUNT),
-		lowestReserveL: Infinity,
-		lowestReserveMin: NaN,
-		lowestReserveT: NaN,
-		lowestReserveIndex: -1,
-		lowestReserveWpt: null
+		thinnestMarginL: Infinity,
+		thinnestMarginMin: NaN,
+		thinnestMarginT: NaN,
+		thinnestMarginIndex: -1,
+		thinnestMarginWpt: null,
+		reserveReachedIndex: -1,
+		reserveReachedT: NaN,
+		cruiseTimeS: 0,
+		cruiseFuelL: 0,
+		airborne: false
 	};
 }
 
@@ -222,7 +306,8 @@ export function createState(setup: EngineSetup): EngineState {
 			minGsKt: o.minGsKt,
 			airborneGsKt: o.airborneGsKt,
 			holdS: o.phaseHoldS,
-			baselineLph: setup.profile.baselineCruiseFlowLph
+			// Without a set normal-cruise flow, the aircraft's recent cruise is the next best reference.
+			baselineLph: setup.profile.baselineCruiseFlowLph ?? (setup.recentCruiseLph === setup.recentCruiseLph ? setup.recentCruiseLph : null)
 		}),
 		alarmTracks: createAlarmTracks(setup.thresholds),
 		lastT: NaN,
@@ -232,7 +317,11 @@ export function createState(setup: EngineSetup): EngineState {
 		lastPhase: 0,
 		lastRealFlowT: NaN,
 		lastRealFlowIdx: -1,
+		lastRealFlow: NaN,
 		flowHeld: false,
+		lastRealGs: NaN,
+		lastRealGsT: NaN,
+		marginWindow: createTrailingMax(arrivalPersistS(setup.thresholds)),
 		usedTotal: 0,
 		usedOffset: 0,
 		anchorOnBoard: setup.declaration.onBoardL,
@@ -292,12 +381,18 @@ export function runKernel(s: EngineState, cols: SampleColumns, out: Outputs, fro
 	const ph = s.phase;
 	const alarmFuel = s.alarmTracks[0];
 	const alarmEndurance = s.alarmTracks[1];
-	const alarmReserve = s.alarmTracks[2];
+	const alarmArrival = s.alarmTracks[2];
 	const episodes = s.alarms;
 	// NaN (alarm off) never compares below, so an off alarm costs nothing here.
 	const fuelThreshold = alarmFuel.threshold;
 	const enduranceThreshold = alarmEndurance.threshold;
-	const reserveThreshold = alarmReserve.threshold;
+	const arrivalThreshold = alarmArrival.threshold;
+	const airborneGs = o.airborneGsKt;
+	const reserveMin = setup.reserveMinutes;
+	const baselineRaw = profile.baselineCruiseFlowLph;
+	const baseline = baselineRaw !== null && baselineRaw > 0 ? baselineRaw : NaN;
+	const recent = setup.recentCruiseLph;
+	const win = s.marginWindow;
 	const st = s.stats;
 	const phaseTime = st.phaseTimeS;
 	const phaseFuel = st.phaseFuelL;
@@ -308,12 +403,16 @@ export function runKernel(s: EngineState, cols: SampleColumns, out: Outputs, fro
 	const oEndurance = out.endurance;
 	const oTime = out.timeToWpt;
 	const oFuel = out.fuelToWpt;
-	const oReserve = out.reserveAtWpt;
-	const oReserveMin = out.reserveAtWptMin;
+	const oArrival = out.arrivalL;
+	const oMarginMin = out.arrivalMarginMin;
 	const oRange = out.specificRange;
+	const oReserveL = out.reserveL;
+	const oCruise = out.cruiseFlow;
 	const oPhase = out.phase;
 	const oAlarm = out.alarmState;
 	const oFlags = out.flags;
+	const oArrivalState = out.arrivalState;
+	const oBasis = out.reserveBasis;
 
 	let lastT = s.lastT;
 	let lastIdx = s.lastIdx;
@@ -322,6 +421,9 @@ export function runKernel(s: EngineState, cols: SampleColumns, out: Outputs, fro
 	let lastPhase = s.lastPhase;
 	let lastRealT = s.lastRealFlowT;
 	let lastRealIdx = s.lastRealFlowIdx;
+	let lastRealFlow = s.lastRealFlow;
+	let lastRealGs = s.lastRealGs;
+	let lastRealGsT = s.lastRealGsT;
 	let held = s.flowHeld;
 	let usedTotal = s.usedTotal;
 	let usedOffset = s.usedOffset;
@@ -344,7 +446,12 @@ export function runKernel(s: EngineState, cols: SampleColumns, out: Outputs, fro
 	let lastRunFlow = st.lastRunFlowLph;
 	let firstMoveT = st.firstMoveT;
 	let lastMoveT = st.lastMoveT;
-	let lowestReserve = st.lowestReserveL;
+	let thinnest = st.thinnestMarginL;
+	// Whether an alarm not yet raised has a value below its threshold (counting its persistence).
+	let pendingBelow =
+		alarmFuel.belowSince === alarmFuel.belowSince ||
+		alarmEndurance.belowSince === alarmEndurance.belowSince ||
+		alarmArrival.belowSince === alarmArrival.belowSince;
 
 	for (let i = from; i < to; i++) {
 		const ti = t[i];
@@ -353,7 +460,7 @@ export function runKernel(s: EngineState, cols: SampleColumns, out: Outputs, fro
 		const d = dtg[i];
 		const a = alt !== undefined ? alt[i] : NaN;
 
-		// Fast path for a good row; rowProblem says exactly what is wrong with the others.
+		// Fast path for a good row; kRowProblem says exactly what is wrong with the others.
 		const suspect =
 			!(ti > lastT && ti < Infinity) ||
 			rawFlow < 0 ||
@@ -364,9 +471,9 @@ export function runKernel(s: EngineState, cols: SampleColumns, out: Outputs, fro
 			d > maxDtgLim ||
 			a < minAltLim ||
 			a > maxAltLim;
-		const problem = suspect ? rowProblem(ti, lastT, rawFlow, g, d, a, lim) : 0;
+		const problem = suspect ? kRowProblem(ti, lastT, rawFlow, g, d, a, lim) : 0;
 		if (problem !== 0) {
-			s.problems.push(describeProblem(problem, i, problemValue(problem, ti, rawFlow, g, d, a), lastT));
+			s.problems.push(kDescribeProblem(problem, i, problemValue(problem, ti, rawFlow, g, d, a), lastT));
 			// A skipped sample carries the running totals so the arrays stay aligned with the input.
 			oFlow[i] = NaN;
 			oUsed[i] = usedTotal - usedOffset;
@@ -374,12 +481,16 @@ export function runKernel(s: EngineState, cols: SampleColumns, out: Outputs, fro
 			oEndurance[i] = NaN;
 			oTime[i] = NaN;
 			oFuel[i] = NaN;
-			oReserve[i] = NaN;
-			oReserveMin[i] = NaN;
+			oArrival[i] = NaN;
+			oMarginMin[i] = NaN;
 			oRange[i] = NaN;
+			oReserveL[i] = lastIdx >= 0 ? oReserveL[lastIdx] : NaN;
+			oCruise[i] = lastIdx >= 0 ? oCruise[lastIdx] : NaN;
+			oBasis[i] = lastIdx >= 0 ? oBasis[lastIdx] : K_BASIS_NONE;
+			oArrivalState[i] = K_ARRIVAL_NONE;
 			oPhase[i] = 0;
 			oAlarm[i] = alarmBits;
-			oFlags[i] = FLAG_REJECTED;
+			oFlags[i] = K_FLAG_REJECTED;
 			continue;
 		}
 
@@ -387,46 +498,71 @@ export function runKernel(s: EngineState, cols: SampleColumns, out: Outputs, fro
 		let f: number;
 		if (rawFlow === rawFlow) f = rawFlow * mf;
 		else {
-			// A blank flow cell holds the last reading: a live flight cannot wait for the next one.
-			f = lastFlow;
-			if (f === f) flags |= FLAG_FLOW_HELD;
+			// A blank flow cell holds the last reading for now (a live flight cannot see the next
+			// one); when the next reading comes, the stretch is filled with the higher of the two.
+			f = lastRealFlow;
+			if (f === f) flags |= K_FLAG_FLOW_HELD;
 		}
-		const p = trackPhase(ph, ti, f, g, a);
+		const p = kTrackPhase(ph, ti, f, g, a);
 
 		if (lastIdx >= 0) {
 			const dt = ti - lastT;
-			const threshold = gapThresholdFor(gap, dt);
+			const threshold = kGapThresholdFor(gap, dt);
 			const isGap = dt > threshold;
-			const inc = segmentLitres(lastFlow, f, dt, isGap);
+			let inc = kSegmentLitres(lastFlow, f, dt, isGap);
 			if (isGap) {
-				flags |= FLAG_GAP_FILLED;
+				flags |= K_FLAG_GAP_FILLED;
 				s.gaps.push({
 					kind: 'time',
 					start: lastT,
 					end: ti,
 					startIndex: lastIdx,
 					endIndex: i,
-					filledFlowLph: gapFillFlow(lastFlow, f)
+					filledFlowLph: kGapFillFlow(lastFlow, f)
 				});
 			}
-			if (rawFlow === rawFlow && held && lastRealIdx >= 0 && ti - lastRealT > threshold) {
-				s.gaps.push({
-					kind: 'flow',
-					start: lastRealT,
-					end: ti,
-					startIndex: lastRealIdx,
-					endIndex: i,
-					filledFlowLph: lastFlow
-				});
+			if (rawFlow === rawFlow && held && lastRealIdx >= 0 && lastRealFlow === lastRealFlow) {
+				// End of a stretch of blank flow cells: the same rule as missing rows, the higher
+				// adjacent real reading over the whole stretch. Fuel used so far counted the held
+				// reading; this segment takes the difference, and the samples inside are rewritten.
+				const fill = f > lastRealFlow ? f : lastRealFlow;
+				inc = (fill * (ti - lastRealT) - lastRealFlow * (lastT - lastRealT)) / 3600;
+				const extraLph = fill - lastRealFlow;
+				for (let j = lastRealIdx + 1; j < i; j++) {
+					if (oFlags[j] & K_FLAG_REJECTED) {
+						// A skipped sample carries the totals of the one before it.
+						oUsed[j] = oUsed[j - 1];
+						oOnBoard[j] = oOnBoard[j - 1];
+						continue;
+					}
+					const extra = (extraLph * (t[j] - lastRealT)) / 3600;
+					const ob = oOnBoard[j] - extra;
+					oFlow[j] = fill;
+					oUsed[j] += extra;
+					oOnBoard[j] = ob;
+					oEndurance[j] = kEnduranceH(ob, fill, minFlow);
+					const fuelJ = fill * oTime[j];
+					oFuel[j] = fuelJ;
+					const arr = ob - fuelJ;
+					oArrival[j] = arr;
+					oMarginMin[j] = ((arr - oReserveL[j]) / oCruise[j]) * 60;
+					oArrivalState[j] = arrivalCode(arr, oReserveL[j]);
+					oFlags[j] = (oFlags[j] & ~K_FLAG_FLOW_HELD) | K_FLAG_FLOW_FILLED;
+					if (extraLph > 0) phaseFuel[oPhase[j]] += (extraLph * (t[j] - t[j - 1])) / 3600;
+				}
+				if (ti - lastRealT > threshold)
+					s.gaps.push({ kind: 'flow', start: lastRealT, end: ti, startIndex: lastRealIdx, endIndex: i, filledFlowLph: fill });
 			}
 			usedTotal += inc;
 			// The segment belongs to the sample's phase, except the last stretch before the engine
 			// stops, which belongs to the phase it ended.
-			const seg = p <= PHASE_STOPPED && lastPhase > p ? lastPhase : p;
+			const seg = p <= K_PHASE_STOPPED && lastPhase > p ? lastPhase : p;
 			phaseTime[seg] += dt;
 			phaseFuel[seg] += inc;
-			if (g === g && lastGs === lastGs) {
-				const dd = ((g + lastGs) * dt) / 7200;
+			// Distance bridges blank ground-speed cells and missing rows alike: the trapezoid
+			// between the adjacent real readings.
+			if (g === g && lastRealGs === lastRealGs) {
+				const dd = ((g + lastRealGs) * (ti - lastRealGsT)) / 7200;
 				distance += dd;
 				phaseDist[seg] += dd;
 			}
@@ -440,7 +576,7 @@ export function runKernel(s: EngineState, cols: SampleColumns, out: Outputs, fro
 			const ev = events[eventIdx++];
 			nextEventT = eventIdx < nEv ? events[eventIdx].t : Infinity;
 			const before = anchorOnBoard - (usedTotal - anchorUsed);
-			flags |= FLAG_EVENT;
+			flags |= K_FLAG_EVENT;
 			if (ev.kind === 'resetUsed') {
 				s.resolvedEvents.push({
 					event: ev,
@@ -452,7 +588,7 @@ export function runKernel(s: EngineState, cols: SampleColumns, out: Outputs, fro
 				});
 				usedOffset = usedTotal;
 			} else {
-				const r = eventDelta(ev, before, profile, s.setup.options.formatFuel);
+				const r = kEventDelta(ev, before, profile, s.setup.options.formatFuel);
 				if (r.warning) s.warnings.push({ ...r.warning, index: i });
 				anchorOnBoard = r.afterL;
 				anchorUsed = usedTotal;
@@ -482,10 +618,10 @@ export function runKernel(s: EngineState, cols: SampleColumns, out: Outputs, fro
 			});
 		}
 
-		const endurance = enduranceH(ob, f, minFlow);
+		const endurance = kEnduranceH(ob, f, minFlow);
 		oEndurance[i] = endurance;
 		if (f > minFlow) {
-			flags |= FLAG_ENDURANCE;
+			flags |= K_FLAG_ENDURANCE;
 			if (f > maxFlow) maxFlow = f;
 			if (firstRunT !== firstRunT) firstRunT = ti;
 			lastRunT = ti;
@@ -498,35 +634,104 @@ export function runKernel(s: EngineState, cols: SampleColumns, out: Outputs, fro
 			lastMoveT = ti;
 		}
 
-		// Below the waypoint ground speed every waypoint figure is NaN by construction, never Infinity.
-		const hours = timeToWaypointH(d, g, wptGs);
-		const fuel = fuelToWaypointL(f, hours);
-		const reserve = ob - fuel;
-		const reserveMin = reserveMinutes(reserve, f, minFlow);
-		oTime[i] = hours;
-		oFuel[i] = fuel;
-		oReserve[i] = reserve;
-		oReserveMin[i] = reserveMin;
-		oRange[i] = specificRangeNmPerL(g, f, wptGs, minFlow);
-		if (reserve === reserve) {
-			flags |= FLAG_WAYPOINT;
-			if (reserve < lowestReserve) {
-				lowestReserve = reserve;
-				st.lowestReserveMin = reserveMin;
-				st.lowestReserveT = ti;
-				st.lowestReserveIndex = i;
-				const w = wpt !== undefined ? wpt[i] : WPT_NONE;
-				st.lowestReserveWpt = w === WPT_NONE ? null : w;
-			}
+		// The normal-cruise flow in force, with the precedence of reserve.ts normalCruiseFlow():
+		// set baseline, else this flight's cruise so far (once long enough), else recent flights.
+		let cruise: number;
+		let basis: number;
+		const cruiseTime = phaseTime[K_PHASE_CRUISE];
+		if (baseline === baseline) {
+			cruise = baseline;
+			basis = K_BASIS_BASELINE;
+		} else if (cruiseTime >= K_MIN_MEASURED_CRUISE_S && phaseFuel[K_PHASE_CRUISE] > 0) {
+			cruise = (phaseFuel[K_PHASE_CRUISE] / cruiseTime) * 3600;
+			basis = K_BASIS_MEASURED;
+		} else if (recent === recent) {
+			cruise = recent;
+			basis = K_BASIS_RECENT;
+		} else {
+			cruise = NaN;
+			basis = K_BASIS_NONE;
+		}
+		// The one reserve amount every statement compares fuel against.
+		const reserveL = (reserveMin / 60) * cruise;
+		oReserveL[i] = reserveL;
+		oCruise[i] = cruise;
+		oBasis[i] = basis;
+		if (ob < reserveL && st.reserveReachedIndex < 0) {
+			st.reserveReachedIndex = i;
+			st.reserveReachedT = ti;
 		}
 
+		// No waypoint figures on the ground (a taxi or take-off roll would divide by a low speed)
+		// nor below the waypoint ground speed: NaN by construction, never Infinity.
+		const onGround = p === K_PHASE_TAXI || p === K_PHASE_STOPPED;
+		const airborne = p >= K_PHASE_CLIMB && g >= airborneGs;
+		const hours = onGround ? NaN : kTimeToWaypointH(d, g, wptGs);
+		const fuel = kFuelToWaypointL(f, hours);
+		const arrival = ob - fuel;
+		const marginL = arrival - reserveL;
+		oTime[i] = hours;
+		oFuel[i] = fuel;
+		oArrival[i] = arrival;
+		oMarginMin[i] = (marginL / cruise) * 60;
+		// arrivalCode() written out: one more call per sample would push trackPhase and friends out
+		// of V8's inlining budget (see phases.ts). properties.test.ts checks the two agree.
+		oArrivalState[i] =
+			arrival !== arrival
+				? K_ARRIVAL_NONE
+				: arrival < 0
+					? K_ARRIVAL_RUNS_OUT
+					: reserveL !== reserveL
+						? K_ARRIVAL_NO_RESERVE
+						: arrival >= reserveL
+							? K_ARRIVAL_KEEPS
+							: K_ARRIVAL_EATS_INTO;
+		oRange[i] = kSpecificRangeNmPerL(g, f, wptGs, minFlow);
+		if (arrival === arrival) flags |= K_FLAG_WAYPOINT;
+		if (airborne) {
+			st.airborne = true;
+			if (marginL >= thinnest) {
+				// A window holding this sample cannot hold less than the thinnest so far: start the
+				// next window after it (exact, and it keeps the queue empty most of the flight).
+				if (win.runStart === win.runStart) kResetTrailingMax(win);
+			} else if (marginL === marginL) {
+				const kept = kPushTrailingMax(win, ti, marginL);
+				if (kept < thinnest) {
+					thinnest = kept;
+					st.thinnestMarginMin = (kept / cruise) * 60;
+					st.thinnestMarginT = ti;
+					st.thinnestMarginIndex = i;
+					const w = wpt !== undefined ? wpt[i] : K_WPT_NONE;
+					st.thinnestMarginWpt = w === K_WPT_NONE ? null : w;
+				}
+			} else if (win.runStart === win.runStart) kResetTrailingMax(win);
+		} else if (win.runStart === win.runStart) kResetTrailingMax(win);
+
+		// The values alarms judge: endurance at the flow of alarms.ts enduranceJudgeFlow() (written
+		// out for the same inlining reason; properties.test.ts checks they agree); the arrival
+		// margin against the reserve (against empty tanks when there is no reserve), airborne only.
+		const judgeFlow = !(f > minFlow)
+			? NaN
+			: cruise !== cruise
+				? p === K_PHASE_CLIMB
+					? NaN
+					: f
+				: p === K_PHASE_CLIMB || cruise > f
+					? cruise
+					: f;
+		const enduranceMin = (ob / judgeFlow) * 60;
+		const arrivalValue = airborne ? (reserveL === reserveL ? marginL : arrival) : NaN;
 		// Most samples are nowhere near an alarm: one compare each before the full update.
-		const enduranceMin = endurance * 60;
-		if (alarmBits !== 0 || ob < fuelThreshold || enduranceMin < enduranceThreshold || reserve < reserveThreshold)
+		if (alarmBits !== 0 || pendingBelow || ob < fuelThreshold || enduranceMin < enduranceThreshold || arrivalValue < arrivalThreshold) {
 			alarmBits =
-				updateAlarm(alarmFuel, ob, ti, i, episodes) |
-				updateAlarm(alarmEndurance, enduranceMin, ti, i, episodes) |
-				updateAlarm(alarmReserve, reserve, ti, i, episodes);
+				kUpdateAlarm(alarmFuel, ob, ti, i, episodes) |
+				kUpdateAlarm(alarmEndurance, enduranceMin, ti, i, episodes) |
+				kUpdateAlarm(alarmArrival, arrivalValue, ti, i, episodes);
+			pendingBelow =
+				alarmFuel.belowSince === alarmFuel.belowSince ||
+				alarmEndurance.belowSince === alarmEndurance.belowSince ||
+				alarmArrival.belowSince === alarmArrival.belowSince;
+		}
 
 		oPhase[i] = p;
 		oAlarm[i] = alarmBits;
@@ -538,9 +743,14 @@ export function runKernel(s: EngineState, cols: SampleColumns, out: Outputs, fro
 		lastFlow = f;
 		lastGs = g;
 		lastPhase = p;
+		if (g === g) {
+			lastRealGs = g;
+			lastRealGsT = ti;
+		}
 		if (rawFlow === rawFlow) {
 			lastRealT = ti;
 			lastRealIdx = i;
+			lastRealFlow = f;
 			held = false;
 		} else held = true;
 	}
@@ -552,6 +762,9 @@ export function runKernel(s: EngineState, cols: SampleColumns, out: Outputs, fro
 	s.lastPhase = lastPhase;
 	s.lastRealFlowT = lastRealT;
 	s.lastRealFlowIdx = lastRealIdx;
+	s.lastRealFlow = lastRealFlow;
+	s.lastRealGs = lastRealGs;
+	s.lastRealGsT = lastRealGsT;
 	s.flowHeld = held;
 	s.usedTotal = usedTotal;
 	s.usedOffset = usedOffset;
@@ -575,7 +788,15 @@ export function runKernel(s: EngineState, cols: SampleColumns, out: Outputs, fro
 	st.lastRunFlowLph = lastRunFlow;
 	st.firstMoveT = firstMoveT;
 	st.lastMoveT = lastMoveT;
-	st.lowestReserveL = lowestReserve;
+	st.thinnestMarginL = thinnest;
+}
+
+/** ARRIVAL_* code from the fuel left on arrival and the reserve amount (either may be NaN). */
+export function arrivalCode(arrivalL: number, reserveL: number): number {
+	if (arrivalL !== arrivalL) return K_ARRIVAL_NONE;
+	if (arrivalL < 0) return K_ARRIVAL_RUNS_OUT;
+	if (reserveL !== reserveL) return K_ARRIVAL_NO_RESERVE;
+	return arrivalL >= reserveL ? K_ARRIVAL_KEEPS : K_ARRIVAL_EATS_INTO;
 }
 
 function view<T extends Float64Array | Uint8Array>(a: T, n: number): T {
@@ -608,7 +829,9 @@ export function snapshot(s: EngineState, out: Outputs, n: number, extraWarnings:
 		});
 	}
 	const st = s.stats;
-	const lowest = st.lowestReserveIndex >= 0;
+	const thinnest = st.thinnestMarginIndex >= 0;
+	const cruiseTimeS = st.phaseTimeS[PHASE_CRUISE];
+	const cruiseFuelL = st.phaseFuelL[PHASE_CRUISE];
 	return {
 		length: n,
 		flow: view(out.flow, n),
@@ -617,12 +840,16 @@ export function snapshot(s: EngineState, out: Outputs, n: number, extraWarnings:
 		endurance: view(out.endurance, n),
 		timeToWpt: view(out.timeToWpt, n),
 		fuelToWpt: view(out.fuelToWpt, n),
-		reserveAtWpt: view(out.reserveAtWpt, n),
-		reserveAtWptMin: view(out.reserveAtWptMin, n),
+		arrivalL: view(out.arrivalL, n),
+		arrivalMarginMin: view(out.arrivalMarginMin, n),
 		specificRange: view(out.specificRange, n),
+		reserveL: view(out.reserveL, n),
+		cruiseFlow: view(out.cruiseFlow, n),
 		phase: view(out.phase, n),
 		alarmState: view(out.alarmState, n),
 		flags: view(out.flags, n),
+		arrivalState: view(out.arrivalState, n),
+		reserveBasis: view(out.reserveBasis, n),
 		alarms: s.alarms.map((e) => ({ ...e })),
 		gaps: s.gaps.slice(),
 		problems: s.problems.slice(),
@@ -631,12 +858,17 @@ export function snapshot(s: EngineState, out: Outputs, n: number, extraWarnings:
 		events: [...s.resolvedEvents, ...pending],
 		stats: {
 			...st,
-			lowestReserveL: lowest ? st.lowestReserveL : NaN,
+			thinnestMarginL: thinnest ? st.thinnestMarginL : NaN,
+			cruiseTimeS,
+			cruiseFuelL,
 			phaseTimeS: st.phaseTimeS.slice(),
 			phaseFuelL: st.phaseFuelL.slice(),
 			phaseDistanceNm: st.phaseDistanceNm.slice()
 		},
 		profile: setup.profile,
+		reserve: setup.reserve
+			? reserveAmount(setup.reserve, setup.profile.baselineCruiseFlowLph, { timeS: cruiseTimeS, fuelL: cruiseFuelL }, setup.recentCruiseLph)
+			: null,
 		gapThresholdS: s.gap.thresholdS
 	};
 }

@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { computeFlight } from './compute';
 import { createGapTracker, gapThresholdFor, MEDIAN_INTERVALS } from './gaps';
 import { columns, input, series, T0, type Row } from './test-fixtures';
-import { FLAG_FLOW_HELD, FLAG_GAP_FILLED, FLAG_REJECTED } from './types';
+import { FLAG_FLOW_FILLED, FLAG_FLOW_HELD, FLAG_GAP_FILLED, FLAG_REJECTED } from './types';
 
 describe('gap threshold', () => {
 	it('is the larger of 10 s and 5 × the median interval', () => {
@@ -48,14 +48,70 @@ describe('data gaps', () => {
 		expect(c.gapThresholdS).toBe(40);
 	});
 
-	it('holds the last flow over blank cells and reports a long blank stretch', () => {
-		const rows = series(40, (i) => ({ flow: i >= 5 && i < 30 ? undefined : i < 5 ? 20 : 40 }));
+	// One rule for every dropout, checked in closed form: constant flow A before, constant flow B
+	// after, a 120 s stretch with nothing recorded in between. Whether the recorder wrote no rows,
+	// rows with every cell but the clock blank, or rows with only the flow blank, fuel used over
+	// the stretch is the higher adjacent flow × its length, and distance is bridged from the
+	// adjacent ground speeds (trapezoid: FAA-H-8083-25, distance = speed × time).
+	const A = 30;
+	const B = 48;
+	const GS_A = 100;
+	const GS_B = 120;
+	const before = series(60, () => ({ flow: A, gs: GS_A }));
+	const after = series(60, () => ({ flow: B, gs: GS_B }), T0 + 59 + 120);
+	const missingRows: Row[] = [...before, ...after];
+	const blankRows: Row[] = [...before, ...series(119, () => ({}), T0 + 60), ...after];
+	const flowBlank: Row[] = [...before, ...series(119, () => ({ gs: 110 }), T0 + 60), ...after];
+	// 59 s at A, 120 s at max(A, B) = B, 59 s at B.
+	const usedExpected = (59 * A + 120 * B + 59 * B) / 3600;
+
+	for (const [name, rows] of [
+		['missing rows', missingRows],
+		['rows with every cell blank', blankRows],
+		['rows with the flow cell blank', flowBlank]
+	] as const) {
+		it(`fills a dropout written as ${name} with the higher adjacent flow`, () => {
+			const c = computeFlight(input(columns(rows)));
+			const last = c.length - 1;
+			expect(c.used[last]).toBeCloseTo(usedExpected, 12);
+			// The timeline entry states the very flow used.
+			expect(c.gaps).toHaveLength(1);
+			expect(c.gaps[0]).toMatchObject({ start: T0 + 59, end: T0 + 179, filledFlowLph: B });
+		});
+	}
+
+	it('bridges distance across blank ground-speed cells as across missing rows', () => {
+		const ref = computeFlight(input(columns(missingRows)));
+		const blank = computeFlight(input(columns(blankRows)));
+		// 59 s at 100 kt, the 120 s stretch at (100 + 120)/2, 59 s at 120 kt.
+		const nm = (59 * GS_A + 120 * ((GS_A + GS_B) / 2) + 59 * GS_B) / 3600;
+		expect(ref.stats.distanceNm).toBeCloseTo(nm, 12);
+		expect(blank.stats.distanceNm).toBeCloseTo(nm, 12);
+	});
+
+	it('shows the filled flow at the blank samples once the next reading has come', () => {
+		const c = computeFlight(input(columns(blankRows)));
+		expect(c.flow[100]).toBe(B);
+		expect(c.flags[100] & FLAG_FLOW_FILLED).toBe(FLAG_FLOW_FILLED);
+		expect(c.flags[100] & FLAG_FLOW_HELD).toBe(0);
+		// On board inside the stretch follows the filled flow: 59 s at A, then 41 s at B.
+		expect(c.used[100]).toBeCloseTo((59 * A + 41 * B) / 3600, 12);
+		expect(c.onBoard[100]).toBeCloseTo(150 - c.used[100], 12);
+	});
+
+	it('takes the earlier reading when it is the higher one', () => {
+		const rows = series(40, (i) => ({ flow: i >= 5 && i < 30 ? undefined : i < 5 ? 40 : 20 }));
 		const c = computeFlight(input(columns(rows)));
-		expect(c.flow[10]).toBe(20);
-		expect(c.flags[10] & FLAG_FLOW_HELD).toBe(FLAG_FLOW_HELD);
-		expect(c.gaps).toEqual([{ kind: 'flow', start: T0 + 4, end: T0 + 30, startIndex: 4, endIndex: 30, filledFlowLph: 20 }]);
-		// 29 s at 20 L/h, then one trapezoid 20 → 40, then 9 s at 40.
-		expect(c.used[39]).toBeCloseTo((29 * 20 + 30 + 9 * 40) / 3600, 12);
+		expect(c.gaps).toEqual([{ kind: 'flow', start: T0 + 4, end: T0 + 30, startIndex: 4, endIndex: 30, filledFlowLph: 40 }]);
+		// 4 s at 40, the 26 s stretch at 40, 9 s at 20.
+		expect(c.used[39]).toBeCloseTo((4 * 40 + 26 * 40 + 9 * 20) / 3600, 12);
+	});
+
+	it('holds the last reading while the stretch is still open (a live flight cannot see ahead)', () => {
+		const rows = series(20, (i) => ({ flow: i < 5 ? 20 : undefined }));
+		const c = computeFlight(input(columns(rows)));
+		expect(c.flow[19]).toBe(20);
+		expect(c.flags[19] & FLAG_FLOW_HELD).toBe(FLAG_FLOW_HELD);
 	});
 });
 

@@ -11,10 +11,11 @@
 //   integrate.ts    fuel used between two samples (trapezoid; higher flow across a dropout)
 //   gaps.ts         when the time between samples is a dropout
 //   validate.ts     row checks: time order, negative and absurd values
-//   waypoint.ts     endurance, time/fuel/reserve to the next waypoint, specific range
+//   waypoint.ts     endurance, time/fuel to the next waypoint, specific range
+//   window.ts       largest value over a trailing time window (margins that held)
 //   phases.ts       stopped / taxi / climb / cruise / descent
-//   alarms.ts       low fuel, low endurance, negative reserve episodes with hysteresis
-//   reserve.ts      legal reserve rules as data, and the reserve amount
+//   alarms.ts       low fuel, low endurance, arrival below the reserve: persistence, hysteresis
+//   reserve.ts      legal reserve rules as data, the normal-cruise flow and the reserve amount
 //   summary.ts      summarize(): the flight summary for the debrief
 //   calibration.ts  meter factor and K-factor from a fill-up
 // Unit constants and conversions live beside this folder in $lib/units.ts.
@@ -31,7 +32,7 @@ export { DEFAULT_LIMITS } from './validate';
 export {
 	enduranceH,
 	fuelToWaypointL,
-	reserveMinutes,
+	minutesAtFlow,
 	specificRangeNmPerL,
 	timeToWaypointH
 } from './waypoint';
@@ -46,10 +47,16 @@ export {
 	phaseNames,
 	type PhaseName
 } from './phases';
-export { DEFAULT_HYSTERESIS } from './alarms';
+export { DEFAULT_HYSTERESIS, DEFAULT_PERSIST_S, enduranceJudgeFlow } from './alarms';
+export { arrivalCode } from './engine';
 export {
+	MIN_MEASURED_CRUISE_S,
 	RESERVE_CAUTION,
+	cruiseBasisCodes,
+	normalCruiseFlow,
 	reserveAmount,
+	reserveMinutesOf,
+	type CruiseBasis,
 	reserveRule,
 	reserveRules,
 	type ReserveAmount,
@@ -57,7 +64,7 @@ export {
 	type ReserveRuleId,
 	type ReserveSetting
 } from './reserve';
-export { summarize, type FlightSummary, type PhaseSummary } from './summary';
+export { summarize, verdictStates, type FlightSummary, type FlightVerdict, type PhaseSummary, type VerdictState } from './summary';
 export {
 	MIN_RELIABLE_INDICATED_L,
 	PLAUSIBLE_CORRECTION_PERCENT,

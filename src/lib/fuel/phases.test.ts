@@ -10,7 +10,7 @@ import {
 	createPhaseTracker,
 	trackPhase
 } from './phases';
-import { columns, crossCountry, input, profile } from './test-fixtures';
+import { columns, crossCountry, input, profile, series } from './test-fixtures';
 
 /** Phase at the middle of each stretch of the fixture flight (minutes 0–5 taxi, 5–15 climb, 15–95 cruise, 95–110 descent, 110–115 taxi, 115–116 stopped). */
 const at = (phase: Uint8Array, minute: number): number => phase[Math.round(minute * 60)];
@@ -28,9 +28,35 @@ describe('flight phases', () => {
 		]);
 	});
 
-	it('falls back to flow against the highest flow so far without altitude', () => {
+	it('without altitude or any reference flow, needs a high-flow segment standing out before it says climb', () => {
 		const c = computeFlight(input(columns(crossCountry({ withAlt: false }))));
+		// The climb after take-off has nothing lower before it: cruise (its flow counts towards the
+		// measured cruise, which makes the reserve amount larger, never smaller).
+		expect([at(c.phase, 10), at(c.phase, 50), at(c.phase, 102)]).toEqual([PHASE_CRUISE, PHASE_CRUISE, PHASE_DESCENT]);
+	});
+
+	it('uses the aircraft’s recent cruise flow as the reference when no baseline is set', () => {
+		const c = computeFlight(input(columns(crossCountry({ withAlt: false })), { recentCruiseFlowLph: 30 }));
 		expect([at(c.phase, 10), at(c.phase, 50), at(c.phase, 102)]).toEqual([PHASE_CLIMB, PHASE_CRUISE, PHASE_DESCENT]);
+	});
+
+	it('calls a steady flight without altitude cruise, and it gets a reserve amount', () => {
+		// Issue: such a flight was climb throughout, so no measured cruise and no reserve amount.
+		// 5 min taxi at 12 L/h, then 60 min at 110 kt and 32 L/h, no altitude, no baseline.
+		const rows = series(65 * 60, (i) => (i < 300 ? { flow: 12, gs: 8 } : { flow: 32, gs: 110 }));
+		const c = computeFlight(input(columns(rows), { reserve: { ruleId: 'faa-91.151-vfr-day' } }));
+		const airborne = Array.from(c.phase.subarray(330));
+		expect(new Set(airborne)).toEqual(new Set([PHASE_CRUISE]));
+		// 14 CFR 91.151(a)(1): 30 min at normal cruise; measured cruise 32 L/h → 16 L.
+		expect(c.reserve?.basis).toBe('measured');
+		expect(c.reserve?.amountL).toBeCloseTo(16, 1);
+		expect(c.reserveL[c.length - 1]).toBe(c.reserve?.amountL);
+	});
+
+	it('detects a later step climb of a flight without altitude', () => {
+		const rows = series(60 * 60, (i) => ({ flow: i >= 30 * 60 && i < 40 * 60 ? 60 : 30, gs: 110 }));
+		const c = computeFlight(input(columns(rows)));
+		expect([c.phase[20 * 60], c.phase[35 * 60], c.phase[50 * 60]]).toEqual([PHASE_CRUISE, PHASE_CLIMB, PHASE_CRUISE]);
 	});
 
 	it('uses the baseline cruise flow when the aircraft has one', () => {

@@ -23,10 +23,15 @@ export const phaseNames: readonly PhaseName[] = [
 /*
  * Detector settings (our choice, tuned on typical four-seat singles, not from a source):
  * - vertical speed beyond ±300 ft/min, smoothed over about 15 s, is a climb or descent;
- * - without altitude, flow relative to the aircraft's baseline cruise flow (≥ 1.3× climb,
- *   ≤ 0.7× descent) or, with no baseline, relative to the highest smoothed flow seen airborne so
- *   far (≥ 0.8× climb, ≤ 0.4× descent), because take-off and climb use the most power
- *   (climb flow near twice cruise, common practice).
+ * - without altitude, flow relative to a reference cruise flow — the aircraft's set baseline,
+ *   else its recent median cruise — (≥ 1.3× climb, ≤ 0.7× descent);
+ * - with no reference at all, climb needs evidence: a flow near the highest smoothed airborne
+ *   flow so far (≥ 0.8×) AND that highest flow clearly above the lowest one (≥ 1.3×), i.e. a
+ *   high-flow segment standing out from a lower one (climb flow near twice cruise, common
+ *   practice); descent ≤ 0.4× the highest. A steady flight is therefore cruise throughout. Using
+ *   past samples only, the first climb after take-off of such a flight reads as cruise (nothing
+ *   lower has been seen yet): its measured cruise flow comes out higher, and so does the reserve
+ *   amount — the error is on the side of less fuel.
  */
 export const VS_CLIMB_FPM = 300;
 export const VS_SMOOTH_S = 15;
@@ -52,6 +57,9 @@ export interface PhaseTracker {
 	flowWeight: number;
 	flowSmooth: number;
 	peakAirborneFlow: number;
+	lowestAirborneFlow: number;
+	/** First sample of the current airborne stretch (NaN on the ground). */
+	airborneSince: number;
 	lastAlt: number;
 	lastAltT: number;
 	altDt: number;
@@ -81,6 +89,8 @@ export function createPhaseTracker(o: {
 		flowWeight: NaN,
 		flowSmooth: NaN,
 		peakAirborneFlow: 0,
+		lowestAirborneFlow: Infinity,
+		airborneSince: NaN,
 		lastAlt: NaN,
 		lastAltT: NaN,
 		altDt: NaN,
@@ -141,7 +151,10 @@ function airbornePhase(p: PhaseTracker, t: number): number {
 		return PHASE_CRUISE;
 	}
 	if (f > p.peakAirborneFlow) p.peakAirborneFlow = f;
-	if (f >= PEAK_CLIMB_RATIO * p.peakAirborneFlow) return PHASE_CLIMB;
+	// The smoothed flow still carries the taxi flow just after take-off: the lowest airborne flow
+	// is taken only once that has faded (three smoothing times, about 5 % left).
+	if (f < p.lowestAirborneFlow && t - p.airborneSince >= 3 * FLOW_SMOOTH_S) p.lowestAirborneFlow = f;
+	if (f >= PEAK_CLIMB_RATIO * p.peakAirborneFlow && p.peakAirborneFlow >= BASELINE_CLIMB_RATIO * p.lowestAirborneFlow) return PHASE_CLIMB;
 	if (f <= PEAK_DESCENT_RATIO * p.peakAirborneFlow) return PHASE_DESCENT;
 	return PHASE_CRUISE;
 }
@@ -151,10 +164,12 @@ function candidatePhase(p: PhaseTracker, t: number, flowLph: number, gsKt: numbe
 	const running = flowLph > p.minFlowLph;
 	if (gsKt !== gsKt) return flowLph === flowLph && !running ? PHASE_STOPPED : PHASE_UNKNOWN;
 	if (gsKt < p.airborneGsKt) {
+		p.airborneSince = NaN;
 		if (running) return PHASE_TAXI;
 		// Moving with no flow reading yet: most likely taxiing before the first reading.
 		return flowLph !== flowLph && gsKt >= p.minGsKt ? PHASE_TAXI : PHASE_STOPPED;
 	}
+	if (p.airborneSince !== p.airborneSince) p.airborneSince = t;
 	return airbornePhase(p, t);
 }
 

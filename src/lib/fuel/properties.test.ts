@@ -4,6 +4,10 @@ import { computeFlight } from './compute';
 import { createLiveComputation } from './live';
 import { firstDifference, profile, slice, T0 } from './test-fixtures';
 import type { FlightInput, FuelEvent, SampleColumns } from './types';
+import { FLAG_REJECTED } from './types';
+import { enduranceJudgeFlow } from './alarms';
+import { arrivalCode } from './engine';
+import { PHASE_CLIMB } from './phases';
 
 // Random flights: mostly regular intervals with dropouts, repeated and backward times now and
 // then, blank cells in every column, and fuel events anywhere in (or beyond) the flight.
@@ -55,7 +59,9 @@ function build(f: Flight): FlightInput {
 		profile: profile({ meterFactor: f.meterFactor }),
 		declaration: { kind: 'onBoard', amountL: f.declaredL },
 		events: f.events.map((e) => ({ t: T0 + e.at * span, kind: e.kind, amountL: e.amountL })),
-		thresholds: { lowFuelL: 30, lowEnduranceMin: 45 }
+		thresholds: { lowFuelL: 30, lowEnduranceMin: 45 },
+		reserve: { ruleId: 'faa-91.151-vfr-day' },
+		recentCruiseFlowLph: 28
 	};
 }
 
@@ -107,6 +113,28 @@ describe('engine invariants (fast-check)', () => {
 			fc.property(flight, chunkSizes, (f, sizes) => {
 				const input = build(f);
 				expect(firstDifference(runLive(input, sizes), computeFlight(input))).toBeNull();
+			}),
+			{ numRuns: 200 }
+		);
+	});
+
+	it('the kernel’s written-out arrival state and endurance judgement are arrivalCode() and enduranceJudgeFlow()', () => {
+		fc.assert(
+			fc.property(flight, (f) => {
+				const input = build(f);
+				const c = computeFlight({ ...input, thresholds: { lowFuelL: null, lowEnduranceMin: 1e9, persistS: { endurance: 0 } } });
+				for (let i = 0; i < c.length; i++) {
+					if (c.flags[i] & FLAG_REJECTED) continue;
+					expect(c.arrivalState[i]).toBe(arrivalCode(c.arrivalL[i], c.reserveL[i]));
+				}
+				// With a threshold nothing reaches, the alarm is raised at the first judged sample, with
+				// the judged endurance as its value.
+				const ep = c.alarms.find((a) => a.kind === 'lowEndurance');
+				if (ep) {
+					const i = ep.raisedIndex;
+					const judged = enduranceJudgeFlow(c.flow[i], c.cruiseFlow[i], c.phase[i] === PHASE_CLIMB, 0.5);
+					expect(ep.value).toBe((c.onBoard[i] / judged) * 60);
+				}
 			}),
 			{ numRuns: 200 }
 		);

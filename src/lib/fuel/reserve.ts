@@ -1,6 +1,7 @@
 // Legal fuel reserve rules as data, each with its citation and a paraphrase of its text, and the
-// reserve amount in litres: minutes × the aircraft's baseline cruise flow, or the flight's own
-// measured cruise flow when no baseline is set. Rules differ by country and change: show the one used.
+// one definition of the reserve amount: the rule's minutes × the aircraft's normal-cruise flow —
+// its set baseline; else this flight's measured cruise; else the aircraft's recent median cruise.
+// Rules differ by country and change: show the one used, and the basis of the flow.
 
 export type ReserveRuleId =
 	| 'faa-91.151-vfr-day'
@@ -107,6 +108,47 @@ export interface ReserveSetting {
 	customMinutes?: number;
 }
 
+/** Where the normal-cruise flow behind the reserve amount comes from. */
+export type CruiseBasis = 'baseline' | 'measured' | 'recent' | 'none';
+/** Basis codes for the engine's per-sample byte array (FlightComputation.reserveBasis). */
+export const cruiseBasisCodes: readonly CruiseBasis[] = ['none', 'baseline', 'measured', 'recent'];
+export const BASIS_NONE = 0;
+export const BASIS_BASELINE = 1;
+export const BASIS_MEASURED = 2;
+export const BASIS_RECENT = 3;
+
+/**
+ * A flight's own cruise counts as "measured" only after this much cruise (our choice): the first
+ * minutes after levelling off still carry the climb's mixture and power settings, and a figure
+ * from a few samples would swing the reserve amount around.
+ */
+export const MIN_MEASURED_CRUISE_S = 300;
+
+/** Reserve minutes of a setting; null for a custom rule without usable minutes. */
+export function reserveMinutesOf(setting: ReserveSetting | null | undefined): number | null {
+	if (!setting) return null;
+	const rule = reserveRule(setting.ruleId);
+	if (rule.id !== 'custom') return rule.minutes;
+	const m = setting.customMinutes;
+	return typeof m === 'number' && Number.isFinite(m) && m >= 0 ? m : null;
+}
+
+/**
+ * The normal-cruise flow and its basis. The engine runs the same precedence inline per sample
+ * (engine.ts, without allocating); tests check that the two agree.
+ */
+export function normalCruiseFlow(
+	baselineCruiseFlowLph: number | null | undefined,
+	measured: { timeS: number; fuelL: number } | null | undefined,
+	recentCruiseFlowLph: number | null | undefined
+): { basis: CruiseBasis; flowLph: number | null } {
+	if (usable(baselineCruiseFlowLph)) return { basis: 'baseline', flowLph: baselineCruiseFlowLph };
+	if (measured && measured.timeS >= MIN_MEASURED_CRUISE_S && measured.fuelL > 0)
+		return { basis: 'measured', flowLph: (measured.fuelL / measured.timeS) * 3600 };
+	if (usable(recentCruiseFlowLph)) return { basis: 'recent', flowLph: recentCruiseFlowLph };
+	return { basis: 'none', flowLph: null };
+}
+
 export interface ReserveAmount {
 	rule: ReserveRule;
 	minutes: number | null;
@@ -114,58 +156,57 @@ export interface ReserveAmount {
 	flowLph: number | null;
 	amountL: number | null;
 	/** Which flow was used: the aircraft's baseline, the flight's measured cruise, or none was available. */
-	basis: 'baseline' | 'measured' | 'none';
+	basis: CruiseBasis;
 	note: string;
 }
 
-const usable = (x: number | null | undefined): x is number =>
-	typeof x === 'number' && Number.isFinite(x) && x > 0;
+function usable(x: number | null | undefined): x is number {
+	return typeof x === 'number' && Number.isFinite(x) && x > 0;
+}
 
-/** Reserve in litres for a rule; says which cruise flow it rests on. */
+const BASIS_NOTES: Record<Exclude<CruiseBasis, 'none'>, string> = {
+	baseline: "the aircraft's set normal-cruise flow",
+	measured: "this flight's measured cruise flow (no normal-cruise flow set for the aircraft)",
+	recent: "the aircraft's recent median cruise flow (none set, none measured in this flight yet)"
+};
+
+/**
+ * Reserve in litres for a rule: minutes × normal-cruise flow, saying which flow it rests on.
+ * `measured` is this flight's cruise time and fuel (a bare flow in L/h is taken as measured over
+ * enough cruise, for callers that already hold the flight's cruise flow).
+ */
 export function reserveAmount(
 	setting: ReserveSetting,
 	baselineCruiseFlowLph: number | null | undefined,
-	measuredCruiseFlowLph: number | null | undefined
+	measured: number | { timeS: number; fuelL: number } | null | undefined,
+	recentCruiseFlowLph?: number | null
 ): ReserveAmount {
 	const rule = reserveRule(setting.ruleId);
-	let minutes = rule.minutes;
-	if (rule.id === 'custom') {
-		const m = setting.customMinutes;
-		minutes = typeof m === 'number' && Number.isFinite(m) && m >= 0 ? m : null;
-	}
+	const minutes = reserveMinutesOf(setting);
 	if (minutes === null)
+		return { rule, minutes: null, flowLph: null, amountL: null, basis: 'none', note: 'No reserve minutes set for the custom rule.' };
+	const m =
+		typeof measured === 'number'
+			? usable(measured)
+				? { timeS: 3600, fuelL: measured }
+				: null
+			: measured;
+	const cruise = normalCruiseFlow(baselineCruiseFlowLph, m, recentCruiseFlowLph);
+	if (cruise.basis === 'none' || cruise.flowLph === null)
 		return {
 			rule,
-			minutes: null,
+			minutes,
 			flowLph: null,
 			amountL: null,
 			basis: 'none',
-			note: 'No reserve minutes set for the custom rule.'
-		};
-	if (usable(baselineCruiseFlowLph))
-		return {
-			rule,
-			minutes,
-			flowLph: baselineCruiseFlowLph,
-			amountL: (minutes / 60) * baselineCruiseFlowLph,
-			basis: 'baseline',
-			note: `${minutes} min at the aircraft's baseline cruise flow.`
-		};
-	if (usable(measuredCruiseFlowLph))
-		return {
-			rule,
-			minutes,
-			flowLph: measuredCruiseFlowLph,
-			amountL: (minutes / 60) * measuredCruiseFlowLph,
-			basis: 'measured',
-			note: `${minutes} min at this flight's measured cruise flow (no baseline set for the aircraft).`
+			note: 'No normal-cruise flow: none set for the aircraft, no cruise measured in this flight, no recent flights to take one from.'
 		};
 	return {
 		rule,
 		minutes,
-		flowLph: null,
-		amountL: null,
-		basis: 'none',
-		note: 'No baseline cruise flow for the aircraft and no cruise in this flight to measure one from.'
+		flowLph: cruise.flowLph,
+		amountL: (minutes / 60) * cruise.flowLph,
+		basis: cruise.basis,
+		note: `${minutes} min at ${BASIS_NOTES[cruise.basis]}.`
 	};
 }

@@ -1,9 +1,10 @@
 // The flight summary for the debrief: fuel used and left, times, flows, phases, cruise specific
-// range, the thinnest reserve at a waypoint, and when the fuel on board would reach the legal
-// reserve at the flow last shown. Built from the running totals; no second pass over the samples.
+// range, and the verdict: fuel on board at shutdown against the reserve amount, the thinnest
+// airborne arrival margin that held, and when (within the flight) fuel went below the reserve.
+// Built from the running totals; no second pass over the samples.
 
 import { PHASE_CLIMB, PHASE_CRUISE, PHASE_DESCENT, PHASE_STOPPED, PHASE_TAXI, phaseNames, type PhaseName } from './phases';
-import { reserveAmount, type ReserveAmount, type ReserveSetting } from './reserve';
+import type { ReserveAmount } from './reserve';
 import type { FlightComputation } from './types';
 
 export interface PhaseSummary {
@@ -43,35 +44,53 @@ export interface FlightSummary {
 	/** NM per litre over the cruise phase: cruise distance ÷ cruise fuel. */
 	cruiseSpecificRangeNmPerL: number | null;
 	cruiseFlowLph: number | null;
-	lowestReserveAtWpt: {
-		reserveL: number;
+	/**
+	 * The thinnest arrival margin at a waypoint (fuel left on arrival − reserve amount) that held
+	 * for the alarm persistence while airborne, in litres and in minutes at normal-cruise flow;
+	 * null when the flight never had one (no waypoint figures, or no reserve amount).
+	 */
+	thinnestMargin: {
+		marginL: number;
 		minutes: number | null;
 		t: number;
 		index: number;
 		wpt: number | null;
 	} | null;
+	/** The reserve amount in force at the end of the flight (the engine's). */
 	reserve: ReserveAmount | null;
-	/**
-	 * When fuel on board reaches the reserve amount at the flow of the last sample with the engine
-	 * running (the current flow in a live flight). alreadyBelow when it had reached it by then.
-	 */
-	reserveReached: {
-		t: number;
-		fromIndex: number;
-		flowLph: number;
-		hoursFromSample: number;
-		alreadyBelow: boolean;
-	} | null;
+	/** The first sample, within the flight, where fuel on board was below the reserve amount. */
+	reserveReachedAt: { t: number; index: number } | null;
+	/** Fuel on board at shutdown against the reserve amount; null without samples. */
+	verdict: FlightVerdict | null;
 	gapCount: number;
 	gapTimeS: number;
 	alarmCount: number;
+}
+
+/**
+ * 'kept': landed with at least the reserve amount; 'notKept': with less; 'noReserve': no reserve
+ * amount to judge against (no rule minutes or no normal-cruise flow).
+ */
+export type VerdictState = 'kept' | 'notKept' | 'noReserve';
+export const verdictStates: readonly VerdictState[] = ['kept', 'notKept', 'noReserve'];
+
+export interface FlightVerdict {
+	state: VerdictState;
+	landedL: number;
+	reserveL: number | null;
+	/** landedL − reserveL; negative when the reserve was not kept. */
+	marginL: number | null;
+	/** The margin in minutes at the normal-cruise flow the reserve rests on. */
+	marginMin: number | null;
+	/** Whether the aircraft was airborne at all (a ground run gets a verdict on its fuel too). */
+	airborne: boolean;
 }
 
 const ORDER = [PHASE_TAXI, PHASE_CLIMB, PHASE_CRUISE, PHASE_DESCENT, PHASE_STOPPED, 0];
 
 const orNull = (x: number): number | null => (Number.isFinite(x) ? x : null);
 
-export function summarize(c: FlightComputation, options: { reserve?: ReserveSetting } = {}): FlightSummary {
+export function summarize(c: FlightComputation): FlightSummary {
 	const st = c.stats;
 	const has = st.acceptedCount > 0;
 
@@ -108,19 +127,20 @@ export function summarize(c: FlightComputation, options: { reserve?: ReserveSett
 		blockTimeBasis = 'engine';
 	}
 
-	const reserve = options.reserve
-		? reserveAmount(options.reserve, c.profile.baselineCruiseFlowLph, cruiseFlowLph)
-		: null;
-
-	let reserveReached: FlightSummary['reserveReached'] = null;
-	if (reserve && reserve.amountL !== null && st.lastRunIndex >= 0) {
-		const hours = (st.lastRunOnBoardL - reserve.amountL) / st.lastRunFlowLph;
-		reserveReached = {
-			t: st.lastRunT + hours * 3600,
-			fromIndex: st.lastRunIndex,
-			flowLph: st.lastRunFlowLph,
-			hoursFromSample: hours,
-			alreadyBelow: hours < 0
+	const reserve = c.reserve;
+	const onBoardAtShutdownL = has ? c.onBoard[st.lastIndex] : null;
+	let verdict: FlightVerdict | null = null;
+	if (onBoardAtShutdownL !== null) {
+		const amount = reserve?.amountL ?? null;
+		const flow = reserve?.flowLph ?? null;
+		const marginL = amount === null ? null : onBoardAtShutdownL - amount;
+		verdict = {
+			state: marginL === null ? 'noReserve' : marginL >= 0 ? 'kept' : 'notKept',
+			landedL: onBoardAtShutdownL,
+			reserveL: amount,
+			marginL,
+			marginMin: marginL !== null && flow !== null && flow > 0 ? (marginL / flow) * 60 : null,
+			airborne: st.airborne
 		};
 	}
 
@@ -133,7 +153,7 @@ export function summarize(c: FlightComputation, options: { reserve?: ReserveSett
 		start: has ? st.firstT : null,
 		end: has ? st.lastT : null,
 		fuelUsedL: st.usedTotalL,
-		onBoardAtShutdownL: has ? c.onBoard[st.lastIndex] : null,
+		onBoardAtShutdownL,
 		blockTimeS,
 		blockTimeBasis,
 		engineTimeS: st.engineTimeS,
@@ -145,18 +165,19 @@ export function summarize(c: FlightComputation, options: { reserve?: ReserveSett
 		phases,
 		cruiseSpecificRangeNmPerL,
 		cruiseFlowLph,
-		lowestReserveAtWpt:
-			st.lowestReserveIndex >= 0
+		thinnestMargin:
+			st.thinnestMarginIndex >= 0
 				? {
-						reserveL: st.lowestReserveL,
-						minutes: orNull(st.lowestReserveMin),
-						t: st.lowestReserveT,
-						index: st.lowestReserveIndex,
-						wpt: st.lowestReserveWpt
+						marginL: st.thinnestMarginL,
+						minutes: orNull(st.thinnestMarginMin),
+						t: st.thinnestMarginT,
+						index: st.thinnestMarginIndex,
+						wpt: st.thinnestMarginWpt
 					}
 				: null,
 		reserve,
-		reserveReached,
+		reserveReachedAt: st.reserveReachedIndex >= 0 ? { t: st.reserveReachedT, index: st.reserveReachedIndex } : null,
+		verdict,
 		gapCount: c.gaps.length,
 		gapTimeS,
 		alarmCount: c.alarms.length

@@ -110,12 +110,16 @@ const ARRAY_KEYS = [
 	'endurance',
 	'timeToWpt',
 	'fuelToWpt',
-	'reserveAtWpt',
-	'reserveAtWptMin',
+	'arrivalL',
+	'arrivalMarginMin',
 	'specificRange',
+	'reserveL',
+	'cruiseFlow',
 	'phase',
 	'alarmState',
-	'flags'
+	'flags',
+	'arrivalState',
+	'reserveBasis'
 ] as const;
 
 /**
@@ -129,7 +133,7 @@ export function firstDifference(a: FlightComputation, b: FlightComputation): str
 		const y = b[k];
 		for (let i = 0; i < a.length; i++) if (!Object.is(x[i], y[i])) return `${k}[${i}]: ${x[i]} vs ${y[i]}`;
 	}
-	for (const k of ['alarms', 'gaps', 'problems', 'events', 'declaration', 'gapThresholdS'] as const) {
+	for (const k of ['alarms', 'gaps', 'problems', 'events', 'declaration', 'gapThresholdS', 'reserve'] as const) {
 		if (JSON.stringify(a[k]) !== JSON.stringify(b[k])) return `${k} differ`;
 	}
 	const sa = { ...a.stats, phaseTimeS: [...a.stats.phaseTimeS], phaseFuelL: [...a.stats.phaseFuelL], phaseDistanceNm: [...a.stats.phaseDistanceNm] };

@@ -2,6 +2,8 @@
 // declarations, events, thresholds, and the per-sample result arrays.
 // Units throughout: seconds (epoch UTC), litres, litres per hour, knots, NM, feet.
 
+import type { ReserveAmount, ReserveSetting } from './reserve';
+
 /**
  * Recorder samples as columns. NaN in any cell means "not recorded in this sample" (a blank cell);
  * gs or dtg NaN means no waypoint figures for that sample.
@@ -39,7 +41,7 @@ export interface FuelProfile {
 	densityKgPerL: number;
 	/** Actual volume ÷ indicated volume, applied to every flow reading (1 = no correction). */
 	meterFactor: number;
-	/** The aircraft's usual cruise flow in L/h, used for the reserve amount and phase detection. */
+	/** The aircraft's normal-cruise flow in L/h, set by the owner: the reserve's first basis. */
 	baselineCruiseFlowLph?: number | null;
 }
 
@@ -74,12 +76,17 @@ export interface FuelEvent {
 export interface AlarmThresholds {
 	/** Raise when fuel on board drops below this many litres. */
 	lowFuelL: number | null;
-	/** Raise when endurance at the current flow drops below this many minutes. */
+	/**
+	 * Raise when endurance drops below this many minutes, judged at the higher of normal-cruise and
+	 * present flow, and at normal-cruise flow in a climb (see alarms.ts).
+	 */
 	lowEnduranceMin: number | null;
-	/** Raise when the reserve at the next waypoint goes below zero (default on). */
-	negativeReserve?: boolean;
+	/** Raise when the fuel left on arrival at the next waypoint is below the reserve amount (default on). */
+	arrivalBelowReserve?: boolean;
 	/** How far a value must come back above the threshold to clear (defaults in alarms.ts). */
-	hysteresis?: { fuelL?: number; enduranceMin?: number; reserveL?: number };
+	hysteresis?: { fuelL?: number; enduranceMin?: number; arrivalL?: number };
+	/** How long (s) a value must stay below its threshold before the alarm is raised (defaults in alarms.ts). */
+	persistS?: { fuel?: number; endurance?: number; arrival?: number };
 }
 
 /** Tuning for the engine's data checks and detectors; every field has a default. */
@@ -120,6 +127,13 @@ export interface FlightInput {
 	previousOnBoardL?: number | null;
 	events?: readonly FuelEvent[];
 	thresholds?: AlarmThresholds;
+	/** The reserve rule in force (the aircraft's); without it there is no reserve amount. */
+	reserve?: ReserveSetting | null;
+	/**
+	 * The aircraft's recent median cruise flow, L/h, from its stored flights: the reserve's basis
+	 * when no normal-cruise flow is set and this flight has not measured its own cruise yet.
+	 */
+	recentCruiseFlowLph?: number | null;
 	options?: EngineOptions;
 }
 
@@ -159,9 +173,9 @@ export interface DataProblem {
 }
 
 /**
- * A stretch with no flow readings. 'time': no samples for longer than the threshold, filled with
- * the higher of the two adjacent flows. 'flow': samples kept coming with the flow cell blank,
- * filled with the last reading (a live flight cannot see the next one).
+ * A stretch with no flow readings, filled with the higher of the two adjacent real readings
+ * (filledFlowLph is the very value used for fuel used). 'time': no samples for longer than the
+ * threshold. 'flow': samples kept coming with the flow cell blank.
  */
 export interface DataGap {
 	kind: 'time' | 'flow';
@@ -172,18 +186,23 @@ export interface DataGap {
 	filledFlowLph: number;
 }
 
-export type AlarmKind = 'lowFuel' | 'lowEndurance' | 'negativeReserve';
+export type AlarmKind = 'lowFuel' | 'lowEndurance' | 'arrivalBelowReserve';
+/** Every alarm kind, in the order of the ALARM_* bits. */
+export const alarmKinds: readonly AlarmKind[] = ['lowFuel', 'lowEndurance', 'arrivalBelowReserve'];
 
 /** One crossing of an alarm threshold, from raised to cleared. */
 export interface AlarmEpisode {
 	/** Stable within a computation, for acknowledging: kind@raisedIndex. */
 	id: string;
 	kind: AlarmKind;
+	/** When the value had stayed below the threshold long enough (the persistence) to raise. */
 	raisedAt: number;
 	raisedIndex: number;
+	/** When the value first went below the threshold in this episode. */
+	belowSince: number;
 	clearedAt: number | null;
 	clearedIndex: number | null;
-	/** Value when raised: litres, minutes or litres depending on kind. */
+	/** Value when raised: litres (low fuel), minutes (low endurance), litres of margin (arrival). */
 	value: number;
 	/** Lowest value while raised. */
 	worst: number;
@@ -216,11 +235,24 @@ export const FLAG_FLOW_HELD = 4;
 export const FLAG_EVENT = 8;
 export const FLAG_WAYPOINT = 16;
 export const FLAG_ENDURANCE = 32;
+/** The flow of this sample was filled across a stretch of blank flow cells. */
+export const FLAG_FLOW_FILLED = 64;
 
 /** Per-sample alarm bits (Uint8Array alarmState). */
 export const ALARM_LOW_FUEL = 1;
 export const ALARM_LOW_ENDURANCE = 2;
-export const ALARM_NEGATIVE_RESERVE = 4;
+export const ALARM_ARRIVAL_BELOW_RESERVE = 4;
+
+/** Per-sample arrival at the next waypoint (Uint8Array arrivalState). */
+export const ARRIVAL_NONE = 0;
+/** Arrives with at least the reserve amount. */
+export const ARRIVAL_KEEPS = 1;
+/** Arrives, but with less than the reserve amount. */
+export const ARRIVAL_EATS_INTO = 2;
+/** The fuel runs out before the waypoint. */
+export const ARRIVAL_RUNS_OUT = 3;
+/** Arrives with fuel left, but there is no reserve amount to compare with. */
+export const ARRIVAL_NO_RESERVE = 4;
 
 /** Running totals kept during the pass, from which the summary is built. */
 export interface FlightStats {
@@ -245,11 +277,24 @@ export interface FlightStats {
 	phaseTimeS: Float64Array;
 	phaseFuelL: Float64Array;
 	phaseDistanceNm: Float64Array;
-	lowestReserveL: number;
-	lowestReserveMin: number;
-	lowestReserveT: number;
-	lowestReserveIndex: number;
-	lowestReserveWpt: number | null;
+	/**
+	 * The thinnest arrival margin (fuel left on arrival − reserve amount) that held for the
+	 * persistence time while airborne: the minimum over the flight of the margin's maximum over
+	 * each trailing window, so a take-off roll projection or a gust never sets it.
+	 */
+	thinnestMarginL: number;
+	thinnestMarginMin: number;
+	thinnestMarginT: number;
+	thinnestMarginIndex: number;
+	thinnestMarginWpt: number | null;
+	/** First sample where fuel on board was below the reserve amount in force; -1 if never. */
+	reserveReachedIndex: number;
+	reserveReachedT: number;
+	/** This flight's cruise so far, for the measured normal-cruise flow. */
+	cruiseTimeS: number;
+	cruiseFuelL: number;
+	/** Whether the aircraft was airborne (a flight phase at airborne ground speed) at any sample. */
+	airborne: boolean;
 }
 
 /** The engine's answer: one value per input sample in each array, plus the timeline lists. */
@@ -265,8 +310,18 @@ export interface FlightComputation {
 	/** Hours; NaN without waypoint figures. */
 	timeToWpt: Float64Array;
 	fuelToWpt: Float64Array;
-	reserveAtWpt: Float64Array;
-	reserveAtWptMin: Float64Array;
+	/** Fuel left on arrival at the next waypoint at the present flow, litres; NaN without waypoint figures. */
+	arrivalL: Float64Array;
+	/** (arrivalL − reserveL) in minutes at the normal-cruise flow; NaN without either. */
+	arrivalMarginMin: Float64Array;
+	/** The reserve amount in force at this sample, litres: rule minutes × normal-cruise flow; NaN without one. */
+	reserveL: Float64Array;
+	/** The normal-cruise flow in force at this sample, L/h; NaN without one. */
+	cruiseFlow: Float64Array;
+	/** ARRIVAL_* code per sample. */
+	arrivalState: Uint8Array;
+	/** Basis of cruiseFlow per sample: an index into cruiseBasisCodes. */
+	reserveBasis: Uint8Array;
 	/** NM per litre; NaN on the ground or with the engine stopped. */
 	specificRange: Float64Array;
 	phase: Uint8Array;
@@ -280,6 +335,8 @@ export interface FlightComputation {
 	events: ResolvedEvent[];
 	stats: FlightStats;
 	profile: UsableProfile;
+	/** The reserve amount in force at the last sample (the whole flight's, in a batch run). */
+	reserve: ReserveAmount | null;
 	/** The gap threshold in force at the end, seconds. */
 	gapThresholdS: number;
 }

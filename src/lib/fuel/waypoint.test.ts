@@ -2,9 +2,9 @@ import { describe, expect, it } from 'vitest';
 import { formatDuration, fromLitres, toLitresPerHour } from '../units';
 import { computeFlight } from './compute';
 import { summarize } from './summary';
-import { columns, crossCountry, input, series, T0 } from './test-fixtures';
-import { FLAG_WAYPOINT } from './types';
-import { enduranceH, reserveMinutes, specificRangeNmPerL, timeToWaypointH } from './waypoint';
+import { columns, crossCountry, input, profile, series, T0 } from './test-fixtures';
+import { ARRIVAL_KEEPS, FLAG_WAYPOINT } from './types';
+import { enduranceH, minutesAtFlow, specificRangeNmPerL, timeToWaypointH } from './waypoint';
 
 describe('FAA-H-8083-25 worked examples', () => {
 	it('400 NM at 100 kt takes 4 h, and at 5 gal/h needs 20 gal', () => {
@@ -13,7 +13,7 @@ describe('FAA-H-8083-25 worked examples', () => {
 		const c = computeFlight(input(columns([{ t: T0, flow, gs: 100, dtg: 400 }]), { declaration: { kind: 'onBoard', amountL: 120 } }));
 		expect(c.timeToWpt[0]).toBe(4);
 		expect(fromLitres(c.fuelToWpt[0], 'usgal')).toBeCloseTo(20, 12);
-		expect(c.reserveAtWpt[0]).toBeCloseTo(120 - toLitresPerHour(20, 'usgal/h'), 12);
+		expect(c.arrivalL[0]).toBeCloseTo(120 - toLitresPerHour(20, 'usgal/h'), 12);
 		expect(c.flags[0] & FLAG_WAYPOINT).toBe(FLAG_WAYPOINT);
 	});
 
@@ -42,18 +42,28 @@ describe('FAA-H-8083-25 worked examples', () => {
 });
 
 describe('per-sample figures', () => {
-	it('endurance is fuel on board ÷ flow; reserve in minutes at the current flow', () => {
-		const c = computeFlight(input(columns([{ t: T0, flow: 30, gs: 110, dtg: 55 }]), { declaration: { kind: 'onBoard', amountL: 90 } }));
+	it('endurance is fuel on board ÷ flow; the arrival margin in minutes at normal-cruise flow', () => {
+		const c = computeFlight(
+			input(columns([{ t: T0, flow: 30, gs: 110, dtg: 55 }]), {
+				declaration: { kind: 'onBoard', amountL: 90 },
+				profile: profile({ baselineCruiseFlowLph: 24 }),
+				reserve: { ruleId: 'faa-91.151-vfr-day' }
+			})
+		);
 		expect(c.endurance[0]).toBe(3);
 		expect(c.fuelToWpt[0]).toBeCloseTo(15, 12);
-		expect(c.reserveAtWpt[0]).toBeCloseTo(75, 12);
-		expect(c.reserveAtWptMin[0]).toBeCloseTo(150, 12);
+		expect(c.arrivalL[0]).toBeCloseTo(75, 12);
+		// 14 CFR 91.151(a)(1): 30 min at normal cruise, here the set 24 L/h → 12 L reserve;
+		// margin 75 − 12 = 63 L = 157.5 min at 24 L/h (not at the present 30 L/h).
+		expect(c.reserveL[0]).toBeCloseTo(12, 12);
+		expect(c.arrivalMarginMin[0]).toBeCloseTo(157.5, 12);
+		expect(c.arrivalState[0]).toBe(ARRIVAL_KEEPS);
 		expect(c.specificRange[0]).toBeCloseTo(110 / 30, 12);
 	});
 
 	it('gives no waypoint figures on the ground: NaN, never Infinity', () => {
 		const c = computeFlight(input(columns([{ t: T0, flow: 15, gs: 0, dtg: 80 }, { t: T0 + 1, flow: 15, gs: 8, dtg: 80 }])));
-		for (const a of [c.timeToWpt, c.fuelToWpt, c.reserveAtWpt, c.reserveAtWptMin, c.specificRange]) {
+		for (const a of [c.timeToWpt, c.fuelToWpt, c.arrivalL, c.arrivalMarginMin, c.specificRange]) {
 			expect(Number.isNaN(a[0])).toBe(true);
 			expect(Number.isNaN(a[1])).toBe(true);
 		}
@@ -65,7 +75,7 @@ describe('per-sample figures', () => {
 		expect(timeToWaypointH(10, 0, 0)).toBeNaN();
 		expect(timeToWaypointH(NaN, 100, 40)).toBeNaN();
 		expect(enduranceH(50, 0, 0.5)).toBeNaN();
-		expect(reserveMinutes(10, 0.1, 0.5)).toBeNaN();
+		expect(minutesAtFlow(10, 0.1, 0.5)).toBeNaN();
 		expect(specificRangeNmPerL(100, 0, 40, 0.5)).toBeNaN();
 	});
 });

@@ -1,5 +1,5 @@
-// Figures towards the next waypoint at one sample: time and fuel to get there, what is left on
-// arrival, and specific range. Below a minimum ground speed there are no figures (NaN), never
+// Figures towards the next waypoint at one sample: time and fuel to get there, and specific
+// range; endurance and minutes of fuel at a flow. Below a minimum ground speed there are no figures (NaN), never
 // the Infinity a plain division would give.
 
 /** Hours to the waypoint, NaN when ground speed is below minGsKt or the distance is unknown. */
@@ -12,9 +12,13 @@ export function fuelToWaypointL(flowLph: number, hours: number): number {
 	return flowLph * hours;
 }
 
-/** Reserve on arrival in minutes at the current flow; NaN with the engine stopped. */
-export function reserveMinutes(reserveL: number, flowLph: number, minFlowLph: number): number {
-	return flowLph > minFlowLph ? (reserveL / flowLph) * 60 : NaN;
+/**
+ * Minutes an amount of fuel lasts at a flow; NaN with the engine stopped. Margins against the
+ * reserve are given at normal-cruise flow (FlightComputation.arrivalMarginMin); this is for
+ * figures labelled "at the present flow".
+ */
+export function minutesAtFlow(litres: number, flowLph: number, minFlowLph: number): number {
+	return flowLph > minFlowLph ? (litres / flowLph) * 60 : NaN;
 }
 
 /** Hours of fuel left at the current flow; NaN with the engine stopped. */

@@ -5,6 +5,7 @@
 import { z } from 'zod';
 import type { Declaration, FuelEventKind } from '$lib/fuel';
 import { REASON_MAX } from '$lib/corrections';
+import { verdictStates } from '$lib/fuel';
 import { toLitres, type FuelUnit } from '$lib/units';
 import { plainText } from './text';
 import { MAX_AMOUNT, amountField, declarationKindOf, declarationSchema, fuelUnitSchema, toDeclaration } from './declaration';
@@ -125,7 +126,7 @@ export type DeclarationInput = z.output<ReturnType<typeof declarationFormSchema>
 export type FuelEventInput = z.output<ReturnType<typeof fuelEventFormSchema>>;
 export type NoteInput = z.output<typeof noteFormSchema>;
 
-export const FLIGHT_SORTS = ['date', 'aircraft', 'pilot', 'block', 'used', 'flow', 'onboard', 'alarms'] as const;
+export const FLIGHT_SORTS = ['date', 'aircraft', 'pilot', 'block', 'used', 'flow', 'onboard', 'margin', 'alarms'] as const;
 export type FlightSort = (typeof FLIGHT_SORTS)[number];
 export const FLIGHTS_PER_PAGE = 25;
 
@@ -144,6 +145,8 @@ export const flightListQuerySchema = z.object({
 	pilot: plainText(100, { required: 'pilot' }).optional().catch(undefined),
 	from: day.catch(null),
 	to: day.catch(null),
+	/** The flight's reserve verdict (FlightSummary.verdict.state). */
+	verdict: z.enum(verdictStates).optional().catch(undefined),
 	sort: z.enum(FLIGHT_SORTS).default('date').catch('date'),
 	dir: z.enum(['asc', 'desc']).optional().catch(undefined),
 	page: z.coerce.number().int().min(1).max(100_000).default(1).catch(1)

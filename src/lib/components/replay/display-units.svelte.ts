@@ -1,5 +1,6 @@
 // The units the replay and live pages show figures in, switchable on the page and remembered in
 // the browser. The engine works in litres, L/h, knots and NM; conversion happens only here.
+import { fixed, signedDown, type RoundMode } from '$lib/rounding';
 import {
 	distanceUnitLabels,
 	distanceUnits,
@@ -99,11 +100,15 @@ export class DisplayUnits {
 	/** "12.3 US gal": for the engine's warning messages (an arrow, so it can be handed over). */
 	fuelWithUnit = (litres: number): string => `${this.fuelText(litres)} ${this.fuelLabel}`;
 
-	/** "12.3" in the fuel unit, or "—" for a missing value. */
-	fuelText(litres: number | null | undefined, extraDigits = 0): string {
-		return litres === null || litres === undefined || !Number.isFinite(litres) ? '—' : this.toFuel(litres).toFixed(this.fuelDigits + extraDigits);
+	/** "12.3" in the fuel unit, or "—" for a missing value; rounded down for margins. */
+	fuelText(litres: number | null | undefined, extraDigits = 0, mode: RoundMode = 'nearest'): string {
+		return litres === null || litres === undefined || !Number.isFinite(litres) ? '—' : fixed(this.toFuel(litres), this.fuelDigits + extraDigits, mode);
+	}
+	/** A margin in the fuel unit with its sign, rounded down: never more than exists. */
+	marginText(litres: number | null | undefined, extraDigits = 0): string {
+		return litres === null || litres === undefined || !Number.isFinite(litres) ? '—' : signedDown(this.toFuel(litres), this.fuelDigits + extraDigits);
 	}
 	flowText(lph: number | null | undefined): string {
-		return lph === null || lph === undefined || !Number.isFinite(lph) ? '—' : this.toFlow(lph).toFixed(this.fuelDigits + 1);
+		return lph === null || lph === undefined || !Number.isFinite(lph) ? '—' : fixed(this.toFlow(lph), this.fuelDigits + 1);
 	}
 }

@@ -30,7 +30,7 @@ export const flightSourceEnum = pgEnum('flight_source', ['upload', 'live']);
 export const flightStatusEnum = pgEnum('flight_status', ['open', 'closed']);
 export const fuelEventKindEnum = pgEnum('fuel_event_kind', ['added', 'removed', 'toFull', 'toLower', 'resetUsed']);
 export const fuelCorrectionKindEnum = pgEnum('fuel_correction_kind', ['declaration', 'eventAdded', 'eventRemoved']);
-export const alarmKindEnum = pgEnum('alarm_kind', ['lowFuel', 'lowEndurance', 'negativeReserve']);
+export const alarmKindEnum = pgEnum('alarm_kind', ['lowFuel', 'lowEndurance', 'arrivalBelowReserve']);
 
 // ---- accounts -------------------------------------------------------------------------------
 

@@ -3,9 +3,9 @@
 // The log is written a few thousand rows at a time, so a long flight streams out in bounded
 // memory; every text cell goes through textCell (formula injection), numbers through numberCell.
 import type { FlightComputation, FlightSummary, SampleColumns } from '$lib/fuel';
-import { WPT_NONE } from '$lib/fuel';
+import { alarmKinds, cruiseBasisCodes, WPT_NONE } from '$lib/fuel';
 import { fromLitres, type FuelUnit } from '$lib/units';
-import { alarmLabels, flagWords, phaseIds } from '$lib/components/replay/labels';
+import { alarmLabels, arrivalWords, flagWords, phaseIds } from '$lib/components/replay/labels';
 import { csvLine, numberCell as cell, textCell } from './csv-cell';
 
 export type LogEvery = 'sample' | 'minute';
@@ -68,8 +68,12 @@ export function* fuelLogChunks(x: FuelLogInput, rowsPerChunk = LOG_ROWS_PER_CHUN
 		'waypoint',
 		'time_to_wpt_min',
 		`fuel_to_wpt_${unit}`,
-		`reserve_at_wpt_${unit}`,
-		'reserve_at_wpt_min',
+		`left_on_arrival_${unit}`,
+		`reserve_${unit}`,
+		'reserve_basis',
+		`arrival_margin_${unit}`,
+		'arrival_margin_cruise_min',
+		'arrival',
 		`specific_range_nm_per_${unit}`,
 		'alarms',
 		'flags'
@@ -79,7 +83,6 @@ export function* fuelLogChunks(x: FuelLogInput, rowsPerChunk = LOG_ROWS_PER_CHUN
 	const count = minutes ? minutes.length : n;
 	const t0 = n > 0 ? c.t[0] : 0;
 	yield csvLine(header.map(textCell)) + '\r\n';
-	const alarmKinds = ['lowFuel', 'lowEndurance', 'negativeReserve'] as const;
 	let lines: string[] = [];
 	for (let k = 0; k < count; k++) {
 		const i = minutes ? minutes[k] : k;
@@ -99,8 +102,12 @@ export function* fuelLogChunks(x: FuelLogInput, rowsPerChunk = LOG_ROWS_PER_CHUN
 				textCell(w === WPT_NONE ? '' : (x.waypoints[w] ?? '')),
 				cell(r.timeToWpt[i] * 60, 1),
 				cell(fuel(r.fuelToWpt[i]), 3),
-				cell(fuel(r.reserveAtWpt[i]), 3),
-				cell(r.reserveAtWptMin[i], 1),
+				cell(fuel(r.arrivalL[i]), 3),
+				cell(fuel(r.reserveL[i]), 3),
+				textCell(Number.isFinite(r.reserveL[i]) ? (cruiseBasisCodes[r.reserveBasis[i]] ?? '') : ''),
+				cell(fuel(r.arrivalL[i] - r.reserveL[i]), 3),
+				cell(r.arrivalMarginMin[i], 1),
+				textCell(arrivalWords[r.arrivalState[i]]?.id ?? ''),
 				cell(r.specificRange[i] * perUnit, 3),
 				textCell(alarms.join('; ')),
 				textCell(flagWords(r.flags[i]).join(' '))
@@ -144,18 +151,21 @@ export function summaryCsv(
 		['cruise_specific_range', num(s.cruiseSpecificRangeNmPerL === null ? null : s.cruiseSpecificRangeNmPerL * perUnit, 3), `NM/${u}`],
 		['distance', num(s.distanceNm, 1), 'NM'],
 		['average_gs', num(s.averageGsKt, 1), 'kt'],
-		['lowest_reserve_at_wpt', fuel(s.lowestReserveAtWpt?.reserveL), u],
-		['lowest_reserve_at_wpt_min', num(s.lowestReserveAtWpt?.minutes, 1), 'min'],
-		['lowest_reserve_at_wpt_time_utc', when(s.lowestReserveAtWpt?.t), ''],
-		[
-			'lowest_reserve_at_wpt_waypoint',
-			s.lowestReserveAtWpt?.wpt === null || s.lowestReserveAtWpt?.wpt === undefined ? '' : text(meta.waypoints[s.lowestReserveAtWpt.wpt] ?? ''),
-			''
-		],
 		['reserve_rule', text(s.reserve?.rule.label ?? ''), s.reserve?.rule.citation ?? ''],
 		['reserve_amount', fuel(s.reserve?.amountL), u],
-		['reserve_basis', text(s.reserve?.note ?? ''), ''],
-		['reserve_reached_utc', when(s.reserveReached?.t), s.reserveReached?.alreadyBelow ? 'already below at the last sample' : 'at the last flow'],
+		['reserve_basis', text(s.reserve?.basis ?? ''), s.reserve?.note ?? ''],
+		['verdict', text(s.verdict?.state ?? ''), 'fuel on board at shutdown against the reserve amount'],
+		['landed_margin', fuel(s.verdict?.marginL), u],
+		['landed_margin_cruise_min', num(s.verdict?.marginMin, 1), 'min at normal cruise'],
+		['thinnest_arrival_margin', fuel(s.thinnestMargin?.marginL), `${u}, airborne, held for the alarm persistence`],
+		['thinnest_arrival_margin_cruise_min', num(s.thinnestMargin?.minutes, 1), 'min at normal cruise'],
+		['thinnest_arrival_margin_time_utc', when(s.thinnestMargin?.t), ''],
+		[
+			'thinnest_arrival_margin_waypoint',
+			s.thinnestMargin?.wpt === null || s.thinnestMargin?.wpt === undefined ? '' : text(meta.waypoints[s.thinnestMargin.wpt] ?? ''),
+			''
+		],
+		['below_reserve_from_utc', when(s.reserveReachedAt?.t), 'first moment in the flight with fuel on board below the reserve amount'],
 		['gaps', String(s.gapCount), ''],
 		['gap_time_min', num(s.gapTimeS / 60, 1), 'min'],
 		['alarms', String(s.alarmCount), '']

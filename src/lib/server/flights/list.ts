@@ -1,5 +1,6 @@
 // The flights list: an organisation's flights (or only the member's own, by role) with the figures
-// from the cached summary, filtered by aircraft, pilot and date range, sorted and paged in SQL.
+// from the cached summary, filtered by aircraft, pilot, date range and reserve verdict, sorted and
+// paged in SQL.
 import { and, asc, count, desc, eq, gte, lt, or, sql, type SQL } from 'drizzle-orm';
 import type { FlightSummary } from '$lib/fuel';
 import { can, type Role } from '$lib/permissions';
@@ -17,6 +18,7 @@ const SORT_COLUMNS: Record<FlightSort, SQL | typeof flights.startedAt> = {
 	used: figure('fuelUsedL'),
 	flow: figure('averageFlowLph'),
 	onboard: figure('onBoardAtShutdownL'),
+	margin: sql`(${flights.summary}->'verdict'->>'marginL')::float8`,
 	alarms: figure('alarmCount')
 };
 
@@ -44,6 +46,7 @@ export async function listFlights(v: ListViewer, q: FlightListQuery) {
 	if (q.pilot) filters.push(eq(flights.pilotId, q.pilot));
 	if (q.from) filters.push(gte(flights.startedAt, new Date(`${q.from}T00:00:00Z`)));
 	if (q.to) filters.push(lt(flights.startedAt, new Date(Date.parse(`${q.to}T00:00:00Z`) + 86_400_000)));
+	if (q.verdict) filters.push(sql`${flights.summary}->'verdict'->>'state' = ${q.verdict}`);
 	const where = and(...filters);
 	const dir = q.dir ?? defaultDir(q.sort);
 	const key = SORT_COLUMNS[q.sort];

@@ -3,6 +3,7 @@
 // them with the same mapping the browser uses ($lib/flight-inputs).
 import { asc, eq, sql } from 'drizzle-orm';
 import { engineInputsOf, fuelSetupOf, type AircraftFuelSetup } from '$lib/flight-inputs';
+import { recentCruiseFlowLph } from './recent-cruise';
 import { WPT_NONE, type FlightInput, type SampleColumns } from '$lib/fuel';
 import { PAYLOAD_VERSION, type ReplayData } from '$lib/components/replay/payload';
 import { db, type Db, type Tx } from '../db';
@@ -119,8 +120,12 @@ export async function loadEvents(flightId: string, q: Queryable = db): Promise<F
 export async function loadFlight(flightId: string, q: Queryable = db): Promise<LoadedFlight | null> {
 	const [row] = await q.select({ flight: flights, aircraft }).from(flights).innerJoin(aircraft, eq(aircraft.id, flights.aircraftId)).where(eq(flights.id, flightId)).limit(1);
 	if (!row) return null;
-	const [events, samples] = await Promise.all([loadEvents(flightId, q), loadSampleColumns(flightId, q)]);
-	const setup = fuelSetupOf(row.aircraft);
+	const [events, samples, recent] = await Promise.all([
+		loadEvents(flightId, q),
+		loadSampleColumns(flightId, q),
+		recentCruiseFlowLph(row.aircraft.id, row.flight, q)
+	]);
+	const setup = fuelSetupOf(row.aircraft, recent);
 	return {
 		flight: row.flight,
 		aircraft: row.aircraft,

@@ -3,7 +3,6 @@
 // fuel inputs with the same engine the browser runs. Every write that changes an input (upload,
 // declaration, fuel event, close, aircraft fuel profile, meter factor) calls it in its transaction.
 import { and, asc, desc, eq, isNotNull, sql } from 'drizzle-orm';
-import { reserveOf } from '$lib/flight-inputs';
 import { computeFlight, summarize, type FlightComputation, type FlightSummary } from '$lib/fuel';
 import { db } from '../db';
 import { aircraft, flights } from '../db/schema';
@@ -11,7 +10,7 @@ import { loadFlight, type LoadedFlight, type Queryable } from './load';
 
 export function computeLoaded(f: LoadedFlight): { computation: FlightComputation; summary: FlightSummary } {
 	const computation = computeFlight(f.input);
-	return { computation, summary: summarize(computation, { reserve: reserveOf(f.setup) }) };
+	return { computation, summary: summarize(computation) };
 }
 
 /**

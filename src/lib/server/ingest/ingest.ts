@@ -36,7 +36,8 @@ import {
 	type UploadProgress
 } from '$lib/csv';
 import { computeFlight, summarize, WPT_NONE, type FlightSummary, type SampleColumns } from '$lib/fuel';
-import { engineInputsOf, reserveOf } from '$lib/flight-inputs';
+import { engineInputsOf, fuelSetupOf } from '$lib/flight-inputs';
+import { recentCruiseFlowLph } from '../flights/recent-cruise';
 import { declarationProblem, toDeclaration } from '$lib/schemas/declaration';
 import { db as poolDb, pool } from '../db';
 import { uploadConnections } from '../limits';
@@ -428,8 +429,10 @@ async function ingestSpooled(req: IngestRequest, profiles: Profile[], spool: Fil
 		const declaration = toDeclaration(req.declaration, ac);
 
 		progress({ phase: 'storing', step: 'summary', rows });
-		const computation = computeFlight({ columns: columns.columns(), ...engineInputsOf(ac, { declaration, previousOnBoardL }, []) });
-		const flightSummary = summarize(computation, { reserve: reserveOf(ac) });
+		// Earlier flights only, committed before this upload: read outside this transaction.
+		const recent = await recentCruiseFlowLph(ac.id, { id: flightId, startedAt: first });
+		const computation = computeFlight({ columns: columns.columns(), ...engineInputsOf(fuelSetupOf(ac, recent), { declaration, previousOnBoardL }, []) });
+		const flightSummary = summarize(computation);
 		const warnings = [...computation.warnings.map((w) => w.message), ...computation.problems.slice(0, 10).map((p) => p.message)];
 
 		progress({ phase: 'storing', step: 'original', rows });

@@ -1,18 +1,21 @@
 // Live alarms: the engine's alarm episodes written to flight_alarms (one row per crossing, so a
-// retried batch or a second instance never raises one twice), and one e-mail per new crossing to
-// the members watching the aircraft or the flight, with the figures at that moment.
+// retried batch or a second instance never raises one twice), and one e-mail per episode to each
+// member watching the aircraft or the flight, with the figures at that moment. The engine decides
+// what an episode is (persistence and hysteresis, src/lib/fuel/alarms.ts).
 import { and, eq, inArray, isNull, or } from 'drizzle-orm';
 import { mayOnFlight } from '../access';
 import { db } from '../db';
 import { aircraft, flightAlarms, flights, memberships, organisations, users, watches, type Aircraft, type Flight } from '../db/schema';
 import { link, sendMail } from '../mail';
 import { fuel } from '$lib/format';
-import { alarmLabels } from '$lib/components/replay/labels';
+import { alarmLabels, MARGIN_ROUNDING_NOTE } from '$lib/components/replay/labels';
+import type { AlarmKind } from '$lib/fuel';
+import { signedDown } from '$lib/rounding';
 import { formatDuration, fromLitres, fromLitresPerHour, flowUnitLabels, fuelUnitLabels, type FlowUnit } from '$lib/units';
 import type { Computed } from './computation';
 import type { Queryable } from './samples';
 
-export type AlarmKind = 'lowFuel' | 'lowEndurance' | 'negativeReserve';
+export type { AlarmKind };
 
 /** What the e-mail says about the moment an alarm was raised. */
 export interface AlarmFigures {
@@ -22,8 +25,13 @@ export interface AlarmFigures {
 	onBoardL: number;
 	flowLph: number;
 	enduranceH: number;
+	/** Fuel left on arrival at the next waypoint, litres. */
+	arrivalL: number;
+	/** The reserve amount in force, litres, and the normal-cruise flow it rests on. */
 	reserveL: number;
-	reserveMin: number;
+	cruiseFlowLph: number;
+	/** Left on arrival − reserve, in minutes at normal-cruise flow. */
+	arrivalMarginMin: number;
 	waypoint: string | null;
 }
 
@@ -46,6 +54,10 @@ export async function syncAlarms(q: Queryable, flight: Flight, computed: Compute
 	const byKey = new Map(rows.map((row) => [keyOf(row.kind, row.raisedAt.getTime()), row]));
 	const seen = new Set<string>();
 	const toMail: NewAlarm[] = [];
+	// One e-mail per episode: a recomputed flight (a corrected declaration) can move an episode's
+	// raise time; when an e-mailed row of the same kind overlaps the new one, it is the same episode.
+	const mailedOverlap = (kind: string, from: number, to: number | null) =>
+		rows.some((row) => row.kind === kind && row.emailedAt !== null && row.raisedAt.getTime() <= (to ?? Infinity) && (row.clearedAt?.getTime() ?? Infinity) >= from);
 	let changed = false;
 	const lastT = r.length > 0 ? r.stats.lastT : null;
 	for (const ep of r.alarms) {
@@ -62,7 +74,8 @@ export async function syncAlarms(q: Queryable, flight: Flight, computed: Compute
 				.returning({ id: flightAlarms.id });
 			if (!inserted) continue;
 			changed = true;
-			if (ep.clearedAt === null || ep.raisedIndex >= computed.newFrom) {
+			const sameEpisode = mailedOverlap(ep.kind, Math.round(ep.belowSince * 1000), ep.clearedAt === null ? null : Math.round(ep.clearedAt * 1000));
+			if (!sameEpisode && (ep.clearedAt === null || ep.raisedIndex >= computed.newFrom)) {
 				const i = ep.raisedIndex;
 				const w = r.length > i ? computed.comp.columns().wpt?.[i] : undefined;
 				toMail.push({
@@ -74,8 +87,10 @@ export async function syncAlarms(q: Queryable, flight: Flight, computed: Compute
 						onBoardL: r.onBoard[i],
 						flowLph: r.flow[i],
 						enduranceH: r.endurance[i],
-						reserveL: r.reserveAtWpt[i],
-						reserveMin: r.reserveAtWptMin[i],
+						arrivalL: r.arrivalL[i],
+						reserveL: r.reserveL[i],
+						cruiseFlowLph: r.cruiseFlow[i],
+						arrivalMarginMin: r.arrivalMarginMin[i],
 						waypoint: w !== undefined && w >= 0 ? (computed.waypoints[w] ?? null) : null
 					}
 				});
@@ -107,22 +122,29 @@ function flowText(lph: number, unit: string, density: number): string {
 
 export function alarmMail(a: AlarmFigures, ctx: { registration: string; displayUnit: Aircraft['displayUnit']; densityKgPerL: number; url: string }): { subject: string; text: string } {
 	const f = (l: number) => fuel(l, ctx.displayUnit, ctx.densityKgPerL);
-	// Rounded down: the e-mail never shows more fuel than the figure it was raised on.
-	const down = (l: number) => {
-		if (!Number.isFinite(l)) return '—';
-		const v = fromLitres(l, ctx.displayUnit, ctx.densityKgPerL);
-		return `${(Math.floor(v * 10 + 1e-9) / 10).toFixed(1)} ${fuelUnitLabels[ctx.displayUnit]}`;
-	};
+	// Rounded down: the e-mail never shows more fuel, or more margin, than the figure it was raised on.
+	const down = (l: number) => fuel(l, ctx.displayUnit, ctx.densityKgPerL, 1, 'down');
+	const marginOf = (l: number) => (Number.isFinite(l) ? `${signedDown(fromLitres(l, ctx.displayUnit, ctx.densityKgPerL), 1)} ${fuelUnitLabels[ctx.displayUnit]}` : '—');
+	const hasReserve = Number.isFinite(a.reserveL);
 	const when = new Date(Math.round(a.t * 1000)).toISOString().slice(0, 19).replace('T', ' ');
 	const threshold =
-		a.kind === 'lowFuel' ? `below ${f(a.threshold)}` : a.kind === 'lowEndurance' ? `below ${formatDuration(a.threshold / 60)} (h:mm)` : 'below zero';
+		a.kind === 'lowFuel'
+			? `below ${f(a.threshold)}`
+			: a.kind === 'lowEndurance'
+				? `below ${formatDuration(a.threshold / 60)} (h:mm)`
+				: hasReserve
+					? `below the reserve of ${f(a.reserveL)}`
+					: 'the fuel runs out first';
 	const lines = [
 		`${TITLES[a.kind]} on ${ctx.registration} at ${when} UTC (${threshold}).`,
 		'',
-		`Fuel on board:        ${down(a.onBoardL)}`,
-		`Fuel flow:            ${flowText(a.flowLph, ctx.displayUnit, ctx.densityKgPerL)}`,
-		`Endurance at flow:    ${formatDuration(a.enduranceH, { round: 'down' })} (h:mm)`,
-		`Reserve at waypoint:  ${Number.isFinite(a.reserveL) ? `${f(a.reserveL)}${Number.isFinite(a.reserveMin) ? `, ${Math.round(a.reserveMin)} min` : ''}` : '—'}${a.waypoint ? ` (next waypoint ${a.waypoint})` : ''}`,
+		`Fuel on board:            ${down(a.onBoardL)}`,
+		`Fuel flow:                ${flowText(a.flowLph, ctx.displayUnit, ctx.densityKgPerL)}`,
+		`Endurance at flow:        ${formatDuration(a.enduranceH, { round: 'down' })} (h:mm)`,
+		`Left on arrival:          ${Number.isFinite(a.arrivalL) ? down(a.arrivalL) : '—'}${a.waypoint ? ` (next waypoint ${a.waypoint})` : ''}`,
+		`Reserve amount:           ${hasReserve ? `${f(a.reserveL)} (at ${flowText(a.cruiseFlowLph, ctx.displayUnit, ctx.densityKgPerL)} normal cruise)` : '—'}`,
+		`Against the reserve:      ${hasReserve && Number.isFinite(a.arrivalL) ? `${marginOf(a.arrivalL - a.reserveL)}${Number.isFinite(a.arrivalMarginMin) ? `, ${signedDown(a.arrivalMarginMin)} min at normal cruise` : ''}` : '—'}`,
+		MARGIN_ROUNDING_NOTE,
 		'',
 		`Watch the flight live: ${ctx.url}`,
 		'',

@@ -7,6 +7,7 @@ import { engineInputsOf, fuelSetupOf } from '$lib/flight-inputs';
 import { createLiveComputation, type LiveComputation } from '$lib/fuel';
 import type { Aircraft, Flight, FuelEventRow } from '../db/schema';
 import { fuelEvents } from '../db/schema';
+import { recentCruiseFlowLph } from '../flights/recent-cruise';
 import { PAGE_SAMPLES } from './config';
 import { readRun, runColumns, type Queryable } from './samples';
 
@@ -23,8 +24,8 @@ const cache = new Map<string, Cached>();
 /** Computations not touched for this long are dropped; the next batch rebuilds from the table. */
 const IDLE_MS = 15 * 60_000;
 
-function signatureOf(a: Aircraft, f: Flight, events: readonly FuelEventRow[]): string {
-	return JSON.stringify([fuelSetupOf(a), f.declaration, f.previousOnBoardL, events.map((e) => [e.t.getTime(), e.kind, e.amountL])]);
+function signatureOf(a: Aircraft, recent: number | null, f: Flight, events: readonly FuelEventRow[]): string {
+	return JSON.stringify([fuelSetupOf(a, recent), f.declaration, f.previousOnBoardL, events.map((e) => [e.t.getTime(), e.kind, e.amountL])]);
 }
 
 export interface Computed {
@@ -41,11 +42,12 @@ export interface Computed {
  */
 export async function computationFor(q: Queryable, flight: Flight, a: Aircraft): Promise<Computed> {
 	const events = await q.select().from(fuelEvents).where(eq(fuelEvents.flightId, flight.id)).orderBy(asc(fuelEvents.t), asc(fuelEvents.createdAt));
-	const signature = signatureOf(a, flight, events);
+	const recent = await recentCruiseFlowLph(a.id, flight, q);
+	const signature = signatureOf(a, recent, flight, events);
 	let c = cache.get(flight.id);
 	let newFrom: number;
 	if (!c || c.signature !== signature || c.processedSeq > flight.lastSeq) {
-		const setup = fuelSetupOf(a);
+		const setup = fuelSetupOf(a, recent);
 		c = {
 			signature,
 			comp: createLiveComputation({ ...engineInputsOf(setup, flight, events), initialCapacity: Math.max(1024, flight.sampleCount + 256) }),

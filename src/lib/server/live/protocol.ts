@@ -1,7 +1,7 @@
 // The live wire formats: the NOTIFY payload one app instance sends the others after a batch
 // commits, and the server-sent events a viewer receives. The browser imports these as types only
 // (import type), so nothing server-side reaches it.
-import type { Declaration } from '$lib/fuel';
+import type { AlarmKind, Declaration } from '$lib/fuel';
 import type { PayloadEvent } from '$lib/components/replay/payload';
 
 /** The one PostgreSQL channel every app instance LISTENs on. */
@@ -57,7 +57,7 @@ export interface SamplesEvent {
 
 export interface WireAlarm {
 	id: string;
-	kind: 'lowFuel' | 'lowEndurance' | 'negativeReserve';
+	kind: AlarmKind;
 	/** Epoch seconds, as the engine's AlarmEpisode. */
 	raisedAt: number;
 	clearedAt: number | null;

@@ -1,5 +1,6 @@
 import { asc, eq, inArray } from 'drizzle-orm';
 import { fuelSetupOf } from '$lib/flight-inputs';
+import { recentCruiseFlowLph } from '$lib/server/flights/recent-cruise';
 import { mayOnFlight, requireFlight } from '$lib/server/access';
 import { db } from '$lib/server/db';
 import { aircraft, flightNotes, users, type Flight } from '$lib/server/db/schema';
@@ -55,7 +56,7 @@ export const load = (async (event) => {
 			instructor: nameOf(flight.instructorId)
 		},
 		aircraft: { id: a.id, registration: a.registration, type: a.type, displayUnit: a.displayUnit, densityKgPerL: a.densityKgPerL, fuelType: a.fuelType },
-		setup: fuelSetupOf(a),
+		setup: fuelSetupOf(a, await recentCruiseFlowLph(a.id, flight)),
 		events: events.map((e) => ({ id: e.id, t: e.t.getTime() / 1000, kind: e.kind, amountL: e.amountL, note: e.note })),
 		notes,
 		corrections,

@@ -2,6 +2,7 @@ import { error } from '@sveltejs/kit';
 import { and, eq, inArray } from 'drizzle-orm';
 import { z } from 'zod';
 import { fuelSetupOf } from '$lib/flight-inputs';
+import { recentCruiseFlowLph } from '$lib/server/flights/recent-cruise';
 import type { Declaration } from '$lib/fuel';
 import { mayOnFlight, requireFlight } from '$lib/server/access';
 import { db } from '$lib/server/db';
@@ -53,7 +54,7 @@ export const load = (async (event) => {
 			instructor: names.find((n) => n.id === flight.instructorId)?.name ?? null
 		},
 		aircraft: { id: a.id, registration: a.registration, type: a.type, displayUnit: a.displayUnit, densityKgPerL: a.densityKgPerL, lastOnBoardL: a.lastOnBoardL },
-		setup: fuelSetupOf(a),
+		setup: fuelSetupOf(a, await recentCruiseFlowLph(a.id, flight)),
 		unit,
 		declarationValues: declarationFormValues(flight.declaration as Declaration, flight.previousOnBoardL, unit, a.densityKgPerL),
 		may: { edit: mayOnFlight(ctx, flight, 'edit') },
