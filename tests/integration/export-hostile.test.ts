@@ -68,13 +68,13 @@ describe('CSV exports and formula injection', () => {
 		const rows = rowsOf(await res.text());
 		const header = rows[0];
 		const wpt = header.indexOf('waypoint');
-		const reserve = header.indexOf('reserve_at_wpt_usgal');
+		const left = header.indexOf('left_on_arrival_usgal');
 		expect(rows.slice(1).map((r) => r[wpt])).toContain(`'${WAYPOINT}`);
 		expect(rows.slice(1).map((r) => r[wpt])).toContain(`'-WPT`);
-		const negatives = rows.slice(1).filter((r) => r[reserve].startsWith('-'));
+		const negatives = rows.slice(1).filter((r) => r[left].startsWith('-'));
 		expect(negatives.length).toBeGreaterThan(0);
-		for (const r of negatives) expect(r[reserve]).toMatch(/^-\d+\.\d{3}$/);
-		for (const r of rows) for (const [k, c] of r.entries()) if (k !== reserve && !/^-?\d+(\.\d+)?$/.test(c)) expect(FORMULA.test(c), `cell ${JSON.stringify(c)}`).toBe(false);
+		for (const r of negatives) expect(r[left]).toMatch(/^-\d+\.\d{3}$/);
+		for (const r of rows) for (const [k, c] of r.entries()) if (k !== left && !/^-?\d+(\.\d+)?$/.test(c)) expect(FORMULA.test(c), `cell ${JSON.stringify(c)}`).toBe(false);
 	});
 });
 
