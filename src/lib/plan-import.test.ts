@@ -1,5 +1,4 @@
 import { describe, expect, it } from 'vitest';
-// @ts-expect-error the package ships no types
 import geodesic from 'geographiclib-geodesic';
 import { legsFromCsv, legsFromGpx } from './plan-import';
 import { parsePlanForm } from './schemas/plan';
@@ -14,7 +13,7 @@ const GPX = `<?xml version="1.0" encoding="UTF-8"?>
     <rtept lat="47.95" lon="-30.1"><name>BRAMBL</name></rtept>
   </rte>
 </gpx>`;
-const wgs84Nm = (a: number, b: number, c: number, d: number) => geodesic.Geodesic.WGS84.Inverse(a, b, c, d).s12 / 1852;
+const wgs84Nm = (a: number, b: number, c: number, d: number) => geodesic.Geodesic.WGS84.Inverse(a, b, c, d).s12! / 1852;
 
 describe('legsFromGpx', () => {
 	it('turns a route into legs to each next point, distances as great circles', () => {

@@ -6,7 +6,7 @@ import type { ReserveRuleId } from '$lib/fuel';
 import type { PlanInput } from '$lib/schemas/plan';
 import type { FuelPlanWire } from '$lib/wire/plan';
 import { db } from '../db';
-import { fuelPlans, type Flight, type FuelPlanRow } from '../db/schema';
+import { aircraft, fuelPlans, type Flight, type FuelPlanRow } from '../db/schema';
 
 export function planWire(row: FuelPlanRow): FuelPlanWire {
 	return {
@@ -43,4 +43,18 @@ export async function savePlan(flight: Pick<Flight, 'id' | 'orgId' | 'aircraftId
 export async function removePlan(flightId: string): Promise<boolean> {
 	const gone = await db.delete(fuelPlans).where(eq(fuelPlans.flightId, flightId)).returning({ id: fuelPlans.id });
 	return gone.length > 0;
+}
+
+/** What the plan page needs beside the plan: the aircraft's units and reserve defaults. */
+export async function planContext(flight: Pick<Flight, 'id' | 'aircraftId'>) {
+	const [plan, a] = await Promise.all([
+		planOfFlight(flight.id),
+		db.query.aircraft.findFirst({
+			where: eq(aircraft.id, flight.aircraftId),
+			columns: { registration: true, displayUnit: true, densityKgPerL: true, reserveRule: true, reserveCustomMin: true, baselineCruiseLph: true }
+		})
+	]);
+	// The foreign key makes a missing aircraft impossible; say so plainly if it ever happens.
+	if (!a) throw new Error(`flight ${flight.id} has no aircraft ${flight.aircraftId}`);
+	return { plan, aircraft: { ...a, reserveRule: a.reserveRule as ReserveRuleId } };
 }
