@@ -2,9 +2,10 @@
 // notes, sign-off) is built from the stored inputs with the same engine the replay runs; the
 // debrief row holds only what the instructor wrote and decided. Publishing mails the student.
 import { and, asc, eq, gt, inArray, isNull } from 'drizzle-orm';
-import { planReport, type PlanReport } from '$lib/plan-report';
-import type { FlightSummary } from '$lib/fuel';
-import type { DebriefStatus } from '$lib/wire/plan';
+import { planReport } from '$lib/plan-report';
+import type { DebriefNote, DebriefReport, DebriefStatus, DebriefView } from '$lib/wire/plan';
+
+export type { DebriefNote, DebriefReport, DebriefView };
 import { db } from '../db';
 import { debriefs, debriefShares, flightNotes, flights, organisations, users, type DebriefRow } from '../db/schema';
 import { loadFlight } from '../flights/load';
@@ -13,34 +14,8 @@ import { planOfFlight } from '../plans';
 import { link, sendMail } from '../mail';
 import { hashToken, newToken } from '../tokens';
 
-export interface DebriefNote {
-	id: string;
-	t: Date | null;
-	body: string;
-	author: string | null;
-	authorId: string | null;
-	createdAt: Date;
-	editedAt: Date | null;
-}
-
-export interface DebriefView {
-	status: DebriefStatus;
-	summaryText: string;
-	signedOffBy: string | null;
-	signedOffAt: Date | null;
-	publishedAt: Date | null;
-}
-
-export interface DebriefReport {
-	flight: { id: string; title: string; startedAt: Date; endedAt: Date | null; pilotId: string | null; pilot: string | null; instructor: string | null };
-	aircraft: { registration: string; type: string; displayUnit: string; densityKgPerL: number; reserveRule: string; reserveCustomMin: number | null };
-	summary: FlightSummary;
-	plan: PlanReport | null;
-	/** The plan's route, waypoint ids in order: "CAIRNS – SALTMR – …". */
-	route: string | null;
-	notes: DebriefNote[];
-	debrief: DebriefView;
-}
+/** At most this many points on the printed chart: finer than any printed line can show. */
+const CHART_POINTS = 600;
 
 const EMPTY: DebriefView = { status: 'draft', summaryText: '', signedOffBy: null, signedOffAt: null, publishedAt: null };
 
@@ -81,8 +56,25 @@ export async function debriefReport(flightId: string): Promise<DebriefReport | n
 		plan: plan ? planReport(plan, computation, loaded.samples.columns, loaded.samples.waypoints) : null,
 		route: plan ? ['Departure', ...plan.legs.map((l) => l.to)].join(' – ') : null,
 		notes,
-		debrief
+		debrief,
+		chart: thin(loaded.samples.columns.t, computation.onBoard)
 	};
+}
+
+function thin(t: ArrayLike<number>, v: ArrayLike<number>): { t: number[]; onBoardL: number[] } {
+	const step = Math.max(1, Math.ceil(t.length / CHART_POINTS));
+	const out = { t: [] as number[], onBoardL: [] as number[] };
+	for (let i = 0; i < t.length; i += step) {
+		if (!Number.isFinite(v[i])) continue;
+		out.t.push(t[i]);
+		out.onBoardL.push(v[i]);
+	}
+	const last = t.length - 1;
+	if (last >= 0 && Number.isFinite(v[last]) && out.t[out.t.length - 1] !== t[last]) {
+		out.t.push(t[last]);
+		out.onBoardL.push(v[last]);
+	}
+	return out;
 }
 
 /** Who may see a debrief: its instructors always; the student (and other viewers) once published. */
@@ -135,9 +127,6 @@ async function slugOf(flightId: string): Promise<string> {
 }
 
 // ---- share links ----------------------------------------------------------------------------
-
-export const SHARE_DAYS_DEFAULT = 14;
-export const SHARE_DAYS_MAX = 90;
 
 export async function createShare(flightId: string, userId: string, days: number): Promise<{ token: string; expiresAt: Date }> {
 	const token = newToken('bds_');
