@@ -78,6 +78,26 @@ const MATRIX: Row[] = [
 	{ route: '/o/[org]/flights/[id]', method: 'POST', path: (i) => `${F(i)}?/removeEvent`, form: { id: '' }, expect: only(FLIGHT_EDITORS, 400) },
 	{ route: '/o/[org]/flights/[id]', method: 'POST', path: (i) => `${F(i)}?/addNote`, form: { body: '' }, expect: only(FLIGHT_EDITORS, 400) },
 	{ route: '/o/[org]/flights/[id]', method: 'POST', path: (i) => `${F(i)}?/removeNote`, form: { id: '' }, expect: only(FLIGHT_EDITORS, 400) },
+	{ route: '/o/[org]/flights/[id]', method: 'POST', path: (i) => `${F(i)}?/editNote`, form: { id: '' }, expect: only(FLIGHT_EDITORS, 400) },
+	{ route: '/o/[org]/flights/[id]/plan', method: 'GET', path: (i) => `${F(i)}/plan`, expect: only(FLIGHT_VIEWERS, 200) },
+	{ route: '/o/[org]/flights/[id]/plan', method: 'POST', path: (i) => `${F(i)}/plan?/save`, form: {}, expect: only(FLIGHT_EDITORS, 400) },
+	{ route: '/o/[org]/flights/[id]/plan', method: 'POST', path: (i) => `${F(i)}/plan?/import`, form: {}, expect: only(FLIGHT_EDITORS, 400) },
+	// The fixture flight has no plan: whoever may remove one is told so (404 with the reason).
+	{ route: '/o/[org]/flights/[id]/plan', method: 'POST', path: (i) => `${F(i)}/plan?/remove`, form: {}, expect: only(FLIGHT_EDITORS, 404) },
+	// Every member who may view the flight opens the debrief page (a draft shows as "not published yet").
+	{ route: '/o/[org]/flights/[id]/debrief', method: 'GET', path: (i) => `${F(i)}/debrief`, expect: only(FLIGHT_VIEWERS, 200) },
+	// Writing a debrief is the instructor's: the flight's own pilot may view but not write it.
+	{ route: '/o/[org]/flights/[id]/debrief', method: 'POST', path: (i) => `${F(i)}/debrief?/saveText`, form: { summary: 'x'.repeat(5001) }, expect: only(['admin', 'instructor'], 400) },
+	{ route: '/o/[org]/flights/[id]/debrief', method: 'POST', path: (i) => `${F(i)}/debrief?/share`, form: { days: '0' }, expect: only(['admin', 'instructor'], 400) },
+	{ route: '/o/[org]/flights/[id]/debrief', method: 'POST', path: (i) => `${F(i)}/debrief?/revokeShare`, form: { id: '' }, expect: only(['admin', 'instructor'], 400) },
+	{ route: '/o/[org]/flights/[id]/debrief', method: 'POST', path: (i) => `${F(i)}/debrief?/signOff`, form: {}, expect: only(['admin', 'instructor'], 200) },
+	// After the sign-off above (the admin's run comes first), publishing succeeds and the print
+	// layout opens for every viewer of the flight.
+	{ route: '/o/[org]/flights/[id]/debrief', method: 'POST', path: (i) => `${F(i)}/debrief?/publish`, form: {}, expect: only(['admin', 'instructor'], 200) },
+	{ route: '/o/[org]/flights/[id]/debrief/print', method: 'GET', path: (i) => `${F(i)}/debrief/print`, expect: only(FLIGHT_VIEWERS, 200) },
+	{ route: '/o/[org]/students', method: 'GET', path: () => `${O}/students`, expect: only(['admin', 'instructor'], 200) },
+	// A shared link is its own authorization: an unknown token is 404 for everyone, signed in or not.
+	{ route: '/share/[token]', method: 'GET', path: () => '/share/bds_not-a-real-token-000000000', expect: { ...anyone(404), anonymous: 404 } },
 	{ route: '/o/[org]/flights/[id]/live', method: 'POST', path: (i) => `${F(i)}/live?/declaration`, form: {}, expect: only(FLIGHT_EDITORS, 400) },
 	{ route: '/o/[org]/flights/[id]/live', method: 'POST', path: (i) => `${F(i)}/live?/ack`, form: { alarmId: '' }, expect: only(FLIGHT_VIEWERS, 400) },
 	{ route: '/o/[org]/flights/[id]/live', method: 'POST', path: (i) => `${F(i)}/live?/watch`, form: { on: 'maybe' }, expect: only(FLIGHT_VIEWERS, 400) },

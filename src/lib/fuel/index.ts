@@ -18,6 +18,10 @@
 //   reserve.ts      legal reserve rules as data, the normal-cruise flow and the reserve amount
 //   summary.ts      summarize(): the flight summary for the debrief
 //   calibration.ts  meter factor and K-factor from a fill-up
+//   plan.ts         a fuel plan worked out: time and fuel per leg, on board at each waypoint, reserve
+//   geo.ts          great-circle distance between two positions (plan legs from a route)
+//   passage.ts      when each waypoint was passed, from the recorder's waypoint id and distance to go
+//   plan-actual.ts  planned against actual per leg, and the legs off plan beyond a tolerance
 // Unit constants and conversions live beside this folder in $lib/units.ts.
 
 export * from './types';
@@ -72,3 +76,23 @@ export {
 	type CalibrationInput,
 	type CalibrationResult
 } from './calibration';
+export {
+	legDistanceNm,
+	legFuelL,
+	legTimeH,
+	workPlan,
+	type FuelPlanInput,
+	type PlanLeg,
+	type PlannedLeg,
+	type WorkedPlan
+} from './plan';
+export { greatCircleNm } from './geo';
+export { findPassages, type WaypointPassage } from './passage';
+export {
+	DEFAULT_TOLERANCE_PERCENT,
+	OFF_PLAN_WORDS,
+	comparePlan,
+	type ActualInput,
+	type LegComparison,
+	type PlanComparison
+} from './plan-actual';

@@ -122,6 +122,9 @@ export const noteFormSchema = z.object({
 		})
 });
 
+/** Editing a note: the same fields, and which note. */
+export const noteEditFormSchema = noteFormSchema.extend({ id: z.uuid('That note is not on this flight.') });
+
 export type DeclarationInput = z.output<ReturnType<typeof declarationFormSchema>>;
 export type FuelEventInput = z.output<ReturnType<typeof fuelEventFormSchema>>;
 export type NoteInput = z.output<typeof noteFormSchema>;

@@ -2,6 +2,8 @@
 // canonical units (litres, litres per hour, knots, NM, feet); display units are applied at the edge.
 // Column names become snake_case through Drizzle's casing option (see db/index.ts, drizzle.config.ts).
 import { sql } from 'drizzle-orm';
+import type { PlanLeg } from '../../fuel/plan';
+import { DEBRIEF_STATUSES } from '../../wire/plan';
 import {
 	bigint,
 	boolean,
@@ -31,6 +33,7 @@ export const flightStatusEnum = pgEnum('flight_status', ['open', 'closed']);
 export const fuelEventKindEnum = pgEnum('fuel_event_kind', ['added', 'removed', 'toFull', 'toLower', 'resetUsed']);
 export const fuelCorrectionKindEnum = pgEnum('fuel_correction_kind', ['declaration', 'eventAdded', 'eventRemoved']);
 export const alarmKindEnum = pgEnum('alarm_kind', ['lowFuel', 'lowEndurance', 'arrivalBelowReserve']);
+export const debriefStatusEnum = pgEnum('debrief_status', DEBRIEF_STATUSES);
 
 // ---- accounts -------------------------------------------------------------------------------
 
@@ -447,7 +450,9 @@ export const flightNotes = pgTable(
 		authorId: text().references(() => users.id, { onDelete: 'set null' }),
 		t: tstz(),
 		body: text().notNull(),
-		createdAt: tstz().notNull().defaultNow()
+		createdAt: tstz().notNull().defaultNow(),
+		/** Last edit of the body or the moment; null when never edited. */
+		editedAt: tstz()
 	},
 	(t) => [index().on(t.flightId, t.createdAt)]
 );
@@ -506,3 +511,69 @@ export const watches = pgTable(
 	]
 );
 export type Watch = typeof watches.$inferSelect;
+
+// ---- fuel plans and debriefs -----------------------------------------------------------------
+
+/**
+ * A pre-flight fuel plan (canonical units). Attached to one flight; the worked figures (time and
+ * fuel per leg, on board at each waypoint) are computed from it on every read, never stored.
+ */
+export const fuelPlans = pgTable(
+	'fuel_plans',
+	{
+		id: uuid().primaryKey().defaultRandom(),
+		orgId: uuid()
+			.notNull()
+			.references(() => organisations.id, { onDelete: 'cascade' }),
+		aircraftId: uuid()
+			.notNull()
+			.references(() => aircraft.id, { onDelete: 'cascade' }),
+		flightId: uuid().references(() => flights.id, { onDelete: 'cascade' }),
+		startOnBoardL: doublePrecision().notNull(),
+		taxiL: doublePrecision().notNull().default(0),
+		climbL: doublePrecision().notNull().default(0),
+		reserveRule: text().notNull(),
+		reserveCustomMin: doublePrecision(),
+		/** Normal-cruise flow for the reserve, L/h. */
+		reserveFlowLph: doublePrecision(),
+		tolerancePercent: doublePrecision().notNull(),
+		legs: jsonb().$type<PlanLeg[]>().notNull(),
+		createdBy: text().references(() => users.id, { onDelete: 'set null' }),
+		createdAt: tstz().notNull().defaultNow(),
+		updatedAt: tstz().notNull().defaultNow()
+	},
+	(t) => [uniqueIndex().on(t.flightId), index().on(t.aircraftId)]
+);
+export type FuelPlanRow = typeof fuelPlans.$inferSelect;
+
+/** The instructor's debrief of a flight: a summary, the sign-off, and whether the student sees it. */
+export const debriefs = pgTable('debriefs', {
+	flightId: uuid()
+		.primaryKey()
+		.references(() => flights.id, { onDelete: 'cascade' }),
+	status: debriefStatusEnum().notNull().default('draft'),
+	summary: text().notNull().default(''),
+	signedOffBy: text().references(() => users.id, { onDelete: 'set null' }),
+	signedOffAt: tstz(),
+	publishedAt: tstz(),
+	updatedAt: tstz().notNull().defaultNow()
+});
+export type DebriefRow = typeof debriefs.$inferSelect;
+
+/** Read-only links to a debrief for someone without an account (token stored only as a hash). */
+export const debriefShares = pgTable(
+	'debrief_shares',
+	{
+		id: uuid().primaryKey().defaultRandom(),
+		flightId: uuid()
+			.notNull()
+			.references(() => flights.id, { onDelete: 'cascade' }),
+		tokenHash: text().notNull().unique(),
+		createdBy: text().references(() => users.id, { onDelete: 'set null' }),
+		createdAt: tstz().notNull().defaultNow(),
+		expiresAt: tstz().notNull(),
+		revokedAt: tstz()
+	},
+	(t) => [index().on(t.flightId)]
+);
+export type DebriefShare = typeof debriefShares.$inferSelect;
