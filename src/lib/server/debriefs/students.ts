@@ -7,15 +7,12 @@ import { db } from '../db';
 import { aircraft, debriefs, flights, fuelPlans, users } from '../db/schema';
 
 /**
- * Reserve kept: fuel on board at shutdown against the rule's amount, read from the stored
- * summary. Null when either figure is missing. When the engine's summary carries its own
- * per-flight reserve verdict, read that field here instead: this is the one place that decides.
+ * Reserve kept: the engine's per-flight verdict (fuel on board at shutdown against the reserve
+ * amount) from the stored summary; null when the flight has no verdict or no reserve amount.
  */
 export function reserveKeptOf(summary: FlightSummary | null): boolean | null {
-	const left = summary?.onBoardAtShutdownL;
-	const reserve = summary?.reserve?.amountL;
-	if (typeof left !== 'number' || typeof reserve !== 'number') return null;
-	return left >= reserve;
+	const state = summary?.verdict?.state;
+	return state === 'kept' ? true : state === 'notKept' ? false : null;
 }
 
 export interface StudentFlight {
