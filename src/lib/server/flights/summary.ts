@@ -7,6 +7,7 @@ import { reserveOf } from '$lib/flight-inputs';
 import { computeFlight, summarize, type FlightComputation, type FlightSummary } from '$lib/fuel';
 import { db } from '../db';
 import { aircraft, flights } from '../db/schema';
+import { storeFlightFigures } from './figures';
 import { loadFlight, type LoadedFlight, type Queryable } from './load';
 
 export function computeLoaded(f: LoadedFlight): { computation: FlightComputation; summary: FlightSummary } {
@@ -24,6 +25,8 @@ export async function recomputeSummary(flightId: string, q: Queryable = db): Pro
 	if (!loaded) return null;
 	const summary = loaded.flight.status === 'closed' ? computeLoaded(loaded).summary : null;
 	await q.update(flights).set({ summary, updatedAt: new Date() }).where(eq(flights.id, flightId));
+	// The history's typed per-flight and per-phase figures, from this same summary.
+	await storeFlightFigures(flightId, summary, loaded.input.profile.meterFactor, q);
 	await refreshLastOnBoard(loaded.flight.aircraftId, q);
 	return summary;
 }

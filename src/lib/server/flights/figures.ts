@@ -1,0 +1,36 @@
+// The stored per-flight and per-phase figures (flight_figures, flight_phase_figures) that the
+// aircraft's history, baseline and high-burn finder read. Written only from recomputeSummary, from
+// the same summary the flights list caches, so the two can never disagree.
+import { eq } from 'drizzle-orm';
+import type { FlightSummary } from '$lib/fuel';
+import { db } from '../db';
+import { flightFigures, flightPhaseFigures } from '../db/schema';
+import type { Queryable } from './load';
+
+/** Replaces the flight's stored figures by the summary's; none for a flight without a summary. */
+export async function storeFlightFigures(flightId: string, summary: FlightSummary | null, meterFactor: number, q: Queryable = db): Promise<void> {
+	await q.delete(flightPhaseFigures).where(eq(flightPhaseFigures.flightId, flightId));
+	await q.delete(flightFigures).where(eq(flightFigures.flightId, flightId));
+	if (!summary) return;
+	await q.insert(flightFigures).values({
+		flightId,
+		engineTimeS: summary.engineTimeS,
+		fuelUsedL: summary.fuelUsedL,
+		fuelPerEngineHourLph: summary.averageFlowLph,
+		cruiseSpecificRangeNmPerL: summary.cruiseSpecificRangeNmPerL,
+		meterFactor,
+		gapCount: summary.gapCount,
+		gapTimeS: summary.gapTimeS
+	});
+	if (summary.phases.length === 0) return;
+	await q.insert(flightPhaseFigures).values(
+		summary.phases.map((p) => ({
+			flightId,
+			phase: p.name,
+			timeS: p.timeS,
+			fuelL: p.fuelL,
+			distanceNm: p.distanceNm,
+			averageFlowLph: p.averageFlowLph
+		}))
+	);
+}
