@@ -17,6 +17,9 @@
 //   reserve.ts      legal reserve rules as data, and the reserve amount
 //   summary.ts      summarize(): the flight summary for the debrief
 //   calibration.ts  meter factor and K-factor from a fill-up
+//   baseline.ts     an aircraft's usual flow per phase (median and MAD over its recent flights)
+//   high-burn.ts    a flight's phases against that baseline: marks, extra fuel, possible causes
+//   leaning.ts      leaning moments: a clear step down in cruise flow at steady speed and altitude
 // Unit constants and conversions live beside this folder in $lib/units.ts.
 
 export * from './types';
@@ -66,3 +69,28 @@ export {
 	type CalibrationInput,
 	type CalibrationResult
 } from './calibration';
+export {
+	BASELINE_PHASES,
+	DEFAULT_BASELINE_FLIGHTS,
+	MAD_SCALE,
+	MIN_BASELINE_FLIGHTS,
+	MIN_PHASE_S,
+	learnBaseline,
+	median,
+	medianAbsoluteDeviation,
+	type Baseline,
+	type BaselineFlight,
+	type BaselinePhase,
+	type PhaseBaseline,
+	type PhaseFigures
+} from './baseline';
+export {
+	DEFAULT_HIGH_BURN_PERCENT,
+	HIGH_BURN_CAUSES,
+	findHighBurn,
+	type HighBurnCause,
+	type HighBurnOptions,
+	type HighBurnResult,
+	type PhaseComparison
+} from './high-burn';
+export { findLeaningMoments, type LeaningInput, type LeaningMoment } from './leaning';
