@@ -18,7 +18,8 @@ CREATE TABLE "flight_figures" (
 	"cruise_specific_range_nm_per_l" double precision,
 	"meter_factor" double precision NOT NULL,
 	"gap_count" integer NOT NULL,
-	"gap_time_s" double precision NOT NULL
+	"gap_time_s" double precision NOT NULL,
+	"leaning_moments" integer NOT NULL
 );
 --> statement-breakpoint
 CREATE TABLE "flight_phase_figures" (

@@ -490,7 +490,9 @@ export const flightFigures = pgTable('flight_figures', {
 	/** The meter factor the figures were computed with. */
 	meterFactor: doublePrecision().notNull(),
 	gapCount: integer().notNull(),
-	gapTimeS: doublePrecision().notNull()
+	gapTimeS: doublePrecision().notNull(),
+	/** Leaning moments found in cruise (fuel/leaning.ts), for the high-burn finder's causes. */
+	leaningMoments: integer().notNull()
 });
 export type FlightFiguresRow = typeof flightFigures.$inferSelect;
 

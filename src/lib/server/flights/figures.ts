@@ -8,7 +8,13 @@ import { flightFigures, flightPhaseFigures } from '../db/schema';
 import type { Queryable } from './load';
 
 /** Replaces the flight's stored figures by the summary's; none for a flight without a summary. */
-export async function storeFlightFigures(flightId: string, summary: FlightSummary | null, meterFactor: number, q: Queryable = db): Promise<void> {
+export interface FiguresBeyondSummary {
+	/** The meter factor the flight was computed with. */
+	meterFactor: number;
+	leaningMoments: number;
+}
+
+export async function storeFlightFigures(flightId: string, summary: FlightSummary | null, extra: FiguresBeyondSummary, q: Queryable = db): Promise<void> {
 	await q.delete(flightPhaseFigures).where(eq(flightPhaseFigures.flightId, flightId));
 	await q.delete(flightFigures).where(eq(flightFigures.flightId, flightId));
 	if (!summary) return;
@@ -18,7 +24,8 @@ export async function storeFlightFigures(flightId: string, summary: FlightSummar
 		fuelUsedL: summary.fuelUsedL,
 		fuelPerEngineHourLph: summary.averageFlowLph,
 		cruiseSpecificRangeNmPerL: summary.cruiseSpecificRangeNmPerL,
-		meterFactor,
+		meterFactor: extra.meterFactor,
+		leaningMoments: extra.leaningMoments,
 		gapCount: summary.gapCount,
 		gapTimeS: summary.gapTimeS
 	});

@@ -4,7 +4,7 @@
 // declaration, fuel event, close, aircraft fuel profile, meter factor) calls it in its transaction.
 import { and, asc, desc, eq, isNotNull, sql } from 'drizzle-orm';
 import { reserveOf } from '$lib/flight-inputs';
-import { computeFlight, summarize, type FlightComputation, type FlightSummary } from '$lib/fuel';
+import { computeFlight, findLeaningMoments, summarize, type FlightComputation, type FlightSummary } from '$lib/fuel';
 import { db } from '../db';
 import { aircraft, flights } from '../db/schema';
 import { storeFlightFigures } from './figures';
@@ -23,10 +23,13 @@ export function computeLoaded(f: LoadedFlight): { computation: FlightComputation
 export async function recomputeSummary(flightId: string, q: Queryable = db): Promise<FlightSummary | null> {
 	const loaded = await loadFlight(flightId, q);
 	if (!loaded) return null;
-	const summary = loaded.flight.status === 'closed' ? computeLoaded(loaded).summary : null;
+	const computed = loaded.flight.status === 'closed' ? computeLoaded(loaded) : null;
+	const summary = computed?.summary ?? null;
 	await q.update(flights).set({ summary, updatedAt: new Date() }).where(eq(flights.id, flightId));
-	// The history's typed per-flight and per-phase figures, from this same summary.
-	await storeFlightFigures(flightId, summary, loaded.input.profile.meterFactor, q);
+	// The history's typed per-flight and per-phase figures, from this same computation.
+	const cols = loaded.input.columns;
+	const leaningMoments = computed ? findLeaningMoments({ t: cols.t, flow: computed.computation.flow, gs: cols.gs, alt: cols.alt, phase: computed.computation.phase }).length : 0;
+	await storeFlightFigures(flightId, summary, { meterFactor: loaded.input.profile.meterFactor, leaningMoments }, q);
 	await refreshLastOnBoard(loaded.flight.aircraftId, q);
 	return summary;
 }
