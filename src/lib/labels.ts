@@ -22,3 +22,6 @@ export const baselineSourceLabels = {
 	learned: 'learned from its flights',
 	manual: 'set by hand'
 } as const;
+
+/** A leaning moment on the replay timeline. */
+export const leaningTitle = 'Mixture leaned';
