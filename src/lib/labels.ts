@@ -20,7 +20,8 @@ export const highBurnCauseLabels: Record<HighBurnCause, string> = {
 
 export const baselineSourceLabels = {
 	learned: 'learned from its flights',
-	manual: 'set by hand'
+	manual: 'set by hand',
+	configured: 'the aircraft’s configured cruise flow (too few flights to learn from)'
 } as const;
 
 /** A leaning moment on the replay timeline. */

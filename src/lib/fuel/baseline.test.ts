@@ -52,6 +52,9 @@ describe('learnBaseline', () => {
 	it('uses only the newest flights, and needs a few of them', () => {
 		expect(learnBaseline(usual, { recent: 3 }).phases.cruise!.centreLph).toBe(30);
 		expect(learnBaseline(usual.slice(0, MIN_BASELINE_FLIGHTS - 1)).phases.cruise).toBeNull();
+		// Until then the aircraft's configured cruise flow stands in, and says so.
+		expect(learnBaseline(usual.slice(0, 2), { fallback: { cruise: 31 } }).phases.cruise).toMatchObject({ source: 'configured', centreLph: 31, flights: 0 });
+		expect(learnBaseline(usual, { fallback: { cruise: 31 } }).phases.cruise?.source).toBe('learned');
 	});
 
 	it('takes a usual flow set by hand instead of the learned one', () => {

@@ -38,7 +38,8 @@ export interface BaselineFlight {
 
 export interface PhaseBaseline {
 	phase: BaselinePhase;
-	source: 'learned' | 'manual';
+	/** learned: from its flights; manual: set by hand here; configured: the aircraft's own usual cruise flow, used until enough flights exist. */
+	source: 'learned' | 'manual' | 'configured';
 	/** Usual average flow, L/h (median, or the hand-set value). */
 	centreLph: number;
 	/** Robust standard deviation of the flow, L/h; null for a hand-set value. */
@@ -82,7 +83,12 @@ function robust(values: number[]): { centre: number; spread: number } {
  */
 export function learnBaseline(
 	flights: readonly BaselineFlight[],
-	options: { recent?: number; manual?: Partial<Record<BaselinePhase, number | null>> } = {}
+	options: {
+		recent?: number;
+		manual?: Partial<Record<BaselinePhase, number | null>>;
+		/** Used for a phase with too few flights to learn from (e.g. the aircraft's configured cruise flow). */
+		fallback?: Partial<Record<BaselinePhase, number | null>>;
+	} = {}
 ): Baseline {
 	const recent = options.recent ?? DEFAULT_BASELINE_FLIGHTS;
 	const usable = flights.filter((f) => !f.unusual);
@@ -103,7 +109,11 @@ export function learnBaseline(
 			times.push(p.timeS);
 		}
 		if (flows.length < MIN_BASELINE_FLIGHTS) {
-			phases[phase] = null;
+			const configured = options.fallback?.[phase];
+			phases[phase] =
+				configured !== undefined && configured !== null && Number.isFinite(configured) && configured > 0
+					? { phase, source: 'configured', centreLph: configured, spreadLph: null, usualTimeS: null, flights: 0 }
+					: null;
 			continue;
 		}
 		const { centre, spread } = robust(flows);

@@ -19,6 +19,7 @@
 //   calibration.ts  meter factor and K-factor from a fill-up
 //   baseline.ts     an aircraft's usual flow per phase (median and MAD over its recent flights)
 //   high-burn.ts    a flight's phases against that baseline: marks, extra fuel, possible causes
+//   compare.ts      flights on a common clock since engine start, per-phase differences
 //   leaning.ts      leaning moments: a clear step down in cruise flow at steady speed and altitude
 // Unit constants and conversions live beside this folder in $lib/units.ts.
 
@@ -94,3 +95,11 @@ export {
 	type PhaseComparison
 } from './high-burn';
 export { findLeaningMoments, type LeaningInput, type LeaningMoment } from './leaning';
+export {
+	COMPARE_MAX_POINTS,
+	alignSinceEngineStart,
+	compareStepS,
+	phaseDifferences,
+	type AlignedSeries,
+	type PhaseDifference
+} from './compare';

@@ -51,3 +51,11 @@ export const unusualFormSchema = z.object({
 	reason: z.string().trim().max(200, 'Keep the reason under 200 characters.').default('')
 });
 export type UnusualInput = z.output<typeof unusualFormSchema>;
+
+/** Flights compared at once (our choice: more lines than this no longer read at a glance). */
+export const MAX_COMPARED = 6;
+/** ?id=…&id=… on the compare page: two to MAX_COMPARED distinct flight ids. */
+export const compareQuerySchema = z
+	.array(z.uuid('Each id must be a flight id.'))
+	.transform((ids) => [...new Set(ids)])
+	.pipe(z.array(z.string()).min(2, 'Pick at least two flights to compare.').max(MAX_COMPARED, `Pick at most ${MAX_COMPARED} flights to compare.`));

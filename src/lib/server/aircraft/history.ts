@@ -18,7 +18,7 @@ import { can } from '$lib/permissions';
 import { HISTORY_PER_PAGE, type BurnSettingsInput, type HistoryQuery, type HistorySort, type UnusualInput } from '$lib/schemas/history';
 import type { BurnSettingsView, HistoryPage, HistoryPhase, HistoryRow, TrendPoint } from '$lib/wire/history';
 import { db } from '../db';
-import { aircraftBurnSettings, flightFigures, flightPhaseFigures, flights, flightUnusualMarks, users } from '../db/schema';
+import { aircraft, aircraftBurnSettings, flightFigures, flightPhaseFigures, flights, flightUnusualMarks, users } from '../db/schema';
 import { visibleFlights, type ListViewer } from '../flights/list';
 
 /** Flights read to learn the baseline: the newest usual ones plus room for those marked unusual. */
@@ -71,6 +71,7 @@ export async function burnSettingsOf(aircraftId: string): Promise<BurnSettingsVi
  */
 export async function aircraftBaseline(aircraftId: string, settings?: BurnSettingsView): Promise<Baseline> {
 	const s = settings ?? (await burnSettingsOf(aircraftId));
+	const [a] = await db.select({ cruise: aircraft.baselineCruiseLph }).from(aircraft).where(eq(aircraft.id, aircraftId));
 	const recent = await db
 		.select({ id: flights.id, perHour: flightFigures.fuelPerEngineHourLph, unusual: flightUnusualMarks.flightId })
 		.from(flights)
@@ -81,7 +82,7 @@ export async function aircraftBaseline(aircraftId: string, settings?: BurnSettin
 		.limit(BASELINE_READ);
 	const phases = await phasesOf(recent.map((r) => r.id));
 	const input: BaselineFlight[] = recent.map((r) => ({ id: r.id, phases: phases.get(r.id) ?? [], fuelPerEngineHourLph: r.perHour, unusual: r.unusual !== null }));
-	return learnBaseline(input, { manual: s.manual });
+	return learnBaseline(input, { manual: s.manual, fallback: { cruise: a?.cruise ?? null } });
 }
 
 function filtersOf(v: ListViewer, aircraftId: string, q: HistoryQuery): SQL {
