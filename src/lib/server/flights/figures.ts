@@ -2,10 +2,11 @@
 // aircraft's history, baseline and high-burn finder read. Written only from recomputeSummary, from
 // the same summary the flights list caches, so the two can never disagree.
 import { eq } from 'drizzle-orm';
-import type { FlightSummary } from '$lib/fuel';
-import { db } from '../db';
+import { findLeaningMoments, type FlightComputation, type FlightSummary, type SampleColumns } from '$lib/fuel';
+import { db, type Db } from '../db';
 import { flightFigures, flightPhaseFigures } from '../db/schema';
-import type { Queryable } from './load';
+/** Any Drizzle handle that writes (the pool, a transaction, the upload's own client). */
+type Writer = Pick<Db, 'insert' | 'delete'>;
 
 /** Replaces the flight's stored figures by the summary's; none for a flight without a summary. */
 export interface FiguresBeyondSummary {
@@ -14,7 +15,7 @@ export interface FiguresBeyondSummary {
 	leaningMoments: number;
 }
 
-export async function storeFlightFigures(flightId: string, summary: FlightSummary | null, extra: FiguresBeyondSummary, q: Queryable = db): Promise<void> {
+export async function storeFlightFigures(flightId: string, summary: FlightSummary | null, extra: FiguresBeyondSummary, q: Writer = db): Promise<void> {
 	await q.delete(flightPhaseFigures).where(eq(flightPhaseFigures.flightId, flightId));
 	await q.delete(flightFigures).where(eq(flightFigures.flightId, flightId));
 	if (!summary) return;
@@ -40,4 +41,21 @@ export async function storeFlightFigures(flightId: string, summary: FlightSummar
 			averageFlowLph: p.averageFlowLph
 		}))
 	);
+}
+
+/**
+ * The same from a fresh computation: the leaning moments are counted on its flow and phases.
+ * For the write paths that compute a flight themselves (recomputeSummary, the upload).
+ */
+export async function storeComputedFigures(
+	flightId: string,
+	computed: { computation: FlightComputation; summary: FlightSummary } | null,
+	columns: SampleColumns,
+	meterFactor: number,
+	q: Writer = db
+): Promise<void> {
+	const leaningMoments = computed
+		? findLeaningMoments({ t: columns.t, flow: computed.computation.flow, gs: columns.gs, alt: columns.alt, phase: computed.computation.phase }).length
+		: 0;
+	await storeFlightFigures(flightId, computed?.summary ?? null, { meterFactor, leaningMoments }, q);
 }

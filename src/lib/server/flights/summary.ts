@@ -4,10 +4,10 @@
 // declaration, fuel event, close, aircraft fuel profile, meter factor) calls it in its transaction.
 import { and, asc, desc, eq, isNotNull, sql } from 'drizzle-orm';
 import { reserveOf } from '$lib/flight-inputs';
-import { computeFlight, findLeaningMoments, summarize, type FlightComputation, type FlightSummary } from '$lib/fuel';
+import { computeFlight, summarize, type FlightComputation, type FlightSummary } from '$lib/fuel';
 import { db } from '../db';
 import { aircraft, flights } from '../db/schema';
-import { storeFlightFigures } from './figures';
+import { storeComputedFigures } from './figures';
 import { loadFlight, type LoadedFlight, type Queryable } from './load';
 
 export function computeLoaded(f: LoadedFlight): { computation: FlightComputation; summary: FlightSummary } {
@@ -27,9 +27,7 @@ export async function recomputeSummary(flightId: string, q: Queryable = db): Pro
 	const summary = computed?.summary ?? null;
 	await q.update(flights).set({ summary, updatedAt: new Date() }).where(eq(flights.id, flightId));
 	// The history's typed per-flight and per-phase figures, from this same computation.
-	const cols = loaded.input.columns;
-	const leaningMoments = computed ? findLeaningMoments({ t: cols.t, flow: computed.computation.flow, gs: cols.gs, alt: cols.alt, phase: computed.computation.phase }).length : 0;
-	await storeFlightFigures(flightId, summary, { meterFactor: loaded.input.profile.meterFactor, leaningMoments }, q);
+	await storeComputedFigures(flightId, computed, loaded.input.columns, loaded.input.profile.meterFactor, q);
 	await refreshLastOnBoard(loaded.flight.aircraftId, q);
 	return summary;
 }

@@ -39,6 +39,7 @@ import { declarationProblem, toDeclaration } from '$lib/schemas/declaration';
 import { db as poolDb, pool } from '../db';
 import * as schema from '../db/schema';
 import { aircraft as aircraftTable, flights, importProfiles, uploads, type Aircraft, type ImportProfile } from '../db/schema';
+import { storeComputedFigures } from '../flights/figures';
 import { SAMPLE_COPY_COLUMNS, SampleCopyEncoder, chunkTuple, copyHeader, copyTrailer, writeWithBackpressure } from './binary-copy';
 import type { DeclarationInput } from './declaration';
 
@@ -354,7 +355,8 @@ export async function ingestRecorderFile(req: IngestRequest): Promise<IngestResu
 		const declaration = toDeclaration(req.declaration, a);
 
 		progress({ phase: 'storing', step: 'summary', rows });
-		const computation = computeFlight({ columns: columns.columns(), ...engineInputsOf(a, { declaration, previousOnBoardL }, []) });
+		const flightColumns = columns.columns();
+		const computation = computeFlight({ columns: flightColumns, ...engineInputsOf(a, { declaration, previousOnBoardL }, []) });
 		const flightSummary = summarize(computation, { reserve: reserveOf(a) });
 		const warnings = [...computation.warnings.map((w) => w.message), ...computation.problems.slice(0, 10).map((p) => p.message)];
 
@@ -402,6 +404,8 @@ export async function ingestRecorderFile(req: IngestRequest): Promise<IngestResu
 				updatedAt: new Date()
 			})
 			.where(eq(flights.id, flightId));
+		// The history's per-flight and per-phase figures, as recomputeSummary stores them.
+		await storeComputedFigures(flightId, { computation, summary: flightSummary }, flightColumns, a.meterFactor, db);
 		if (newest && flightSummary.onBoardAtShutdownL !== null)
 			await db.update(aircraftTable).set({ lastOnBoardL: flightSummary.onBoardAtShutdownL, updatedAt: new Date() }).where(eq(aircraftTable.id, a.id));
 
