@@ -20,6 +20,7 @@ import {
 	uniqueIndex,
 	uuid
 } from 'drizzle-orm/pg-core';
+import { PHASE_NAMES } from '../../fuel/phases';
 
 const bytea = customType<{ data: Buffer; driverData: Buffer }>({ dataType: () => 'bytea' });
 const tstz = (name?: string) =>
@@ -34,6 +35,7 @@ export const fuelEventKindEnum = pgEnum('fuel_event_kind', ['added', 'removed', 
 export const fuelCorrectionKindEnum = pgEnum('fuel_correction_kind', ['declaration', 'eventAdded', 'eventRemoved']);
 export const alarmKindEnum = pgEnum('alarm_kind', ['lowFuel', 'lowEndurance', 'arrivalBelowReserve']);
 export const debriefStatusEnum = pgEnum('debrief_status', DEBRIEF_STATUSES);
+export const flightPhaseEnum = pgEnum('flight_phase', PHASE_NAMES);
 
 // ---- accounts -------------------------------------------------------------------------------
 
@@ -577,3 +579,76 @@ export const debriefShares = pgTable(
 	(t) => [index().on(t.flightId)]
 );
 export type DebriefShare = typeof debriefShares.$inferSelect;
+
+// ---- stored per-flight figures (the owner's history) -----------------------------------------
+
+/**
+ * A closed flight's headline figures as typed columns, so an aircraft's history (1,000 flights)
+ * sorts and pages in SQL without reading samples or jsonb. Derived: written by recomputeSummary
+ * in the transaction of every input change, deleted with the flight; no row while a flight is open.
+ */
+export const flightFigures = pgTable('flight_figures', {
+	flightId: uuid()
+		.primaryKey()
+		.references(() => flights.id, { onDelete: 'cascade' }),
+	engineTimeS: doublePrecision().notNull(),
+	fuelUsedL: doublePrecision().notNull(),
+	/** Fuel used ÷ engine time, L/h; null when the engine never ran. */
+	fuelPerEngineHourLph: doublePrecision(),
+	/** Cruise distance ÷ cruise fuel, NM per litre; null without cruise fuel. */
+	cruiseSpecificRangeNmPerL: doublePrecision(),
+	/** The meter factor the figures were computed with. */
+	meterFactor: doublePrecision().notNull(),
+	gapCount: integer().notNull(),
+	gapTimeS: doublePrecision().notNull(),
+	/** Leaning moments found in cruise (fuel/leaning.ts), for the high-burn finder's causes. */
+	leaningMoments: integer().notNull()
+});
+export type FlightFiguresRow = typeof flightFigures.$inferSelect;
+
+/** The same flight per phase: time, fuel, distance and average flow (fuel ÷ time). */
+export const flightPhaseFigures = pgTable(
+	'flight_phase_figures',
+	{
+		flightId: uuid()
+			.notNull()
+			.references(() => flights.id, { onDelete: 'cascade' }),
+		phase: flightPhaseEnum().notNull(),
+		timeS: doublePrecision().notNull(),
+		fuelL: doublePrecision().notNull(),
+		distanceNm: doublePrecision().notNull(),
+		/** L/h; null when the phase took no time. */
+		averageFlowLph: doublePrecision()
+	},
+	(t) => [primaryKey({ columns: [t.flightId, t.phase] })]
+);
+export type FlightPhaseFiguresRow = typeof flightPhaseFigures.$inferSelect;
+
+/**
+ * The owner's settings for the high-burn finder: how far over usual a phase may burn before the
+ * flight is marked (null = our default), and per phase a usual flow set by hand (null = learned
+ * from the aircraft's own recent flights).
+ */
+export const aircraftBurnSettings = pgTable('aircraft_burn_settings', {
+	aircraftId: uuid()
+		.primaryKey()
+		.references(() => aircraft.id, { onDelete: 'cascade' }),
+	thresholdPercent: doublePrecision(),
+	manualTaxiLph: doublePrecision(),
+	manualClimbLph: doublePrecision(),
+	manualCruiseLph: doublePrecision(),
+	manualDescentLph: doublePrecision(),
+	updatedBy: text().references(() => users.id, { onDelete: 'set null' }),
+	updatedAt: tstz().notNull().defaultNow()
+});
+export type AircraftBurnSettings = typeof aircraftBurnSettings.$inferSelect;
+
+/** A flight the owner marked as unusual (a ferry, a test flight): left out of the learned baseline. */
+export const flightUnusualMarks = pgTable('flight_unusual_marks', {
+	flightId: uuid()
+		.primaryKey()
+		.references(() => flights.id, { onDelete: 'cascade' }),
+	reason: text().notNull().default(''),
+	markedBy: text().references(() => users.id, { onDelete: 'set null' }),
+	markedAt: tstz().notNull().defaultNow()
+});
