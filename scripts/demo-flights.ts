@@ -10,8 +10,11 @@ import { db } from '../src/lib/server/db';
 import { aircraft, flights } from '../src/lib/server/db/schema';
 import { ingestRecorderFile } from '../src/lib/server/ingest/ingest';
 import type { DeclarationInput } from '../src/lib/server/ingest/declaration';
-import { addFuelEvent } from '../src/lib/server/flights/edit';
-import { DEMO_ORG_ID } from './demo-scenario';
+import { addFuelEvent, addNote } from '../src/lib/server/flights/edit';
+import { savePlan } from '../src/lib/server/plans';
+import { DEFAULT_TOLERANCE_PERCENT } from '../src/lib/fuel/plan-actual';
+import { toLitres } from '../src/lib/units';
+import { DEMO, DEMO_ORG_ID } from './demo-scenario';
 
 const samplesDir = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..', 'samples');
 
@@ -65,6 +68,26 @@ export async function loadDemoFlights(): Promise<number> {
 			const flight = (await db.query.flights.findFirst({ where: eq(flights.id, result.flightId) }))!;
 			const saved = await addFuelEvent(flight, { t: new Date(f.refuel.at), kind: f.refuel.kind, amountL: null, note: f.refuel.note }, f.pilot);
 			if (!saved.ok) throw new Error(`demo refuel on ${f.file}: ${saved.message}`);
+		}
+		const plan = DEMO.crossCountryPlan;
+		if (plan.file === f.file) {
+			const L = (gal: number) => toLitres(gal, a.displayUnit, a.densityKgPerL);
+			const flight = { id: result.flightId, orgId: a.orgId, aircraftId: a.id };
+			await savePlan(
+				flight,
+				{
+					startOnBoardL: L(plan.startOnBoard),
+					taxiL: L(plan.taxi),
+					climbL: L(plan.climb),
+					reserveRule: plan.reserveRule,
+					reserveCustomMin: null,
+					reserveFlowLph: L(plan.reserveFlow),
+					tolerancePercent: DEFAULT_TOLERANCE_PERCENT,
+					legs: plan.legs.map((l) => ({ to: l.to, distanceNm: l.distanceNm, gsKt: l.gsKt, timeMin: null, flowLph: L(l.flow), fuelL: null, refuelToL: 'refuelTo' in l ? L(l.refuelTo) : null }))
+				},
+				f.pilot
+			);
+			await addNote(flight, { body: plan.note.body, at: new Date(plan.note.at) }, f.instructor ?? f.pilot);
 		}
 		stored++;
 	}

@@ -118,6 +118,27 @@ export const DEMO = {
 			token: 'bdr_demo_kestrel_tourer_0001'
 		}
 	],
+	/**
+	 * The student's fuel plan for the solo cross-country (US gal, kt, NM; waypoint ids as the
+	 * recorder reports them). The leg to FENWAY is planned at cruise flow, but the climb out of
+	 * Bramble Down went full rich: that leg comes out off plan.
+	 */
+	crossCountryPlan: {
+		file: 'kestrel-crosscountry-3leg.csv',
+		startOnBoard: 62,
+		taxi: 0.8,
+		climb: 1.0,
+		reserveRule: 'faa-91.151-vfr-day' as const,
+		reserveFlow: 13.4,
+		legs: [
+			{ to: 'CAIRNS', distanceNm: 36.2, gsKt: 120, flow: 13.4 },
+			{ to: 'SALTMR', distanceNm: 35.5, gsKt: 140, flow: 9.5 },
+			{ to: 'BRAMBL', distanceNm: 59.5, gsKt: 145, flow: 15.0, refuelTo: 84 },
+			{ to: 'FENWAY', distanceNm: 35.3, gsKt: 140, flow: 16.0 },
+			{ to: 'KESTRL', distanceNm: 74.4, gsKt: 160, flow: 11.5 }
+		],
+		note: { at: '2026-06-20T11:12:00Z', body: 'Climb out of Bramble Down full rich all the way to cruise: lean in the climb above 3000 ft as briefed.' }
+	},
 	/** The sample file the printed simulator command replays. */
 	liveSample: 'kestrel-crosscountry-3leg.csv'
 };

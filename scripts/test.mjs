@@ -24,6 +24,8 @@ const E2E_DB = 'burndown_e2e';
 const SINK_PORT = 2535;
 const E2E_PORT = 4173;
 const CHROMIUM = '/usr/bin/chromium';
+// The debrief PDF test turns pages into PNGs and reads their text with Debian's poppler-utils.
+const PDFTOPPM = '/usr/bin/pdftoppm';
 const TEST_BUILD_DIR = 'build-test';
 
 const usage = `Usage: npm test [-- --only ${STAGES.join('|')}[,…]] [-- arguments for vitest / playwright]`;
@@ -139,6 +141,9 @@ async function vitestStage(project, env, reports) {
 async function e2eStage(env, adminUrl, reports) {
 	if (!fs.existsSync(CHROMIUM)) {
 		await aptInstall(['chromium'], `Chromium for the end-to-end tests is missing (${CHROMIUM})`);
+	}
+	if (!fs.existsSync(PDFTOPPM)) {
+		await aptInstall(['poppler-utils'], `poppler-utils for the debrief PDF test is missing (${PDFTOPPM})`);
 	}
 	// Its own output folder, so a test run never swaps files under an app that npm start serves.
 	env = { ...env, BURNDOWN_BUILD_DIR: TEST_BUILD_DIR };

@@ -33,6 +33,8 @@ interface Row {
 }
 interface Ids {
 	pilotFlight: string;
+	/** A second flight of the demo pilot, for comparing two flights. */
+	pilotFlight2: string;
 }
 
 const O = `/o/${DEMO_ORG}`;
@@ -58,6 +60,10 @@ const MATRIX: Row[] = [
 	// Archive toggles: twice, so the trainer ends as it started for the tests after this one.
 	{ route: '/o/[org]/aircraft/[id]', method: 'POST', path: () => `${O}/aircraft/${DEMO_AIRCRAFT.trainer}?/archive`, form: {}, expect: only(['admin'], 200) },
 	{ route: '/o/[org]/aircraft/[id]', method: 'POST', path: () => `${O}/aircraft/${DEMO_AIRCRAFT.trainer}?/archive`, form: {}, expect: only(['admin'], 200) },
+	{ route: '/o/[org]/aircraft/[id]/history', method: 'GET', path: () => `${O}/aircraft/${DEMO_AIRCRAFT.trainer}/history`, expect: members(200) },
+	{ route: '/o/[org]/aircraft/[id]/history', method: 'GET', path: () => `${O}/aircraft/${DEMO_AIRCRAFT.otherOrg}/history`, expect: { ...members(404), anonymous: 303 } },
+	{ route: '/o/[org]/aircraft/[id]/history', method: 'POST', path: () => `${O}/aircraft/${DEMO_AIRCRAFT.trainer}/history?/settings`, form: { threshold: 'lots' }, expect: only(['admin'], 400) },
+	{ route: '/o/[org]/aircraft/[id]/history', method: 'POST', path: () => `${O}/aircraft/${DEMO_AIRCRAFT.trainer}/history?/unusual`, form: { flightId: '' }, expect: only(['admin'], 400) },
 	{ route: '/o/[org]/members', method: 'GET', path: () => `${O}/members`, expect: only(['admin'], 200) },
 	{ route: '/o/[org]/members', method: 'POST', path: () => `${O}/members?/invite`, form: { email: 'not-an-address', role: 'pilot' }, expect: only(['admin'], 400) },
 	{ route: '/o/[org]/members', method: 'POST', path: () => `${O}/members?/role`, form: { userId: '', role: 'admin' }, expect: only(['admin'], 400) },
@@ -68,6 +74,8 @@ const MATRIX: Row[] = [
 	{ route: '/o/[org]/flights', method: 'GET', path: () => `${O}/flights`, expect: members(200) },
 	{ route: '/o/[org]/flights/upload', method: 'GET', path: () => `${O}/flights/upload`, expect: only(['admin', 'instructor', 'pilot', 'student'], 200) },
 	{ route: '/o/[org]/flights/[id]', method: 'GET', path: (i) => `${O}/flights/${i.pilotFlight}`, expect: only(FLIGHT_VIEWERS, 200) },
+	{ route: '/o/[org]/flights/compare', method: 'GET', path: (i) => `${O}/flights/compare?id=${i.pilotFlight}&id=${i.pilotFlight2}`, expect: only(FLIGHT_VIEWERS, 200) },
+	{ route: '/o/[org]/flights/compare', method: 'GET', path: (i) => `${O}/flights/compare?id=${i.pilotFlight}`, expect: members(400) },
 	{ route: '/o/[org]/flights/[id]/live', method: 'GET', path: (i) => `${O}/flights/${i.pilotFlight}/live`, expect: only(FLIGHT_VIEWERS, 200) },
 	{ route: '/api/v1/flights/[id]/samples', method: 'GET', path: (i) => `/api/v1/flights/${i.pilotFlight}/samples`, expect: only(FLIGHT_VIEWERS, 200, 401) },
 	// A closed flight's stream ends once it has sent every sample, so a GET returns.
@@ -78,6 +86,26 @@ const MATRIX: Row[] = [
 	{ route: '/o/[org]/flights/[id]', method: 'POST', path: (i) => `${F(i)}?/removeEvent`, form: { id: '' }, expect: only(FLIGHT_EDITORS, 400) },
 	{ route: '/o/[org]/flights/[id]', method: 'POST', path: (i) => `${F(i)}?/addNote`, form: { body: '' }, expect: only(FLIGHT_EDITORS, 400) },
 	{ route: '/o/[org]/flights/[id]', method: 'POST', path: (i) => `${F(i)}?/removeNote`, form: { id: '' }, expect: only(FLIGHT_EDITORS, 400) },
+	{ route: '/o/[org]/flights/[id]', method: 'POST', path: (i) => `${F(i)}?/editNote`, form: { id: '' }, expect: only(FLIGHT_EDITORS, 400) },
+	{ route: '/o/[org]/flights/[id]/plan', method: 'GET', path: (i) => `${F(i)}/plan`, expect: only(FLIGHT_VIEWERS, 200) },
+	{ route: '/o/[org]/flights/[id]/plan', method: 'POST', path: (i) => `${F(i)}/plan?/save`, form: {}, expect: only(FLIGHT_EDITORS, 400) },
+	{ route: '/o/[org]/flights/[id]/plan', method: 'POST', path: (i) => `${F(i)}/plan?/import`, form: {}, expect: only(FLIGHT_EDITORS, 400) },
+	// The fixture flight has no plan: whoever may remove one is told so (404 with the reason).
+	{ route: '/o/[org]/flights/[id]/plan', method: 'POST', path: (i) => `${F(i)}/plan?/remove`, form: {}, expect: only(FLIGHT_EDITORS, 404) },
+	// Every member who may view the flight opens the debrief page (a draft shows as "not published yet").
+	{ route: '/o/[org]/flights/[id]/debrief', method: 'GET', path: (i) => `${F(i)}/debrief`, expect: only(FLIGHT_VIEWERS, 200) },
+	// Writing a debrief is the instructor's: the flight's own pilot may view but not write it.
+	{ route: '/o/[org]/flights/[id]/debrief', method: 'POST', path: (i) => `${F(i)}/debrief?/saveText`, form: { summary: 'x'.repeat(5001) }, expect: only(['admin', 'instructor'], 400) },
+	{ route: '/o/[org]/flights/[id]/debrief', method: 'POST', path: (i) => `${F(i)}/debrief?/share`, form: { days: '0' }, expect: only(['admin', 'instructor'], 400) },
+	{ route: '/o/[org]/flights/[id]/debrief', method: 'POST', path: (i) => `${F(i)}/debrief?/revokeShare`, form: { id: '' }, expect: only(['admin', 'instructor'], 400) },
+	{ route: '/o/[org]/flights/[id]/debrief', method: 'POST', path: (i) => `${F(i)}/debrief?/signOff`, form: {}, expect: only(['admin', 'instructor'], 200) },
+	// After the sign-off above (the admin's run comes first), publishing succeeds and the print
+	// layout opens for every viewer of the flight.
+	{ route: '/o/[org]/flights/[id]/debrief', method: 'POST', path: (i) => `${F(i)}/debrief?/publish`, form: {}, expect: only(['admin', 'instructor'], 200) },
+	{ route: '/o/[org]/flights/[id]/debrief/print', method: 'GET', path: (i) => `${F(i)}/debrief/print`, expect: only(FLIGHT_VIEWERS, 200) },
+	{ route: '/o/[org]/students', method: 'GET', path: () => `${O}/students`, expect: only(['admin', 'instructor'], 200) },
+	// A shared link is its own authorization: an unknown token is 404 for everyone, signed in or not.
+	{ route: '/share/[token]', method: 'GET', path: () => '/share/bds_not-a-real-token-000000000', expect: { ...anyone(404), anonymous: 404 } },
 	{ route: '/o/[org]/flights/[id]/live', method: 'POST', path: (i) => `${F(i)}/live?/declaration`, form: {}, expect: only(FLIGHT_EDITORS, 400) },
 	{ route: '/o/[org]/flights/[id]/live', method: 'POST', path: (i) => `${F(i)}/live?/ack`, form: { alarmId: '' }, expect: only(FLIGHT_VIEWERS, 400) },
 	{ route: '/o/[org]/flights/[id]/live', method: 'POST', path: (i) => `${F(i)}/live?/watch`, form: { on: 'maybe' }, expect: only(FLIGHT_VIEWERS, 400) },
@@ -117,11 +145,18 @@ test.beforeAll(async () => {
 			 from aircraft where id = $1 returning id`,
 			[DEMO_AIRCRAFT.trainer]
 		);
-		ids = { pilotFlight: rows[0].id };
-		await client.query(
-			`insert into samples (flight_id, seq, t, flow, gs, dtg) select $1, s, now() - interval '2 hours' + s * interval '1 second', 30, 100, 20 from generate_series(0, 9) s`,
-			[ids.pilotFlight]
+		const second = await client.query(
+			`insert into flights (org_id, aircraft_id, pilot_id, title, source, status, started_at, ended_at, declaration)
+			 select org_id, id, 'demo-pilot', 'matrix fixture 2', 'upload', 'closed', now() - interval '4 hours', now() - interval '3 hours', '{"kind":"full"}'
+			 from aircraft where id = $1 returning id`,
+			[DEMO_AIRCRAFT.trainer]
 		);
+		ids = { pilotFlight: rows[0].id, pilotFlight2: second.rows[0].id };
+		for (const [id, start] of [[ids.pilotFlight, '2 hours'], [ids.pilotFlight2, '4 hours']])
+			await client.query(
+				`insert into samples (flight_id, seq, t, flow, gs, dtg) select $1, s, now() - interval '${start}' + s * interval '1 second', 30, 100, 20 from generate_series(0, 9) s`,
+				[id]
+			);
 	} finally {
 		await client.end();
 	}
@@ -208,7 +243,7 @@ test('every form action of every page is in the matrix or on a route outside it'
 	expect(actions).toContain('/o/[org]/members ?/remove');
 	const covered = new Set(
 		MATRIX.filter((r) => r.method === 'POST' && !r.body).map((r) => {
-			const name = /^\?\/([\w-]+)/.exec(new URL(r.path({ pilotFlight: 'x' }), 'http://x').search)?.[1] ?? 'default';
+			const name = /^\?\/([\w-]+)/.exec(new URL(r.path({ pilotFlight: 'x', pilotFlight2: 'x' }), 'http://x').search)?.[1] ?? 'default';
 			return `${r.route} ?/${name}`;
 		})
 	);

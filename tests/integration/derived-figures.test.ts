@@ -10,7 +10,7 @@ import { isHttpError } from '@sveltejs/kit';
 import { asc, desc, eq } from 'drizzle-orm';
 import type { CorrectionView, DeclarationSnapshot, EventSnapshot } from '$lib/corrections';
 import { db, pool } from '$lib/server/db';
-import { aircraft, flights, fuelCorrections, fuelEvents, memberships, organisations, users } from '$lib/server/db/schema';
+import { aircraft, flightFigures, flightPhaseFigures, flights, fuelCorrections, fuelEvents, memberships, organisations, users } from '$lib/server/db/schema';
 import { loadFlight } from '$lib/server/flights/load';
 import { computeLoaded, recomputeSummary } from '$lib/server/flights/summary';
 import { aircraftFormValues } from '$lib/server/services/aircraft';
@@ -72,6 +72,25 @@ async function expectDerived(what: string) {
 		const loaded = await loadFlight(row.id);
 		const fresh = row.status === 'closed' ? computeLoaded(loaded!).summary : null;
 		expect(plain(row.summary), `${what}: stored summary of flight ${row.id}`).toEqual(plain(fresh));
+		// The history's typed figures follow the same summary, phase by phase.
+		const figures = await db.select().from(flightFigures).where(eq(flightFigures.flightId, row.id));
+		const phases = await db.select().from(flightPhaseFigures).where(eq(flightPhaseFigures.flightId, row.id));
+		if (!fresh) {
+			expect(figures, `${what}: an open flight stores no history figures`).toEqual([]);
+			expect(phases).toEqual([]);
+			continue;
+		}
+		expect(figures, `${what}: history figures of flight ${row.id}`).toHaveLength(1);
+		expect(figures[0].fuelUsedL).toBeCloseTo(fresh.fuelUsedL, 9);
+		expect(figures[0].engineTimeS).toBeCloseTo(fresh.engineTimeS, 9);
+		expect(figures[0].fuelPerEngineHourLph).toBeCloseTo(fresh.averageFlowLph!, 9);
+		expect(figures[0].meterFactor).toBe(loaded!.input.profile.meterFactor);
+		const byName = new Map(phases.map((p) => [p.phase, p]));
+		expect(phases.length).toBe(fresh.phases.length);
+		for (const p of fresh.phases) {
+			expect(byName.get(p.name)?.fuelL, `${what}: ${p.name} fuel of flight ${row.id}`).toBeCloseTo(p.fuelL, 9);
+			expect(byName.get(p.name)?.timeS).toBeCloseTo(p.timeS, 9);
+		}
 	}
 	const [latest] = await db
 		.select({ summary: flights.summary })

@@ -18,6 +18,14 @@
 //   reserve.ts      legal reserve rules as data, the normal-cruise flow and the reserve amount
 //   summary.ts      summarize(): the flight summary for the debrief
 //   calibration.ts  meter factor and K-factor from a fill-up
+//   plan.ts         a fuel plan worked out: time and fuel per leg, on board at each waypoint, reserve
+//   geo.ts          great-circle distance between two positions (plan legs from a route)
+//   passage.ts      when each waypoint was passed, from the recorder's waypoint id and distance to go
+//   plan-actual.ts  planned against actual per leg, and the legs off plan beyond a tolerance
+//   baseline.ts     an aircraft's usual flow per phase (median and MAD over its recent flights)
+//   high-burn.ts    a flight's phases against that baseline: marks, extra fuel, possible causes
+//   compare.ts      flights on a common clock since engine start, per-phase differences
+//   leaning.ts      leaning moments: a clear step down in cruise flow at steady speed and altitude
 // Unit constants and conversions live beside this folder in $lib/units.ts.
 
 export * from './types';
@@ -41,6 +49,7 @@ export {
 	PHASE_COUNT,
 	PHASE_CRUISE,
 	PHASE_DESCENT,
+	PHASE_NAMES,
 	PHASE_STOPPED,
 	PHASE_TAXI,
 	PHASE_UNKNOWN,
@@ -72,3 +81,56 @@ export {
 	type CalibrationInput,
 	type CalibrationResult
 } from './calibration';
+export {
+	legDistanceNm,
+	legFuelL,
+	legTimeH,
+	workPlan,
+	type FuelPlanInput,
+	type PlanLeg,
+	type PlannedLeg,
+	type WorkedPlan
+} from './plan';
+export { greatCircleNm } from './geo';
+export { findPassages, type WaypointPassage } from './passage';
+export {
+	DEFAULT_TOLERANCE_PERCENT,
+	OFF_PLAN_WORDS,
+	comparePlan,
+	type ActualInput,
+	type LegComparison,
+	type PlanComparison
+} from './plan-actual';
+export {
+	BASELINE_PHASES,
+	DEFAULT_BASELINE_FLIGHTS,
+	MAD_SCALE,
+	MIN_BASELINE_FLIGHTS,
+	MIN_PHASE_S,
+	learnBaseline,
+	median,
+	medianAbsoluteDeviation,
+	type Baseline,
+	type BaselineFlight,
+	type BaselinePhase,
+	type PhaseBaseline,
+	type PhaseFigures
+} from './baseline';
+export {
+	DEFAULT_HIGH_BURN_PERCENT,
+	HIGH_BURN_CAUSES,
+	findHighBurn,
+	type HighBurnCause,
+	type HighBurnOptions,
+	type HighBurnResult,
+	type PhaseComparison
+} from './high-burn';
+export { findLeaningMoments, type LeaningInput, type LeaningMoment } from './leaning';
+export {
+	COMPARE_MAX_POINTS,
+	alignSinceEngineStart,
+	compareStepS,
+	phaseDifferences,
+	type AlignedSeries,
+	type PhaseDifference
+} from './compare';

@@ -10,15 +10,10 @@ export const PHASE_CRUISE = 4;
 export const PHASE_DESCENT = 5;
 export const PHASE_COUNT = 6;
 
-export type PhaseName = 'unknown' | 'stopped' | 'taxi' | 'climb' | 'cruise' | 'descent';
-export const phaseNames: readonly PhaseName[] = [
-	'unknown',
-	'stopped',
-	'taxi',
-	'climb',
-	'cruise',
-	'descent'
-];
+/** The one list of phase names, indexed by phase code; the database enum and the labels take it. */
+export const PHASE_NAMES = ['unknown', 'stopped', 'taxi', 'climb', 'cruise', 'descent'] as const;
+export type PhaseName = (typeof PHASE_NAMES)[number];
+export const phaseNames: readonly PhaseName[] = PHASE_NAMES;
 
 /*
  * Detector settings (our choice, tuned on typical four-seat singles, not from a source):

@@ -122,6 +122,9 @@ export const noteFormSchema = z.object({
 		})
 });
 
+/** Editing a note: the same fields, and which note. */
+export const noteEditFormSchema = noteFormSchema.extend({ id: z.uuid('That note is not on this flight.') });
+
 export type DeclarationInput = z.output<ReturnType<typeof declarationFormSchema>>;
 export type FuelEventInput = z.output<ReturnType<typeof fuelEventFormSchema>>;
 export type NoteInput = z.output<typeof noteFormSchema>;
@@ -131,7 +134,7 @@ export type FlightSort = (typeof FLIGHT_SORTS)[number];
 export const FLIGHTS_PER_PAGE = 25;
 
 const ISO_DAY = /^\d{4}-\d{2}-\d{2}$/;
-const day = z
+export const day = z
 	.string()
 	.optional()
 	.transform((raw) => (raw && ISO_DAY.test(raw) && !Number.isNaN(Date.parse(`${raw}T00:00:00Z`)) ? raw : null));

@@ -147,6 +147,31 @@ export function segment(u: uPlot, a: [number, number], b: [number, number], colo
 	});
 }
 
+/** A broken line through points (e.g. the planned fuel on board), a label at its last point. */
+export function polyline(u: uPlot, ts: readonly number[], ys: readonly number[], colour: string, label: string) {
+	const { ctx } = u;
+	if (ts.length < 2) return;
+	clip(u, () => {
+		ctx.strokeStyle = colour;
+		ctx.lineWidth = px(u, 2);
+		ctx.setLineDash([px(u, 8), px(u, 4)]);
+		ctx.beginPath();
+		ts.forEach((t, k) => {
+			const x = u.valToPos(t, 'x', true);
+			const y = u.valToPos(ys[k], 'y', true);
+			if (k === 0) ctx.moveTo(x, y);
+			else ctx.lineTo(x, y);
+		});
+		ctx.stroke();
+		ctx.setLineDash([]);
+		ctx.fillStyle = colour;
+		ctx.font = font(u, 11, 600);
+		ctx.textBaseline = 'top';
+		ctx.textAlign = 'right';
+		ctx.fillText(label, u.valToPos(ts[ts.length - 1], 'x', true) - px(u, 6), u.valToPos(ys[ys.length - 1], 'y', true) + px(u, 4));
+	});
+}
+
 /** A dot with a label, e.g. the declared fuel at engine start. */
 export function dot(u: uPlot, t: number, value: number, colour: string, label: string) {
 	const { ctx } = u;

@@ -2,6 +2,8 @@
 // canonical units (litres, litres per hour, knots, NM, feet); display units are applied at the edge.
 // Column names become snake_case through Drizzle's casing option (see db/index.ts, drizzle.config.ts).
 import { sql } from 'drizzle-orm';
+import type { PlanLeg } from '../../fuel/plan';
+import { DEBRIEF_STATUSES } from '../../wire/plan';
 import {
 	bigint,
 	boolean,
@@ -18,6 +20,7 @@ import {
 	uniqueIndex,
 	uuid
 } from 'drizzle-orm/pg-core';
+import { PHASE_NAMES } from '../../fuel/phases';
 
 const bytea = customType<{ data: Buffer; driverData: Buffer }>({ dataType: () => 'bytea' });
 const tstz = (name?: string) =>
@@ -31,6 +34,8 @@ export const flightStatusEnum = pgEnum('flight_status', ['open', 'closed']);
 export const fuelEventKindEnum = pgEnum('fuel_event_kind', ['added', 'removed', 'toFull', 'toLower', 'resetUsed']);
 export const fuelCorrectionKindEnum = pgEnum('fuel_correction_kind', ['declaration', 'eventAdded', 'eventRemoved']);
 export const alarmKindEnum = pgEnum('alarm_kind', ['lowFuel', 'lowEndurance', 'arrivalBelowReserve']);
+export const debriefStatusEnum = pgEnum('debrief_status', DEBRIEF_STATUSES);
+export const flightPhaseEnum = pgEnum('flight_phase', PHASE_NAMES);
 
 // ---- accounts -------------------------------------------------------------------------------
 
@@ -447,7 +452,9 @@ export const flightNotes = pgTable(
 		authorId: text().references(() => users.id, { onDelete: 'set null' }),
 		t: tstz(),
 		body: text().notNull(),
-		createdAt: tstz().notNull().defaultNow()
+		createdAt: tstz().notNull().defaultNow(),
+		/** Last edit of the body or the moment; null when never edited. */
+		editedAt: tstz()
 	},
 	(t) => [index().on(t.flightId, t.createdAt)]
 );
@@ -506,3 +513,142 @@ export const watches = pgTable(
 	]
 );
 export type Watch = typeof watches.$inferSelect;
+
+// ---- fuel plans and debriefs -----------------------------------------------------------------
+
+/**
+ * A pre-flight fuel plan (canonical units). Attached to one flight; the worked figures (time and
+ * fuel per leg, on board at each waypoint) are computed from it on every read, never stored.
+ */
+export const fuelPlans = pgTable(
+	'fuel_plans',
+	{
+		id: uuid().primaryKey().defaultRandom(),
+		orgId: uuid()
+			.notNull()
+			.references(() => organisations.id, { onDelete: 'cascade' }),
+		aircraftId: uuid()
+			.notNull()
+			.references(() => aircraft.id, { onDelete: 'cascade' }),
+		flightId: uuid().references(() => flights.id, { onDelete: 'cascade' }),
+		startOnBoardL: doublePrecision().notNull(),
+		taxiL: doublePrecision().notNull().default(0),
+		climbL: doublePrecision().notNull().default(0),
+		reserveRule: text().notNull(),
+		reserveCustomMin: doublePrecision(),
+		/** Normal-cruise flow for the reserve, L/h. */
+		reserveFlowLph: doublePrecision(),
+		tolerancePercent: doublePrecision().notNull(),
+		legs: jsonb().$type<PlanLeg[]>().notNull(),
+		createdBy: text().references(() => users.id, { onDelete: 'set null' }),
+		createdAt: tstz().notNull().defaultNow(),
+		updatedAt: tstz().notNull().defaultNow()
+	},
+	(t) => [uniqueIndex().on(t.flightId), index().on(t.aircraftId)]
+);
+export type FuelPlanRow = typeof fuelPlans.$inferSelect;
+
+/** The instructor's debrief of a flight: a summary, the sign-off, and whether the student sees it. */
+export const debriefs = pgTable('debriefs', {
+	flightId: uuid()
+		.primaryKey()
+		.references(() => flights.id, { onDelete: 'cascade' }),
+	status: debriefStatusEnum().notNull().default('draft'),
+	summary: text().notNull().default(''),
+	signedOffBy: text().references(() => users.id, { onDelete: 'set null' }),
+	signedOffAt: tstz(),
+	publishedAt: tstz(),
+	updatedAt: tstz().notNull().defaultNow()
+});
+export type DebriefRow = typeof debriefs.$inferSelect;
+
+/** Read-only links to a debrief for someone without an account (token stored only as a hash). */
+export const debriefShares = pgTable(
+	'debrief_shares',
+	{
+		id: uuid().primaryKey().defaultRandom(),
+		flightId: uuid()
+			.notNull()
+			.references(() => flights.id, { onDelete: 'cascade' }),
+		tokenHash: text().notNull().unique(),
+		createdBy: text().references(() => users.id, { onDelete: 'set null' }),
+		createdAt: tstz().notNull().defaultNow(),
+		expiresAt: tstz().notNull(),
+		revokedAt: tstz()
+	},
+	(t) => [index().on(t.flightId)]
+);
+export type DebriefShare = typeof debriefShares.$inferSelect;
+
+// ---- stored per-flight figures (the owner's history) -----------------------------------------
+
+/**
+ * A closed flight's headline figures as typed columns, so an aircraft's history (1,000 flights)
+ * sorts and pages in SQL without reading samples or jsonb. Derived: written by recomputeSummary
+ * in the transaction of every input change, deleted with the flight; no row while a flight is open.
+ */
+export const flightFigures = pgTable('flight_figures', {
+	flightId: uuid()
+		.primaryKey()
+		.references(() => flights.id, { onDelete: 'cascade' }),
+	engineTimeS: doublePrecision().notNull(),
+	fuelUsedL: doublePrecision().notNull(),
+	/** Fuel used ÷ engine time, L/h; null when the engine never ran. */
+	fuelPerEngineHourLph: doublePrecision(),
+	/** Cruise distance ÷ cruise fuel, NM per litre; null without cruise fuel. */
+	cruiseSpecificRangeNmPerL: doublePrecision(),
+	/** The meter factor the figures were computed with. */
+	meterFactor: doublePrecision().notNull(),
+	gapCount: integer().notNull(),
+	gapTimeS: doublePrecision().notNull(),
+	/** Leaning moments found in cruise (fuel/leaning.ts), for the high-burn finder's causes. */
+	leaningMoments: integer().notNull()
+});
+export type FlightFiguresRow = typeof flightFigures.$inferSelect;
+
+/** The same flight per phase: time, fuel, distance and average flow (fuel ÷ time). */
+export const flightPhaseFigures = pgTable(
+	'flight_phase_figures',
+	{
+		flightId: uuid()
+			.notNull()
+			.references(() => flights.id, { onDelete: 'cascade' }),
+		phase: flightPhaseEnum().notNull(),
+		timeS: doublePrecision().notNull(),
+		fuelL: doublePrecision().notNull(),
+		distanceNm: doublePrecision().notNull(),
+		/** L/h; null when the phase took no time. */
+		averageFlowLph: doublePrecision()
+	},
+	(t) => [primaryKey({ columns: [t.flightId, t.phase] })]
+);
+export type FlightPhaseFiguresRow = typeof flightPhaseFigures.$inferSelect;
+
+/**
+ * The owner's settings for the high-burn finder: how far over usual a phase may burn before the
+ * flight is marked (null = our default), and per phase a usual flow set by hand (null = learned
+ * from the aircraft's own recent flights).
+ */
+export const aircraftBurnSettings = pgTable('aircraft_burn_settings', {
+	aircraftId: uuid()
+		.primaryKey()
+		.references(() => aircraft.id, { onDelete: 'cascade' }),
+	thresholdPercent: doublePrecision(),
+	manualTaxiLph: doublePrecision(),
+	manualClimbLph: doublePrecision(),
+	manualCruiseLph: doublePrecision(),
+	manualDescentLph: doublePrecision(),
+	updatedBy: text().references(() => users.id, { onDelete: 'set null' }),
+	updatedAt: tstz().notNull().defaultNow()
+});
+export type AircraftBurnSettings = typeof aircraftBurnSettings.$inferSelect;
+
+/** A flight the owner marked as unusual (a ferry, a test flight): left out of the learned baseline. */
+export const flightUnusualMarks = pgTable('flight_unusual_marks', {
+	flightId: uuid()
+		.primaryKey()
+		.references(() => flights.id, { onDelete: 'cascade' }),
+	reason: text().notNull().default(''),
+	markedBy: text().references(() => users.id, { onDelete: 'set null' }),
+	markedAt: tstz().notNull().defaultNow()
+});

@@ -74,3 +74,13 @@ export async function removeNote(flight: Pick<Flight, 'id'>, noteId: string, use
 	if (gone.length === 0) return { ok: false, field: 'id', message: 'That note is not yours to remove, or it is gone already.' };
 	return { ok: true };
 }
+
+/** Authors edit their own notes (text and moment); whoever may edit any flight may edit any note. */
+export async function editNote(flight: Pick<Flight, 'id'>, noteId: string, input: NoteInput, userId: string, mayEditAny: boolean): Promise<EditResult> {
+	const where = mayEditAny
+		? and(eq(flightNotes.id, noteId), eq(flightNotes.flightId, flight.id))
+		: and(eq(flightNotes.id, noteId), eq(flightNotes.flightId, flight.id), eq(flightNotes.authorId, userId));
+	const done = await db.update(flightNotes).set({ body: input.body, t: input.at, editedAt: new Date() }).where(where).returning({ id: flightNotes.id });
+	if (done.length === 0) return { ok: false, field: 'id', message: 'That note is not yours to change, or it is gone.' };
+	return { ok: true };
+}

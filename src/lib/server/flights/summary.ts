@@ -6,6 +6,7 @@ import { and, asc, desc, eq, isNotNull, sql } from 'drizzle-orm';
 import { computeFlight, summarize, type FlightComputation, type FlightSummary } from '$lib/fuel';
 import { db } from '../db';
 import { aircraft, flights } from '../db/schema';
+import { storeComputedFigures } from './figures';
 import { loadFlight, type LoadedFlight, type Queryable } from './load';
 
 export function computeLoaded(f: LoadedFlight): { computation: FlightComputation; summary: FlightSummary } {
@@ -21,8 +22,11 @@ export function computeLoaded(f: LoadedFlight): { computation: FlightComputation
 export async function recomputeSummary(flightId: string, q: Queryable = db): Promise<FlightSummary | null> {
 	const loaded = await loadFlight(flightId, q);
 	if (!loaded) return null;
-	const summary = loaded.flight.status === 'closed' ? computeLoaded(loaded).summary : null;
+	const computed = loaded.flight.status === 'closed' ? computeLoaded(loaded) : null;
+	const summary = computed?.summary ?? null;
 	await q.update(flights).set({ summary, updatedAt: new Date() }).where(eq(flights.id, flightId));
+	// The history's typed per-flight and per-phase figures, from this same computation.
+	await storeComputedFigures(flightId, computed, loaded.input.columns, loaded.input.profile.meterFactor, q);
 	await refreshLastOnBoard(loaded.flight.aircraftId, q);
 	return summary;
 }

@@ -43,6 +43,7 @@ import { db as poolDb, pool } from '../db';
 import { uploadConnections } from '../limits';
 import * as schema from '../db/schema';
 import { aircraft as aircraftTable, flights, importProfiles, uploads, type Aircraft, type ImportProfile } from '../db/schema';
+import { storeComputedFigures } from '../flights/figures';
 import { SAMPLE_COPY_COLUMNS, SampleCopyEncoder, chunkTuple, copyHeader, copyTrailer, writeWithBackpressure } from './binary-copy';
 import type { DeclarationInput } from './declaration';
 
@@ -431,7 +432,8 @@ async function ingestSpooled(req: IngestRequest, profiles: Profile[], spool: Fil
 		progress({ phase: 'storing', step: 'summary', rows });
 		// Earlier flights only, committed before this upload: read outside this transaction.
 		const recent = await recentCruiseFlowLph(ac.id, { id: flightId, startedAt: first });
-		const computation = computeFlight({ columns: columns.columns(), ...engineInputsOf(fuelSetupOf(ac, recent), { declaration, previousOnBoardL }, []) });
+		const flightColumns = columns.columns();
+		const computation = computeFlight({ columns: flightColumns, ...engineInputsOf(fuelSetupOf(ac, recent), { declaration, previousOnBoardL }, []) });
 		const flightSummary = summarize(computation);
 		const warnings = [...computation.warnings.map((w) => w.message), ...computation.problems.slice(0, 10).map((p) => p.message)];
 
@@ -479,6 +481,8 @@ async function ingestSpooled(req: IngestRequest, profiles: Profile[], spool: Fil
 				updatedAt: new Date()
 			})
 			.where(eq(flights.id, flightId));
+		// The history's per-flight and per-phase figures, as recomputeSummary stores them.
+		await storeComputedFigures(flightId, { computation, summary: flightSummary }, flightColumns, ac.meterFactor, db);
 		if (newest && flightSummary.onBoardAtShutdownL !== null)
 			await db.update(aircraftTable).set({ lastOnBoardL: flightSummary.onBoardAtShutdownL, updatedAt: new Date() }).where(eq(aircraftTable.id, a.id));
 

@@ -4,11 +4,13 @@ import { recentCruiseFlowLph } from '$lib/server/flights/recent-cruise';
 import { mayOnFlight, requireFlight } from '$lib/server/access';
 import { db } from '$lib/server/db';
 import { aircraft, flightNotes, users, type Flight } from '$lib/server/db/schema';
-import { addFuelEvent, addNote, removeFuelEvent, removeNote, saveDeclaration } from '$lib/server/flights/edit';
+import { addFuelEvent, addNote, editNote, removeFuelEvent, removeNote, saveDeclaration } from '$lib/server/flights/edit';
+import { planOfFlight } from '$lib/server/plans';
+import { debriefOf } from '$lib/server/debriefs';
 import { listCorrections } from '$lib/server/flights/corrections';
 import { loadEvents } from '$lib/server/flights/load';
 import { can } from '$lib/permissions';
-import { declarationFormSchema, declarationFormValues, fuelEventFormSchema, idFormSchema, noteFormSchema, reasonFormSchema } from '$lib/schemas/flight';
+import { declarationFormSchema, declarationFormValues, fuelEventFormSchema, idFormSchema, noteEditFormSchema, noteFormSchema, reasonFormSchema } from '$lib/schemas/flight';
 import { failForm, parseForm } from '$lib/schemas/form';
 import type { Declaration } from '$lib/fuel';
 import type { Actions, PageServerLoad } from './$types';
@@ -24,16 +26,18 @@ async function aircraftOf(flight: Flight) {
 export const load = (async (event) => {
 	const ctx = await requireFlight(event, event.params.org, event.params.id, 'view');
 	const { flight, user, role } = ctx;
-	const [a, events, corrections, notes] = await Promise.all([
+	const [a, events, corrections, notes, plan, debrief] = await Promise.all([
 		aircraftOf(flight),
 		loadEvents(flight.id),
 		listCorrections(flight.id),
 		db
-			.select({ id: flightNotes.id, t: flightNotes.t, body: flightNotes.body, createdAt: flightNotes.createdAt, authorId: flightNotes.authorId, author: users.name })
+			.select({ id: flightNotes.id, t: flightNotes.t, body: flightNotes.body, createdAt: flightNotes.createdAt, editedAt: flightNotes.editedAt, authorId: flightNotes.authorId, author: users.name })
 			.from(flightNotes)
 			.leftJoin(users, eq(users.id, flightNotes.authorId))
 			.where(eq(flightNotes.flightId, flight.id))
-			.orderBy(asc(flightNotes.createdAt))
+			.orderBy(asc(flightNotes.createdAt)),
+		planOfFlight(flight.id),
+		debriefOf(flight.id)
 	]);
 	const people = [flight.pilotId, flight.instructorId].filter((x): x is string => x !== null);
 	const names = people.length ? await db.select({ id: users.id, name: users.name }).from(users).where(inArray(users.id, people)) : [];
@@ -60,6 +64,8 @@ export const load = (async (event) => {
 		events: events.map((e) => ({ id: e.id, t: e.t.getTime() / 1000, kind: e.kind, amountL: e.amountL, note: e.note })),
 		notes,
 		corrections,
+		plan,
+		debriefStatus: debrief.status,
 		declarationValues: declarationFormValues(flight.declaration as Declaration, flight.previousOnBoardL, unit, a.densityKgPerL),
 		unit,
 		may: {
@@ -109,6 +115,14 @@ export const actions = {
 		if (!form.ok) return failForm(400, form.errors, form.values, 'addNote');
 		await addNote(flight, form.data, user.id);
 		return { action: 'addNote', saved: true };
+	},
+	editNote: async (event) => {
+		const { flight, user, role } = await requireFlight(event, event.params.org, event.params.id, 'annotate');
+		const form = parseForm(noteEditFormSchema, await event.request.formData());
+		if (!form.ok) return failForm(400, form.errors, form.values, 'editNote');
+		const done = await editNote(flight, form.data.id, form.data, user.id, can(role, 'editAnyFlight'));
+		if (!done.ok) return failForm(404, { [done.field]: done.message }, form.values, 'editNote');
+		return { action: 'editNote', saved: true };
 	},
 	removeNote: async (event) => {
 		const { flight, user, role } = await requireFlight(event, event.params.org, event.params.id, 'annotate');

@@ -1,0 +1,59 @@
+// What crosses the network about fuel plans and debriefs: the stored plan as the pages and the
+// API send it (canonical units), and the lists of values the schema, the forms and the UI share.
+import type { FlightSummary, PlanLeg, ReserveRuleId } from '$lib/fuel';
+import type { PlanReport } from '$lib/plan-report';
+
+/** A stored fuel plan, canonical units (litres, L/h, NM, kt, minutes). */
+export interface FuelPlanWire {
+	id: string;
+	flightId: string | null;
+	startOnBoardL: number;
+	taxiL: number;
+	climbL: number;
+	reserveRule: ReserveRuleId;
+	reserveCustomMin: number | null;
+	reserveFlowLph: number | null;
+	tolerancePercent: number;
+	legs: PlanLeg[];
+	updatedAt: string;
+}
+
+/** A debrief's life: written by the instructor, then published to the student. */
+export const DEBRIEF_STATUSES = ['draft', 'published'] as const;
+export type DebriefStatus = (typeof DEBRIEF_STATUSES)[number];
+
+/** Where a plan's legs can come from besides the form. */
+export const PLAN_IMPORT_FORMATS = ['csv', 'gpx'] as const;
+export type PlanImportFormat = (typeof PLAN_IMPORT_FORMATS)[number];
+
+export interface DebriefNote {
+	id: string;
+	t: Date | null;
+	body: string;
+	author: string | null;
+	authorId: string | null;
+	createdAt: Date;
+	editedAt: Date | null;
+}
+
+export interface DebriefView {
+	status: DebriefStatus;
+	summaryText: string;
+	signedOffBy: string | null;
+	signedOffAt: Date | null;
+	publishedAt: Date | null;
+}
+
+export interface DebriefReport {
+	flight: { id: string; title: string; startedAt: Date; endedAt: Date | null; pilotId: string | null; pilot: string | null; instructor: string | null };
+	aircraft: { registration: string; type: string; displayUnit: string; densityKgPerL: number; reserveRule: string; reserveCustomMin: number | null };
+	summary: FlightSummary;
+	plan: PlanReport | null;
+	/** The plan's route, waypoint ids in order: "CAIRNS – SALTMR – …". */
+	route: string | null;
+	notes: DebriefNote[];
+	debrief: DebriefView;
+	/** Fuel on board through the flight, thinned for a printed chart: epoch s and litres. */
+	chart: { t: number[]; onBoardL: number[] };
+}
+
