@@ -12,6 +12,7 @@ export const PUBLIC_ROUTES: ReadonlyMap<string, string> = new Map([
 	['/reset-password', 'asking for a reset link'],
 	['/reset-password/[token]', 'the link itself is the credential'],
 	['/invite/[token]', 'the link shows whom it invites; accepting calls requireUser'],
+	['/share/[token]', 'the read-only link to a debrief: the token is the credential (stored only as a hash)'],
 	['/caution', 'what Burndown is and is not: advisory only'],
 	['/dev/mailbox', 'demo mode only (404 otherwise); its own rule in its load'],
 	['/api/health', 'liveness for the harness and load balancers; reveals only "up"']
