@@ -3,8 +3,8 @@
 /** 1.75 → "1:45"; NaN → "—". */
 export function hoursText(h: number): string {
 	if (!Number.isFinite(h)) return '—';
-	const sign = h < 0 ? '−' : '';
 	const total = Math.round(Math.abs(h) * 60);
+	const sign = h < 0 && total > 0 ? '−' : '';
 	return `${sign}${Math.floor(total / 60)}:${String(total % 60).padStart(2, '0')}`;
 }
 
