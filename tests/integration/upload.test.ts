@@ -5,7 +5,7 @@ import { createHash } from 'node:crypto';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { asc, count, eq } from 'drizzle-orm';
 import { db, pool } from '$lib/server/db';
-import { aircraft, flights, samples, uploadChunks, uploads } from '$lib/server/db/schema';
+import { aircraft, flightFigures, flightPhaseFigures, flights, samples, uploadChunks, uploads } from '$lib/server/db/schema';
 import { LITRES_PER_US_GALLON } from '$lib/units';
 import { readUploadOriginal } from '$lib/server/ingest/ingest';
 import { recomputeSummary } from '$lib/server/flights/summary';
@@ -189,5 +189,17 @@ describe('script paths', () => {
 		expect(reading.length).toBeGreaterThan(0);
 		expect(reading.at(-1)).toMatchObject({ bytes: Buffer.byteLength(file), rows: 20_001 });
 		expect(lines.filter((l) => l.phase === 'storing').map((l) => l.step)).toEqual(['checks', 'summary', 'original', 'flight', 'commit']);
+	});
+	it('stores the history figures per flight and phase with the upload, from its own summary', async () => {
+		const file = steadyFile({ start: Date.UTC(2026, 3, 8, 10), seconds: 3600, flowUsgph: 6 });
+		const res = await upload(club.pilot, { aircraftId: club.trainer.id, file });
+		expect(res.status).toBe(201);
+		const [f] = await db.select({ id: flights.id, summary: flights.summary }).from(flights).where(eq(flights.id, res.body.flightId));
+		const summary = f.summary as { fuelUsedL: number; engineTimeS: number; phases: { name: string; fuelL: number }[] };
+		const [fig] = await db.select().from(flightFigures).where(eq(flightFigures.flightId, f.id));
+		expect(fig.fuelUsedL).toBeCloseTo(summary.fuelUsedL, 9);
+		expect(fig.engineTimeS).toBeCloseTo(summary.engineTimeS, 9);
+		const phases = await db.select().from(flightPhaseFigures).where(eq(flightPhaseFigures.flightId, f.id));
+		expect(phases.map((p) => p.phase).sort()).toEqual(summary.phases.map((p) => p.name).sort());
 	});
 });
