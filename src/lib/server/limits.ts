@@ -108,26 +108,24 @@ export class Semaphore {
 	async acquire(): Promise<() => void> {
 		if (this.held >= this.limit()) await new Promise<void>((resolve) => this.waiting.push(resolve));
 		else this.held++;
-		let released = false;
-		return () => {
-			if (released) return;
-			released = true;
-			const next = this.waiting.shift();
-			// The place passes straight to the next waiter.
-			if (next) next();
-			else this.held--;
-		};
+		return this.releaser();
 	}
 
 	/** A place now, or null when all are taken (for answering 429 instead of waiting). */
 	tryAcquire(): (() => void) | null {
 		if (this.held >= this.limit()) return null;
 		this.held++;
+		return this.releaser();
+	}
+
+	/** Gives the place back once, however often it is called. */
+	private releaser(): () => void {
 		let released = false;
 		return () => {
 			if (released) return;
 			released = true;
 			const next = this.waiting.shift();
+			// The place passes straight to the next waiter.
 			if (next) next();
 			else this.held--;
 		};
