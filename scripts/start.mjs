@@ -94,6 +94,9 @@ async function main() {
 	let t = now();
 	await runOk('migrations (scripts/migrate.ts)', bin('tsx'), ['scripts/migrate.ts'], { env });
 	info(`migrations done (${seconds(t)})`);
+	t = now();
+	await runOk('stored figures (scripts/refresh-derived.ts)', bin('tsx'), ['scripts/refresh-derived.ts'], { env });
+	info(`stored figures checked (${seconds(t)})`);
 
 	if (fs.existsSync(inRoot('scripts', 'seed.ts'))) {
 		t = now();

@@ -360,6 +360,11 @@ export const flights = pgTable(
 		lastSampleAt: tstz(),
 		/** Cached flight summary for lists; recomputed whenever samples or fuel inputs change. */
 		summary: jsonb(),
+		/**
+		 * The version of the derivation (DERIVED_VERSION in server/flights/summary.ts) that wrote
+		 * summary and the history figures; older rows are recomputed at start (flights/refresh.ts).
+		 */
+		derivedVersion: integer().notNull().default(0),
 		createdAt: tstz().notNull().defaultNow(),
 		updatedAt: tstz().notNull().defaultNow()
 	},

@@ -9,6 +9,14 @@ import { aircraft, flights } from '../db/schema';
 import { storeComputedFigures } from './figures';
 import { loadFlight, type LoadedFlight, type Queryable } from './load';
 
+/**
+ * The version of how stored figures are derived. Raise it with any change to the engine or to
+ * what recomputeSummary stores that changes a stored figure: flights written by an older version
+ * are recomputed once at start (refreshStaleFlights in ./refresh.ts), so no list, history or
+ * export keeps figures the replay would no longer show.
+ */
+export const DERIVED_VERSION = 1;
+
 export function computeLoaded(f: LoadedFlight): { computation: FlightComputation; summary: FlightSummary } {
 	const computation = computeFlight(f.input);
 	return { computation, summary: summarize(computation) };
@@ -24,7 +32,7 @@ export async function recomputeSummary(flightId: string, q: Queryable = db): Pro
 	if (!loaded) return null;
 	const computed = loaded.flight.status === 'closed' ? computeLoaded(loaded) : null;
 	const summary = computed?.summary ?? null;
-	await q.update(flights).set({ summary, updatedAt: new Date() }).where(eq(flights.id, flightId));
+	await q.update(flights).set({ summary, derivedVersion: DERIVED_VERSION, updatedAt: new Date() }).where(eq(flights.id, flightId));
 	// The history's typed per-flight and per-phase figures, from this same computation.
 	await storeComputedFigures(flightId, computed, loaded.input.columns, loaded.input.profile.meterFactor, q);
 	await refreshLastOnBoard(loaded.flight.aircraftId, q);
