@@ -7,7 +7,12 @@ import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { eq } from 'drizzle-orm';
 import { db } from '../src/lib/server/db';
-import { aircraft, flights } from '../src/lib/server/db/schema';
+import { aircraft, flights, recorders } from '../src/lib/server/db/schema';
+import { parseRecorderText } from '../src/lib/csv';
+import type { Declaration } from '../src/lib/fuel';
+import { closeByRecorder, openByRecorder } from '../src/lib/server/live/flights';
+import { ingestBatch } from '../src/lib/server/live/ingest';
+import { backgroundSettled } from '../src/lib/server/mail';
 import { ingestRecorderFile } from '../src/lib/server/ingest/ingest';
 import type { DeclarationInput } from '../src/lib/server/ingest/declaration';
 import { addFuelEvent, addNote } from '../src/lib/server/flights/edit';
@@ -27,6 +32,12 @@ interface DemoFlight {
 	declaration: DeclarationInput;
 	/** A refuel entered after landing, at a time during a stop (UTC). */
 	refuel?: { at: string; kind: 'toFull' | 'toLower'; note: string };
+	/**
+	 * Followed live rather than uploaded: the file goes through the live ingest path, in batches
+	 * as the recorder would send them, so its alarms are raised and e-mailed to the watchers
+	 * (DEMO.watches) exactly as in flight.
+	 */
+	liveRecorderId?: string;
 }
 
 // Oldest first, so each upload is the aircraft's newest and "unchanged" follows the last one.
@@ -44,25 +55,63 @@ const FLIGHTS: DemoFlight[] = [
 	},
 	{ file: 'kestrel-trainer-merrow-leaned.csv', registration: 'BD-KTR', pilot: 'demo-pilot', title: 'Merrow and back, leaned in cruise', declaration: { kind: 'full', amount: null } },
 	{ file: 'kestrel-trainer-merrow-rich.csv', registration: 'BD-KTR', pilot: 'demo-pilot', title: 'Merrow and back, never leaned', declaration: { kind: 'full', amount: null } },
-	// Lands below its 30 min reserve: the verdict, the flights list and the alarm say so.
-	{ file: 'kestrel-trainer-long-way-round.csv', registration: 'BD-KTR', pilot: 'demo-student', instructor: 'demo-instructor', title: 'The long way round against a headwind, filled to the tabs', declaration: { kind: 'lower', amount: null } }
+	// Lands below its 30 min reserve: the verdict, the flights list, the alarm and the instructor's
+	// alarm e-mail say so. Followed live, as the trainer's recorder sent it.
+	{
+		file: 'kestrel-trainer-long-way-round.csv',
+		registration: 'BD-KTR',
+		pilot: 'demo-student',
+		instructor: 'demo-instructor',
+		title: 'The long way round against a headwind, filled to the tabs',
+		declaration: { kind: 'lower', amount: null },
+		liveRecorderId: '9c7e5b10-3a2d-4e8f-b1c4-000000000002'
+	}
 ];
+
+/** Samples per batch, about what a recorder sends each minute at 1 Hz. */
+const LIVE_BATCH = 60;
+
+/**
+ * A demo flight through the live path: opened by its recorder with the pilot and the declaration,
+ * sent in batches, closed. Alarm e-mails go out in the background; the caller waits for them.
+ */
+async function followLive(f: DemoFlight, recorderId: string): Promise<string> {
+	const recorder = await db.query.recorders.findFirst({ where: eq(recorders.id, recorderId) });
+	if (!recorder) throw new Error(`demo recorder ${recorderId} is missing`);
+	const pilot = DEMO.users.find((u) => u.id === f.pilot);
+	if (!pilot) throw new Error(`demo pilot ${f.pilot} is missing`);
+	const parsed = await parseRecorderText(fs.readFileSync(path.join(samplesDir, f.file), 'utf8'), null, { densityKgPerL: 0.72 });
+	if (!parsed.ok) throw new Error(`demo flight ${f.file} does not parse: ${parsed.problems[0]?.message}`);
+	const { flight } = await openByRecorder(recorder, { declaration: { kind: f.declaration.kind } as Declaration, pilot: pilot.email, title: f.title });
+	const rows = parsed.rows;
+	for (let from = 0; from < rows.length; from += LIVE_BATCH) {
+		const samples = rows.slice(from, from + LIVE_BATCH).map(({ line: _line, ...r }, i) => ({ ...r, seq: from + i }));
+		await ingestBatch(recorder, { flightId: flight.id, firstSeq: 0, samples });
+	}
+	await closeByRecorder(recorder, flight.id);
+	return flight.id;
+}
 
 export async function loadDemoFlights(): Promise<number> {
 	let stored = 0;
 	for (const f of FLIGHTS) {
 		const a = await db.query.aircraft.findFirst({ where: eq(aircraft.registration, f.registration) });
 		if (!a || a.orgId !== DEMO_ORG_ID) throw new Error(`demo aircraft ${f.registration} is missing`);
-		const result = await ingestRecorderFile({
-			orgId: a.orgId,
-			aircraft: a,
-			userId: f.pilot,
-			fileName: f.file,
-			source: fs.createReadStream(path.join(samplesDir, f.file)),
-			declaration: f.declaration,
-			title: f.title
-		});
-		if (result.status !== 'stored') throw new Error(`demo flight ${f.file} was not stored (${result.status}): ${result.message}`);
+		let result: { flightId: string };
+		if (f.liveRecorderId) result = { flightId: await followLive(f, f.liveRecorderId) };
+		else {
+			const uploaded = await ingestRecorderFile({
+				orgId: a.orgId,
+				aircraft: a,
+				userId: f.pilot,
+				fileName: f.file,
+				source: fs.createReadStream(path.join(samplesDir, f.file)),
+				declaration: f.declaration,
+				title: f.title
+			});
+			if (uploaded.status !== 'stored') throw new Error(`demo flight ${f.file} was not stored (${uploaded.status}): ${uploaded.message}`);
+			result = uploaded;
+		}
 		if (f.instructor) await db.update(flights).set({ instructorId: f.instructor }).where(eq(flights.id, result.flightId));
 		if (f.refuel) {
 			const flight = (await db.query.flights.findFirst({ where: eq(flights.id, result.flightId) }))!;
@@ -91,5 +140,7 @@ export async function loadDemoFlights(): Promise<number> {
 		}
 		stored++;
 	}
+	// The alarm e-mails of the flight followed live, sent before the seed's connection closes.
+	await backgroundSettled();
 	return stored;
 }

@@ -116,8 +116,17 @@ export const DEMO = {
 			name: 'Panel recorder (tourer)',
 			// A fixed token so the demo can print a ready simulator command. Demo data only.
 			token: 'bdr_demo_kestrel_tourer_0001'
+		},
+		{
+			id: '9c7e5b10-3a2d-4e8f-b1c4-000000000002',
+			orgId: DEMO_ORG_ID,
+			aircraftId: '6f1d2a40-0c1b-4c55-8f4e-7d1a00000001',
+			name: 'Panel recorder (trainer)',
+			token: 'bdr_demo_kestrel_trainer_0002'
 		}
 	],
+	/** The instructor watches the trainer: its alarms reach her by e-mail. */
+	watches: [{ userId: 'demo-instructor', aircraftId: '6f1d2a40-0c1b-4c55-8f4e-7d1a00000001' }],
 	/**
 	 * The student's fuel plan for the solo cross-country (US gal, kt, NM; waypoint ids as the
 	 * recorder reports them). The leg to FENWAY is planned at cruise flow, but the climb out of

@@ -3,7 +3,7 @@
 // Loads only into an empty database; always prints the demo sign-ins and a simulator command.
 import { count, eq } from 'drizzle-orm';
 import { closeDb, db } from '../src/lib/server/db';
-import { aircraft, memberships, organisations, recorders, users } from '../src/lib/server/db/schema';
+import { aircraft, memberships, organisations, recorders, users, watches } from '../src/lib/server/db/schema';
 import { hashPassword } from '../src/lib/server/auth';
 import { hashToken } from '../src/lib/server/tokens';
 import { toLitres, defaultDensityKgPerL } from '../src/lib/units';
@@ -50,6 +50,7 @@ async function load(): Promise<void> {
 		for (const r of DEMO.recorders) {
 			await tx.insert(recorders).values({ id: r.id, orgId: r.orgId, aircraftId: r.aircraftId, name: r.name, tokenHash: hashToken(r.token), tokenHint: r.token.slice(0, 12) });
 		}
+		for (const w of DEMO.watches) await tx.insert(watches).values(w);
 	});
 	const flights = await loadDemoFlights();
 	console.log(`seed: loaded ${DEMO.users.length} users, ${DEMO.aircraft.length} aircraft, ${flights} flights`);

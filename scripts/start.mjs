@@ -98,6 +98,8 @@ async function main() {
 	await runOk('stored figures (scripts/refresh-derived.ts)', bin('tsx'), ['scripts/refresh-derived.ts'], { env });
 	info(`stored figures checked (${seconds(t)})`);
 
+	// The seed sends mail (the demo flight followed live e-mails its alarms): the sink must answer.
+	await sinkReady;
 	if (fs.existsSync(inRoot('scripts', 'seed.ts'))) {
 		t = now();
 		await runOk('demo data (scripts/seed.ts)', bin('tsx'), ['scripts/seed.ts'], { env });
@@ -106,7 +108,6 @@ async function main() {
 		warn('scripts/seed.ts is missing: no demo data loaded');
 	}
 
-	await sinkReady;
 	const watchdog = ['--import', pathToFileURL(inRoot('scripts', 'lib', 'exit-with-parent.mjs')).href];
 	let app;
 	if (opts.dev) {

@@ -1,15 +1,19 @@
-// Every reserve statement on the replay page agrees, with each other and with the fuel engine:
-// the demo flight that lands below its reserve (14 CFR 91.151(a)(1): 30 min at normal cruise) is
-// found by the flights list's verdict filter, then scrubbed, and at several moments the waypoint
-// card's state and margin, the "reserve reached" tile, the reserve amount line and the alarm
-// pills are read and compared; the summary's verdict says "landed below the reserve".
+// Every reserve statement on the replay and live pages agrees, with each other and with the fuel
+// engine: the demo flight that lands below its reserve (14 CFR 91.151(a)(1): 30 min at normal
+// cruise) is found by the flights list's verdict filter, then scrubbed, and at several moments the
+// waypoint card's state and margin, the "reserve reached" tile, the reserve amount line and the
+// alarm pills are read and compared; the summary's verdict says "landed below the reserve". The
+// same recording then arrives live through the trainer's recorder, and the live page, scrubbed the
+// same way while the flight is still open, must say what the engine says over the same samples.
+import { spawn } from 'node:child_process';
+import path from 'node:path';
 import { expect, test, type Page } from '@playwright/test';
 import { ALARM_ARRIVAL_BELOW_RESERVE, ARRIVAL_EATS_INTO, ARRIVAL_KEEPS, ARRIVAL_RUNS_OUT, computeFlight, summarize, type FlightComputation } from '../../src/lib/fuel';
 import { engineInputsOf } from '../../src/lib/flight-inputs';
 import { alarmLabels, arrivalWords } from '../../src/lib/components/replay/labels';
 import { decodeJson, type JsonPayload } from '../../src/lib/components/replay/payload';
 import { LITRES_PER_US_GALLON } from '../../src/lib/units';
-import { DEMO_ORG, DEMO_USERS, signIn } from './support';
+import { DEMO_ORG, DEMO_USERS, ORIGIN, signIn } from './support';
 
 const TITLE = 'The long way round against a headwind, filled to the tabs';
 const gal = (litres: number) => litres / LITRES_PER_US_GALLON;
@@ -50,6 +54,28 @@ async function checkMoment(page: Page, c: FlightComputation, seen: Set<number>) 
 	await expect(pill).toHaveCount(c.alarmState[i] & ALARM_ARRIVAL_BELOW_RESERVE ? 1 : 0);
 }
 
+/** Scrubs ten minutes a step through the page's flight, reading every statement at each other step. */
+async function scrubAndCheck(page: Page, c: FlightComputation): Promise<Set<number>> {
+	const range = page.getByTestId('scrub-range');
+	await range.focus();
+	await page.keyboard.press('Home');
+	const seen = new Set<number>();
+	for (let step = 0; step < 20; step++) {
+		await page.keyboard.press('PageUp');
+		if (step % 2 === 1) await checkMoment(page, c, seen);
+	}
+	await page.keyboard.press('End');
+	await checkMoment(page, c, seen);
+	return seen;
+}
+
+/** The engine over the samples, inputs and setup the page got for this flight. */
+async function engineOf(page: Page, flightId: string): Promise<FlightComputation> {
+	const body = (await (await page.request.get(`/api/v1/flights/${flightId}/samples`)).json()) as JsonPayload;
+	const d = decodeJson(body);
+	return computeFlight({ columns: d.columns, ...engineInputsOf(d.setup, d, d.events) });
+}
+
 test('every reserve statement on the replay page agrees with the others and with the engine', async ({ page }) => {
 	test.setTimeout(120_000);
 	await page.setViewportSize({ width: 1366, height: 1000 });
@@ -80,19 +106,50 @@ test('every reserve statement on the replay page agrees with the others and with
 	await expect(page.getByTestId('sum-reserve-reached')).toContainText('from');
 
 	// Scrub through the flight, ten minutes a step, and read every statement at each moment.
-	const range = page.getByTestId('scrub-range');
-	await range.focus();
-	await page.keyboard.press('Home');
-	const seen = new Set<number>();
-	for (let step = 0; step < 20; step++) {
-		await page.keyboard.press('PageUp');
-		if (step % 2 === 1) await checkMoment(page, c, seen);
-	}
-	await page.keyboard.press('End');
-	await checkMoment(page, c, seen);
+	const seen = await scrubAndCheck(page, c);
 	// The flight crosses the reserve: both sides were seen.
 	expect(seen.has(ARRIVAL_KEEPS)).toBe(true);
 	expect(seen.has(ARRIVAL_EATS_INTO) || seen.has(ARRIVAL_RUNS_OUT)).toBe(true);
 	// The arrival alarm was raised once in this flight.
 	expect(c.alarms.filter((a) => a.kind === 'arrivalBelowReserve')).toHaveLength(1);
+});
+
+// The trainer's demo recorder (scripts/demo-scenario.ts); the instructor watches the trainer.
+const TRAINER_RECORDER_TOKEN = 'bdr_demo_kestrel_trainer_0002';
+const RECORDING = path.resolve('samples/kestrel-trainer-long-way-round.csv');
+
+test('every reserve statement on the live page agrees with the others and with the engine, while the flight is open', async ({ page }) => {
+	test.setTimeout(180_000);
+	await page.setViewportSize({ width: 1366, height: 1000 });
+	// The whole recording, fast, moved to today (so it overlaps no stored flight), the flight kept open.
+	let log = '';
+	const sim = spawn(
+		path.resolve('node_modules/.bin/tsx'),
+		['scripts/simulate.ts', '--file', RECORDING, '--token', TRAINER_RECORDER_TOKEN, '--url', ORIGIN, '--speed', '1500', '--batch-ms', '400', '--declare', 'lower', '--now', '--keep-open'],
+		{ stdio: ['ignore', 'pipe', 'pipe'] }
+	);
+	sim.stdout?.on('data', (d) => (log += String(d)));
+	sim.stderr?.on('data', (d) => (log += String(d)));
+	const code = await new Promise<number | null>((resolve) => sim.on('exit', resolve));
+	expect(code, log).toBe(0);
+	const flightId = /flight ([0-9a-f-]{36}) open/.exec(log)?.[1];
+	expect(flightId, log).toBeTruthy();
+
+	try {
+		await signIn(page, DEMO_USERS.instructor);
+		await page.goto(`/o/${DEMO_ORG}/flights/${flightId}/live`);
+		await expect(page.getByTestId('live-status')).toHaveText(/live/);
+		const c = await engineOf(page, flightId!);
+		// Every sample has reached the page before it is read.
+		await expect(page.getByTestId('last-sample')).toContainText(`${c.length.toLocaleString('en-US')} samples`, { timeout: 30_000 });
+		const seen = await scrubAndCheck(page, c);
+		expect(seen.has(ARRIVAL_KEEPS)).toBe(true);
+		expect(seen.has(ARRIVAL_EATS_INTO) || seen.has(ARRIVAL_RUNS_OUT)).toBe(true);
+		// The live banner names the one arrival alarm the engine raised.
+		expect(c.alarms.filter((a) => a.kind === 'arrivalBelowReserve')).toHaveLength(1);
+		await expect(page.getByTestId('alarm-banner').filter({ hasText: alarmLabels.arrivalBelowReserve })).toHaveCount(1);
+	} finally {
+		// Leave the recorder with no open flight for the tests after this one.
+		await page.request.post('/api/v1/live/close', { headers: { authorization: `Bearer ${TRAINER_RECORDER_TOKEN}`, 'content-type': 'application/json' }, data: { flightId } });
+	}
 });

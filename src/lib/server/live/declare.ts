@@ -8,6 +8,7 @@ import { recordDeclarationChange, type Editor } from '../flights/corrections';
 import { recomputeSummary } from '../flights/summary';
 import { aircraft, flights } from '../db/schema';
 import { mailAlarms, syncAlarms, type NewAlarm } from './alarms';
+import { inBackground } from '../mail';
 import { computationFor, dropComputation } from './computation';
 import { lockFlight, notify } from './flights';
 
@@ -36,7 +37,10 @@ export async function setLiveDeclaration(flightId: string, declaration: Declarat
 		dropComputation(flightId);
 		throw error;
 	}
-	if (toMail.length > 0) void mailAlarms(flightId, toMail).catch((error) => console.error('[live] alarm mail failed:', error));
+	if (toMail.length > 0)
+		inBackground('live alarm mail', async () => {
+			await mailAlarms(flightId, toMail);
+		});
 }
 
 /**

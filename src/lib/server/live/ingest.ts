@@ -7,6 +7,7 @@ import { formatTimeMs } from '$lib/csv';
 import { db, type Tx } from '../db';
 import { flights, type Flight, type Recorder } from '../db/schema';
 import { mailAlarms, syncAlarms, type NewAlarm } from './alarms';
+import { inBackground } from '../mail';
 import type { Batch, BatchProblem } from './batch';
 import { computationFor, dropComputation } from './computation';
 import { activeAircraftOf, aircraftOf, createFlight, LiveRefusal, lockFlight, lockRecorder, notify, openFlightOf } from './flights';
@@ -143,7 +144,10 @@ export async function ingestBatch(recorder: Recorder, batch: Batch): Promise<Ack
 		if (toMail.length > 0) {
 			const id = ack.flightId;
 			const mails = toMail;
-			void mailAlarms(id, mails).catch((error) => console.error('[live] alarm mail failed:', error));
+			// After the answer, as every e-mail; backgroundSettled() waits for it (the demo seed does).
+			inBackground('live alarm mail', async () => {
+				await mailAlarms(id, mails);
+			});
 		}
 		return ack;
 	} catch (error) {
