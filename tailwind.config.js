@@ -9,8 +9,9 @@ const palette = {
 	// Avgas blue for the brand and interactive elements.
 	dye: { 300: '#8fb8ff', 400: '#5c95f5', 500: '#3a74e0', 600: '#2a5cc0', 700: '#21489a' },
 	// Status: steady, watch, act.
-	steady: { 400: '#3fbf9a', 600: '#1e8c6d' },
-	watch: { 400: '#f2b33d', 600: '#b97a06' },
+	// The 600s are text on white in the day theme: at least 4.5:1 (WCAG 2.2, 1.4.3).
+	steady: { 400: '#3fbf9a', 600: '#17735a' },
+	watch: { 400: '#f2b33d', 600: '#8f5e00' },
 	act: { 400: '#f26b5b', 600: '#c43a2b' }
 };
 
