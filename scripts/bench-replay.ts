@@ -11,7 +11,7 @@ import { scratchDatabase, startBenchApp } from './lib/bench-app';
 import { hashToken, newToken } from '../src/lib/server/tokens';
 import { computeFlight, summarize } from '../src/lib/fuel';
 import { engineInputsOf } from '../src/lib/flight-inputs';
-import { decodeBinary, decodeJson, type JsonPayload } from '../src/lib/components/replay/payload';
+import { decodeBinary, decodeJson, type JsonPayload } from '../src/lib/wire/replay';
 import { downsampleMinMax } from '../src/lib/components/replay/series';
 import { generateFlight, insertFlight, PROFILE_OVERHEAD_S } from '../tests/integration/replay-fixture';
 

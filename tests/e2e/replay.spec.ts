@@ -6,7 +6,7 @@ import pg from 'pg';
 import { expect, test, type Page } from '@playwright/test';
 import { computeFlight, type FlightComputation } from '../../src/lib/fuel';
 import { engineInputsOf, fuelSetupOf, type AircraftFuelSetup } from '../../src/lib/flight-inputs';
-import { arrivalWords } from '../../src/lib/components/replay/labels';
+import { arrivalWords } from '../../src/lib/labels';
 import { LITRES_PER_US_GALLON } from '../../src/lib/units';
 import { generateFlight, insertFlight, WAYPOINTS } from '../integration/replay-fixture';
 import { DEMO_AIRCRAFT, DEMO_ORG, DEMO_USERS, signIn } from './support';

@@ -10,8 +10,8 @@ import path from 'node:path';
 import { expect, test, type Page } from '@playwright/test';
 import { ALARM_ARRIVAL_BELOW_RESERVE, ARRIVAL_EATS_INTO, ARRIVAL_KEEPS, ARRIVAL_RUNS_OUT, computeFlight, summarize, type FlightComputation } from '../../src/lib/fuel';
 import { engineInputsOf } from '../../src/lib/flight-inputs';
-import { alarmLabels, arrivalWords } from '../../src/lib/components/replay/labels';
-import { decodeJson, type JsonPayload } from '../../src/lib/components/replay/payload';
+import { alarmLabels, arrivalWords } from '../../src/lib/labels';
+import { decodeJson, type JsonPayload } from '../../src/lib/wire/replay';
 import { LITRES_PER_US_GALLON } from '../../src/lib/units';
 import { DEMO_ORG, DEMO_USERS, ORIGIN, signIn } from './support';
 

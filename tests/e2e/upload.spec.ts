@@ -11,7 +11,7 @@ import { columnMappingSchema, parseRecorderText, profileMapping, type RecorderRo
 import { computeFlight, WPT_NONE, type FlightComputation, type SampleColumns } from '../../src/lib/fuel';
 import { engineInputsOf, fuelSetupOf, type AircraftFuelSetup } from '../../src/lib/flight-inputs';
 import { nearestIndex } from '../../src/lib/components/replay/series';
-import { phaseLabels } from '../../src/lib/components/replay/labels';
+import { phaseLabels } from '../../src/lib/labels';
 import { formatDuration } from '../../src/lib/units';
 import { DEMO_AIRCRAFT, DEMO_ORG, DEMO_USERS, signIn } from './support';
 

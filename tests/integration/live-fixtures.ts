@@ -10,7 +10,7 @@ import { hashToken, newToken } from '$lib/server/tokens';
 import { handleSamples, liveStream, parseAfter, type LiveHub } from '$lib/server/live';
 import { recorderOf } from '$lib/server/access';
 import { openLiveStream, type LiveStream } from '../../src/routes/o/[org]/flights/[id]/live/stream-client';
-import type { SamplesEvent, MetaEvent } from '$lib/server/live/protocol';
+import type { SamplesEvent, MetaEvent } from '$lib/wire/live';
 import { POST as postSamples } from '../../src/routes/api/v1/live/samples/+server';
 import { POST as postOpen } from '../../src/routes/api/v1/live/open/+server';
 import { POST as postClose } from '../../src/routes/api/v1/live/close/+server';

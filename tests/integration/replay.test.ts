@@ -9,7 +9,7 @@ import { db, pool } from '$lib/server/db';
 import { aircraft, flightNotes, flights, fuelEvents, memberships, organisations, users } from '$lib/server/db/schema';
 import { computeFlight, summarize, type FlightSummary } from '$lib/fuel';
 import { engineInputsOf, fuelSetupOf } from '$lib/flight-inputs';
-import { decodeBinary, decodeJson, type JsonPayload } from '$lib/components/replay/payload';
+import { decodeBinary, decodeJson, type JsonPayload } from '$lib/wire/replay';
 import { recomputeSummary } from '$lib/server/flights/summary';
 import { LITRES_PER_US_GALLON } from '$lib/units';
 import { GET as samplesGet } from '../../src/routes/api/v1/flights/[id]/samples/+server';

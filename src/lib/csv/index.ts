@@ -7,4 +7,3 @@ export * from './values';
 export * from './row';
 export * from './detect';
 export * from './parse';
-export * from './answer';

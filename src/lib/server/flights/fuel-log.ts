@@ -5,7 +5,7 @@
 import type { FlightComputation, FlightSummary, SampleColumns } from '$lib/fuel';
 import { alarmKinds, cruiseBasisCodes, WPT_NONE } from '$lib/fuel';
 import { fromLitres, type FuelUnit } from '$lib/units';
-import { alarmLabels, arrivalWords, flagWords, phaseIds } from '$lib/components/replay/labels';
+import { alarmLabels, arrivalWords, flagWords, phaseIds } from '$lib/labels';
 import { csvLine, numberCell as cell, textCell } from './csv-cell';
 
 export type LogEvery = 'sample' | 'minute';

@@ -5,7 +5,7 @@ import { asc, eq, sql } from 'drizzle-orm';
 import { engineInputsOf, fuelSetupOf, type AircraftFuelSetup } from '$lib/flight-inputs';
 import { recentCruiseFlowLph } from './recent-cruise';
 import { WPT_NONE, type FlightInput, type SampleColumns } from '$lib/fuel';
-import { PAYLOAD_VERSION, type ReplayData } from '$lib/components/replay/payload';
+import { PAYLOAD_VERSION, type ReplayData } from '$lib/wire/replay';
 import { db, type Db, type Tx } from '../db';
 import { aircraft, flights, fuelEvents, type Aircraft, type Flight, type FuelEventRow } from '../db/schema';
 

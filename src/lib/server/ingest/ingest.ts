@@ -32,9 +32,9 @@ import {
 	type MappingResolver,
 	type ParseSummary,
 	type RecorderRow,
-	type RowProblem,
-	type UploadProgress
+	type RowProblem
 } from '$lib/csv';
+import type { UploadProgress } from '$lib/wire/upload';
 import { computeFlight, summarize, WPT_NONE, type FlightSummary, type SampleColumns } from '$lib/fuel';
 import { engineInputsOf, fuelSetupOf } from '$lib/flight-inputs';
 import { recentCruiseFlowLph } from '../flights/recent-cruise';

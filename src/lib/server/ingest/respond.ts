@@ -3,7 +3,8 @@
 // browser that shows the server's parsing and storing as it happens.
 import { eq } from 'drizzle-orm';
 import { error, isHttpError, json, type RequestEvent } from '@sveltejs/kit';
-import { MAX_UPLOAD_BYTES, type UploadAnswer, type UploadLine } from '$lib/csv';
+import { MAX_UPLOAD_BYTES } from '$lib/csv';
+import type { UploadAnswer, UploadLine } from '$lib/wire/upload';
 import { requireAircraft, requireUser } from '../access';
 import { db } from '../db';
 import { aircraft, organisations } from '../db/schema';

@@ -8,7 +8,7 @@ import { db } from '../db';
 import { aircraft, flightAlarms, flights, memberships, organisations, users, watches, type Aircraft, type Flight } from '../db/schema';
 import { link, sendMail } from '../mail';
 import { fuel } from '$lib/format';
-import { alarmLabels, MARGIN_ROUNDING_NOTE } from '$lib/components/replay/labels';
+import { alarmLabels, MARGIN_ROUNDING_NOTE } from '$lib/labels';
 import type { AlarmKind } from '$lib/fuel';
 import { signedDown } from '$lib/rounding';
 import { formatDuration, fromLitres, fromLitresPerHour, flowUnitLabels, fuelUnitLabels, type FlowUnit } from '$lib/units';

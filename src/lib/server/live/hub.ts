@@ -5,7 +5,8 @@
 import pg from 'pg';
 import { NEAR_HEAD, PAGE_SAMPLES } from './config';
 import { loadMeta, type FlightMeta } from './meta';
-import { EVENT_META, EVENT_SAMPLES, NOTIFY_CHANNEL, type AccessNotice, type LiveNotice, type MetaEvent, type SamplesEvent } from './protocol';
+import { EVENT_META, EVENT_SAMPLES, type MetaEvent, type SamplesEvent } from '$lib/wire/live';
+import { NOTIFY_CHANNEL, type AccessNotice, type LiveNotice } from './protocol';
 import { readRun, type SampleRun } from './samples';
 
 /** One connected viewer: its cursor (last sequence delivered) and how to send it an event. */

@@ -4,7 +4,7 @@ import { asc, eq } from 'drizzle-orm';
 import type { Declaration } from '$lib/fuel';
 import { db } from '../db';
 import { flightAlarms, flights, fuelEvents } from '../db/schema';
-import type { MetaEvent } from './protocol';
+import type { MetaEvent } from '$lib/wire/live';
 
 export type FlightMeta = Omit<MetaEvent, 'v' | 'serverTime'>;
 

@@ -1,8 +1,6 @@
-// The live wire formats: the NOTIFY payload one app instance sends the others after a batch
-// commits, and the server-sent events a viewer receives. The browser imports these as types only
-// (import type), so nothing server-side reaches it.
-import type { AlarmKind, Declaration } from '$lib/fuel';
-import type { PayloadEvent } from '$lib/components/replay/payload';
+// What app instances tell each other through PostgreSQL: the NOTIFY payloads sent after a batch
+// commits or when someone's access changes. Server only; what a viewer's browser receives is in
+// $lib/wire/live.ts.
 
 /** The one PostgreSQL channel every app instance LISTENs on. */
 export const NOTIFY_CHANNEL = 'burndown_live';
@@ -27,74 +25,3 @@ export interface LiveNotice {
 export interface AccessNotice {
 	u: string;
 }
-
-/** First event of every stream. */
-export interface HelloEvent {
-	flightId: string;
-	/** The cursor this connection resumes after: samples with seq > after follow. */
-	after: number;
-	serverTime: number;
-}
-
-/**
- * A run of samples. `from` is always the receiving connection's cursor + 1 and the sequence
- * numbers run from..to without holes, so a client that keeps `to` as its cursor never loses or
- * repeats a sample. Times are integer ms after t0Ms (exact); null = not recorded.
- */
-export interface SamplesEvent {
-	from: number;
-	to: number;
-	/** Commit time (epoch ms) of the newest batch included, for latency figures. */
-	at: number;
-	t0Ms: number;
-	tMs: number[];
-	flow: (number | null)[];
-	gs: (number | null)[];
-	dtg: (number | null)[];
-	alt: (number | null)[];
-	wpt: (string | null)[];
-}
-
-export interface WireAlarm {
-	id: string;
-	kind: AlarmKind;
-	/** Epoch seconds, as the engine's AlarmEpisode. */
-	raisedAt: number;
-	clearedAt: number | null;
-	value: number | null;
-	emailed: boolean;
-}
-
-/** Everything about the flight but its samples; sent on connect and after every change. */
-export interface MetaEvent {
-	/** Changes on every send, so no client ever sees two identical payloads. */
-	v: number;
-	serverTime: number;
-	flight: {
-		id: string;
-		title: string;
-		status: 'open' | 'closed';
-		startedAt: string;
-		endedAt: string | null;
-		lastSeq: number;
-		/**
-		 * The sequence the flight starts at (a recorder may not count from 0): a new viewer's
-		 * cursor starts just below it.
-		 */
-		firstSeq: number;
-		/** When the server last stored samples for this flight (epoch ms). */
-		receivedAt: number | null;
-		declarationConfirmed: boolean;
-	};
-	declaration: Declaration;
-	previousOnBoardL: number | null;
-	events: PayloadEvent[];
-	alarms: WireAlarm[];
-}
-
-/** Event names on the stream (sveltekit-sse adds its own `ping`). */
-export const EVENT_HELLO = 'hello';
-export const EVENT_META = 'meta';
-export const EVENT_SAMPLES = 'samples';
-/** The flight is closed and the client holds every sample: do not reconnect. */
-export const EVENT_END = 'end';

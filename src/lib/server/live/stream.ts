@@ -4,7 +4,7 @@
 import { produce } from 'sveltekit-sse';
 import { PING_MS, streamRecheckMs } from './config';
 import type { LiveHub } from './hub';
-import { EVENT_END, EVENT_HELLO, type HelloEvent } from './protocol';
+import { EVENT_END, EVENT_HELLO, type HelloEvent } from '$lib/wire/live';
 
 /** The cursor from the query string: -1 (nothing seen yet) when absent or unusable. */
 export function parseAfter(raw: string | null): number {

@@ -1,7 +1,7 @@
 // Sends the upload with XMLHttpRequest, the one browser API that reports upload progress, and
 // reads the server's NDJSON answer line by line as it arrives: progress while the server parses
 // and stores, then the result.
-import type { UploadAnswer, UploadLine } from '$lib/csv';
+import type { UploadAnswer, UploadLine } from '$lib/wire/upload';
 
 export type ServerProgress = Extract<UploadLine, { type: 'progress' }>;
 export type UploadOutcome = { httpStatus: number; body: UploadAnswer };

@@ -1,8 +1,8 @@
 // A flight's samples in columns, with the aircraft's fuel setup, the declaration and the fuel
 // events, so the browser runs the same engine as the server. ?format=json (default): arrays,
-// times as integer ms after t0Ms; ?format=binary: the Float64 layout of replay/payload.ts.
+// times as integer ms after t0Ms; ?format=binary: the Float64 layout of $lib/wire/replay.ts.
 import { error } from '@sveltejs/kit';
-import { BINARY_CONTENT_TYPE, encodeBinary, encodeJson } from '$lib/components/replay/payload';
+import { BINARY_CONTENT_TYPE, encodeBinary, encodeJson } from '$lib/wire/replay';
 import { samplesQuerySchema } from '$lib/schemas/flight';
 import { requireFlightById } from '$lib/server/access';
 import { maybeGzip, parseQuery } from '$lib/server/flights/http';

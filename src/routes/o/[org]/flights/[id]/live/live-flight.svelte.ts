@@ -3,7 +3,7 @@
 // the same engine a replay runs. Redraws are batched to a few per second however fast data comes.
 import { engineInputsOf, type AircraftFuelSetup } from '$lib/flight-inputs';
 import { createLiveComputation, WPT_NONE, type Declaration, type FlightComputation, type LiveComputation, type SampleColumns } from '$lib/fuel';
-import type { MetaEvent, SamplesEvent } from '$lib/server/live/protocol';
+import type { MetaEvent, SamplesEvent } from '$lib/wire/live';
 import { openLiveStream, type LiveStream, type StreamStatus } from './stream-client';
 
 /** Longest pause between redraws while samples stream in. */

@@ -2,7 +2,7 @@
 // integration tests drive this same code). It keeps the cursor (last sequence held) itself and
 // reconnects with ?after=<cursor> after any drop or server restart, so it never loses or repeats
 // a sample; a watchdog reconnects when even the pings stop (a dead link looks like silence).
-import type { HelloEvent, MetaEvent, SamplesEvent } from '$lib/server/live/protocol';
+import type { HelloEvent, MetaEvent, SamplesEvent } from '$lib/wire/live';
 
 /** ended: the flight is closed and everything was received; closed: close() was called. */
 export type StreamStatus = 'connecting' | 'open' | 'reconnecting' | 'denied' | 'ended' | 'closed';

@@ -1,7 +1,7 @@
 // What POST /api/v1/flights answers, shared by the server, the upload page and scripts' authors:
 // a JSON body whose `status` names the case, or NDJSON lines (progress, then that body).
 // 'timeout' (408): the body stalled or trickled; 'busy' (429): too many uploads in progress.
-import type { RowProblem } from './row';
+import type { RowProblem } from '$lib/csv/row';
 
 /** Server-side progress: reading (bytes of the file read, rows accepted) and the storing steps. */
 export type UploadProgress =

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { WPT_NONE } from '$lib/fuel';
-import { decodeBinary, decodeJson, encodeBinary, encodeJson, PayloadError, PAYLOAD_VERSION, type ReplayData } from './payload';
+import { decodeBinary, decodeJson, encodeBinary, encodeJson, PayloadError, PAYLOAD_VERSION, type ReplayData } from './replay';
 
 function sample(n: number, withOptional = true): ReplayData {
 	// Times as the database holds them: whole milliseconds, divided by 1000 the way the server does.
