@@ -1,11 +1,8 @@
-import { and, desc, eq, isNull } from 'drizzle-orm';
 import { redirect } from '@sveltejs/kit';
 import { requireUser } from '$lib/server/access';
 import { endAllSessions, endOtherSessions, listSessions } from '$lib/server/auth';
-import { db } from '$lib/server/db';
-import { apiTokens, users } from '$lib/server/db/schema';
-import { API_TOKEN_PREFIX } from '$lib/server/hooks/authenticate';
-import { hashToken, newToken } from '$lib/server/tokens';
+import { createApiToken, listApiTokens, revokeApiToken } from '$lib/server/accounts/api-tokens';
+import { setPreferredFuelUnit } from '$lib/server/accounts/preferences';
 import { failForm, parseForm } from '$lib/schemas/form';
 import { plainText } from '$lib/schemas/text';
 import { changePasswordSchema, preferencesSchema } from '$lib/schemas/account';
@@ -18,12 +15,8 @@ const tokenNameSchema = z.object({ name: plainText(60, { required: 'Name the tok
 
 export const load = (async (event) => {
 	const user = requireUser(event);
-	const tokens = await db
-		.select({ id: apiTokens.id, name: apiTokens.name, createdAt: apiTokens.createdAt, lastUsedAt: apiTokens.lastUsedAt })
-		.from(apiTokens)
-		.where(and(eq(apiTokens.userId, user.id), isNull(apiTokens.revokedAt)))
-		.orderBy(desc(apiTokens.createdAt));
-	return { tokens, sessions: await listSessions(user.id, event.locals.session?.id ?? null) };
+	const [tokens, sessions] = await Promise.all([listApiTokens(user.id), listSessions(user.id, event.locals.session?.id ?? null)]);
+	return { tokens, sessions };
 }) satisfies PageServerLoad;
 
 export const actions = {
@@ -31,16 +24,15 @@ export const actions = {
 		const user = requireUser(event);
 		const form = parseForm(preferencesSchema, await event.request.formData());
 		if (!form.ok) return failForm(400, form.errors, form.values, 'preferences');
-		await db.update(users).set({ prefFuelUnit: form.data.prefFuelUnit }).where(eq(users.id, user.id));
+		await setPreferredFuelUnit(user.id, form.data.prefFuelUnit);
 		return { action: 'preferences', saved: true };
 	},
 	createToken: async (event) => {
 		const user = requireUser(event);
 		const form = parseForm(tokenNameSchema, await event.request.formData());
 		if (!form.ok) return failForm(400, form.errors, form.values, 'createToken');
-		const token = newToken(API_TOKEN_PREFIX);
-		await db.insert(apiTokens).values({ userId: user.id, name: form.data.name, tokenHash: hashToken(token) });
 		// Shown once: only the hash is stored.
+		const token = await createApiToken(user.id, form.data.name);
 		return { action: 'createToken', token };
 	},
 	changePassword: async (event) => {
@@ -70,7 +62,7 @@ export const actions = {
 		const user = requireUser(event);
 		const id = String((await event.request.formData()).get('id') ?? '');
 		if (!z.uuid().safeParse(id).success) return failForm(400, { id: 'Unknown token.' }, {}, 'revokeToken');
-		await db.update(apiTokens).set({ revokedAt: new Date() }).where(and(eq(apiTokens.id, id), eq(apiTokens.userId, user.id)));
+		await revokeApiToken(user.id, id);
 		return { action: 'revokeToken' };
 	}
 } satisfies Actions;

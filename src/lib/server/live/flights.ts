@@ -7,6 +7,7 @@ import type { Declaration } from '$lib/fuel';
 import { UNCHANGED_DECLARATION } from '$lib/schemas/declaration';
 import { db, type Tx } from '../db';
 import { aircraft, flights, memberships, recorders, users, type Aircraft, type Flight, type Recorder } from '../db/schema';
+import { findAircraftOf } from '../aircraft/lookup';
 import { recomputeSummary } from '../flights/summary';
 import { dropComputation } from './computation';
 import type { LiveNotice } from './protocol';
@@ -40,8 +41,9 @@ export class LiveRefusal extends Error {
 	}
 }
 
+/** The recorder's aircraft (aircraft/lookup.ts), refused in the recorder API's own words. */
 export async function aircraftOf(q: Queryable, recorder: Recorder): Promise<Aircraft> {
-	const [a] = await q.select().from(aircraft).where(eq(aircraft.id, recorder.aircraftId)).limit(1);
+	const a = await findAircraftOf(recorder, q);
 	if (!a) throw new LiveRefusal(404, { error: 'The aircraft of this recorder no longer exists.' });
 	return a;
 }

@@ -6,7 +6,8 @@ import type { ReserveRuleId } from '$lib/fuel';
 import type { PlanInput } from '$lib/schemas/plan';
 import type { FuelPlanWire } from '$lib/wire/plan';
 import { db } from '../db';
-import { aircraft, fuelPlans, type Flight, type FuelPlanRow } from '../db/schema';
+import { aircraftOf } from '../aircraft/lookup';
+import { fuelPlans, type Flight, type FuelPlanRow } from '../db/schema';
 
 export function planWire(row: FuelPlanRow): FuelPlanWire {
 	return {
@@ -46,15 +47,8 @@ export async function removePlan(flightId: string): Promise<boolean> {
 }
 
 /** What the plan page needs beside the plan: the aircraft's units and reserve defaults. */
-export async function planContext(flight: Pick<Flight, 'id' | 'aircraftId'>) {
-	const [plan, a] = await Promise.all([
-		planOfFlight(flight.id),
-		db.query.aircraft.findFirst({
-			where: eq(aircraft.id, flight.aircraftId),
-			columns: { registration: true, displayUnit: true, densityKgPerL: true, reserveRule: true, reserveCustomMin: true, baselineCruiseLph: true }
-		})
-	]);
-	// The foreign key makes a missing aircraft impossible; say so plainly if it ever happens.
-	if (!a) throw new Error(`flight ${flight.id} has no aircraft ${flight.aircraftId}`);
-	return { plan, aircraft: { ...a, reserveRule: a.reserveRule as ReserveRuleId } };
+export async function planContext(flight: Pick<Flight, 'id' | 'orgId' | 'aircraftId'>) {
+	const [plan, a] = await Promise.all([planOfFlight(flight.id), aircraftOf(flight)]);
+	const { registration, displayUnit, densityKgPerL, reserveCustomMin, baselineCruiseLph } = a;
+	return { plan, aircraft: { registration, displayUnit, densityKgPerL, reserveRule: a.reserveRule as ReserveRuleId, reserveCustomMin, baselineCruiseLph } };
 }

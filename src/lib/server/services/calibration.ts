@@ -1,12 +1,17 @@
 // Calibrating an aircraft's flow sensor against fuel pumped: records the reconciliation and, if
 // asked, applies it as a new meter factor (Burndown corrects) or a new K-factor (the sensor does).
-import { eq } from 'drizzle-orm';
+import { desc, eq } from 'drizzle-orm';
 import { calibrate } from '$lib/fuel';
 import { toLitres } from '$lib/units';
 import type { CalibrationForm } from '$lib/schemas/calibration';
 import { db } from '../db';
 import { aircraft as aircraftTable, calibrations, type Aircraft } from '../db/schema';
 import { lockAircraftFlights, recomputeAircraftFlights } from '../flights/summary';
+
+/** The aircraft's latest calibrations, newest first. */
+export async function listCalibrations(aircraftId: string, limit = 20) {
+	return db.select().from(calibrations).where(eq(calibrations.aircraftId, aircraftId)).orderBy(desc(calibrations.createdAt)).limit(limit);
+}
 
 export async function recordCalibration(a: Aircraft, form: CalibrationForm, userId: string) {
 	const shownL = toLitres(form.shown, a.displayUnit, a.densityKgPerL);

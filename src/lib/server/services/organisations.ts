@@ -61,6 +61,11 @@ export async function listPendingInvitations(orgId: string) {
 		.orderBy(invitations.createdAt);
 }
 
+/** Revokes a pending invitation of the organisation (an id of another organisation changes nothing). */
+export async function revokeInvitation(orgId: string, invitationId: string): Promise<void> {
+	await db.update(invitations).set({ revokedAt: new Date() }).where(and(eq(invitations.orgId, orgId), eq(invitations.id, invitationId)));
+}
+
 export type InviteResult = { sent: true; invitation: Invitation } | { sent: false; already: 'member' | 'pending' };
 
 /**

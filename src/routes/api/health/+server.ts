@@ -1,15 +1,10 @@
 import { json } from '@sveltejs/kit';
-import { sql } from 'drizzle-orm';
-import { db } from '$lib/server/db';
+import { databaseReachable } from '$lib/server/health';
 import type { RequestHandler } from './$types';
 
 // Liveness and database reachability, for the test harness and load balancers. Public by design:
 // it reveals nothing but "up".
 export const GET: RequestHandler = async () => {
-	try {
-		await db.execute(sql`select 1`);
-		return json({ ok: true });
-	} catch {
-		return json({ ok: false }, { status: 503 });
-	}
+	if (await databaseReachable()) return json({ ok: true });
+	return json({ ok: false }, { status: 503 });
 };

@@ -1,9 +1,6 @@
 import { error } from '@sveltejs/kit';
-import { and, eq } from 'drizzle-orm';
 import { requireMember } from '$lib/server/access';
-import { db } from '$lib/server/db';
-import { invitations } from '$lib/server/db/schema';
-import { changeMembership, inviteMember, listMembers, listPendingInvitations } from '$lib/server/services/organisations';
+import { changeMembership, inviteMember, listMembers, listPendingInvitations, revokeInvitation } from '$lib/server/services/organisations';
 import { failForm, parseForm } from '$lib/schemas/form';
 import { invitationSchema, memberRemoveSchema, memberRoleSchema } from '$lib/schemas/organisation';
 import { z } from 'zod';
@@ -46,7 +43,7 @@ export const actions = {
 		const { org } = await requireMember(event, event.params.org, 'manageMembers');
 		const id = String((await event.request.formData()).get('id') ?? '');
 		if (!z.uuid().safeParse(id).success) return failForm(400, { id: 'Unknown invitation.' }, {}, 'revoke');
-		await db.update(invitations).set({ revokedAt: new Date() }).where(and(eq(invitations.orgId, org.id), eq(invitations.id, id)));
+		await revokeInvitation(org.id, id);
 		return { action: 'revoke' };
 	}
 } satisfies Actions;

@@ -1,8 +1,6 @@
-import { and, asc, eq, isNull } from 'drizzle-orm';
 import { z } from 'zod';
 import { requireMember } from '$lib/server/access';
-import { db } from '$lib/server/db';
-import { aircraft } from '$lib/server/db/schema';
+import { listAircraft } from '$lib/server/services/aircraft';
 import { listRecorders, registerRecorder, revokeRecorder, rotateRecorder } from '$lib/server/live/recorders';
 import { idleCloseMinutes } from '$lib/server/live/config';
 import { failForm, parseForm } from '$lib/schemas/form';
@@ -20,13 +18,9 @@ export const load = (async (event) => {
 	const { org } = await requireMember(event, event.params.org, 'manageRecorders');
 	const [list, fleet] = await Promise.all([
 		listRecorders(org.id),
-		db
-			.select({ id: aircraft.id, registration: aircraft.registration })
-			.from(aircraft)
-			.where(and(eq(aircraft.orgId, org.id), isNull(aircraft.archivedAt)))
-			.orderBy(asc(aircraft.registration))
+		listAircraft(org.id)
 	]);
-	return { recorders: list, fleet, idleCloseMinutes: idleCloseMinutes() };
+	return { recorders: list, fleet: fleet.map((a) => ({ id: a.id, registration: a.registration })), idleCloseMinutes: idleCloseMinutes() };
 }) satisfies PageServerLoad;
 
 // The new token is in the action's answer only: it is never stored and never shown again.

@@ -1,9 +1,6 @@
-import { desc, eq } from 'drizzle-orm';
 import { requireAircraft } from '$lib/server/access';
-import { db } from '$lib/server/db';
-import { calibrations } from '$lib/server/db/schema';
 import { aircraftFormValues, setArchived, updateAircraft } from '$lib/server/services/aircraft';
-import { recordCalibration } from '$lib/server/services/calibration';
+import { listCalibrations, recordCalibration } from '$lib/server/services/calibration';
 import { isWatching, setWatching } from '$lib/server/live/watches';
 import { failForm, parseForm } from '$lib/schemas/form';
 import { aircraftFormSchema } from '$lib/schemas/aircraft';
@@ -12,8 +9,7 @@ import type { Actions, PageServerLoad } from './$types';
 
 export const load = (async (event) => {
 	const { aircraft, user } = await requireAircraft(event, event.params.org, event.params.id, 'viewFleet');
-	const history = await db.select().from(calibrations).where(eq(calibrations.aircraftId, aircraft.id)).orderBy(desc(calibrations.createdAt)).limit(20);
-	const watching = await isWatching(user.id, { aircraftId: aircraft.id });
+	const [history, watching] = await Promise.all([listCalibrations(aircraft.id), isWatching(user.id, { aircraftId: aircraft.id })]);
 	return { aircraft, values: aircraftFormValues(aircraft), calibrations: history, watching };
 }) satisfies PageServerLoad;
 

@@ -1,47 +1,33 @@
-import { asc, eq, inArray } from 'drizzle-orm';
 import { fuelSetupOf } from '$lib/flight-inputs';
 import { recentCruiseFlowLph } from '$lib/server/flights/recent-cruise';
 import { mayOnFlight, requireFlight } from '$lib/server/access';
-import { db } from '$lib/server/db';
-import { aircraft, flightNotes, users, type Flight } from '$lib/server/db/schema';
+import { aircraftOf } from '$lib/server/aircraft/lookup';
 import { addFuelEvent, addNote, editNote, removeFuelEvent, removeNote, saveDeclaration } from '$lib/server/flights/edit';
 import { planOfFlight } from '$lib/server/plans';
 import { debriefOf } from '$lib/server/debriefs';
 import { listCorrections } from '$lib/server/flights/corrections';
 import { loadEvents } from '$lib/server/flights/load';
+import { listNotes } from '$lib/server/flights/notes';
+import { flightPeople } from '$lib/server/flights/people';
 import { can } from '$lib/permissions';
 import { declarationFormSchema, declarationFormValues, fuelEventFormSchema, idFormSchema, noteEditFormSchema, noteFormSchema, reasonFormSchema } from '$lib/schemas/flight';
 import { failForm, parseForm } from '$lib/schemas/form';
 import type { Declaration } from '$lib/fuel';
 import type { Actions, PageServerLoad } from './$types';
 
-async function aircraftOf(flight: Flight) {
-	const a = await db.query.aircraft.findFirst({ where: eq(aircraft.id, flight.aircraftId) });
-	// The foreign key makes this impossible; say so plainly if it ever happens.
-	if (!a) throw new Error(`flight ${flight.id} has no aircraft ${flight.aircraftId}`);
-	return a;
-}
-
 // The flight's fuel inputs, people and notes; the samples come from the samples API in the browser.
 export const load = (async (event) => {
 	const ctx = await requireFlight(event, event.params.org, event.params.id, 'view');
 	const { flight, user, role } = ctx;
-	const [a, events, corrections, notes, plan, debrief] = await Promise.all([
+	const [a, events, corrections, notes, plan, debrief, people] = await Promise.all([
 		aircraftOf(flight),
 		loadEvents(flight.id),
 		listCorrections(flight.id),
-		db
-			.select({ id: flightNotes.id, t: flightNotes.t, body: flightNotes.body, createdAt: flightNotes.createdAt, editedAt: flightNotes.editedAt, authorId: flightNotes.authorId, author: users.name })
-			.from(flightNotes)
-			.leftJoin(users, eq(users.id, flightNotes.authorId))
-			.where(eq(flightNotes.flightId, flight.id))
-			.orderBy(asc(flightNotes.createdAt)),
+		listNotes(flight.id),
 		planOfFlight(flight.id),
-		debriefOf(flight.id)
+		debriefOf(flight.id),
+		flightPeople(flight)
 	]);
-	const people = [flight.pilotId, flight.instructorId].filter((x): x is string => x !== null);
-	const names = people.length ? await db.select({ id: users.id, name: users.name }).from(users).where(inArray(users.id, people)) : [];
-	const nameOf = (id: string | null) => names.find((n) => n.id === id)?.name ?? null;
 	const unit = user.prefFuelUnit ?? a.displayUnit;
 	return {
 		flight: {
@@ -56,8 +42,8 @@ export const load = (async (event) => {
 			declarationConfirmed: flight.declarationConfirmed,
 			sampleCount: flight.sampleCount,
 			notes: flight.notes,
-			pilot: nameOf(flight.pilotId),
-			instructor: nameOf(flight.instructorId)
+			pilot: people.pilot,
+			instructor: people.instructor
 		},
 		aircraft: { id: a.id, registration: a.registration, type: a.type, displayUnit: a.displayUnit, densityKgPerL: a.densityKgPerL, fuelType: a.fuelType },
 		setup: fuelSetupOf(a, await recentCruiseFlowLph(a.id, flight)),

@@ -1,41 +1,31 @@
 // The upload page: the organisation's active aircraft and import profiles for the browser's
 // column mapper; saving a mapping as a named profile. The file itself goes to POST /api/v1/flights.
-import { and, asc, eq, isNull } from 'drizzle-orm';
 import { z } from 'zod';
 import { requireMember } from '$lib/server/access';
-import { db } from '$lib/server/db';
-import { aircraft, importProfiles } from '$lib/server/db/schema';
+import { listImportProfiles, saveImportProfile } from '$lib/server/ingest/profiles';
+import { listAircraft } from '$lib/server/services/aircraft';
 import { failForm, parseForm } from '$lib/schemas/form';
 import { plainText } from '$lib/schemas/text';
-import { MAX_UPLOAD_BYTES, MAX_UPLOAD_LABEL, columnMappingSchema, createRowReader, headerSignature, profileMapping, type ColumnMapping } from '$lib/csv';
+import { MAX_UPLOAD_BYTES, MAX_UPLOAD_LABEL, columnMappingSchema } from '$lib/csv';
 import type { Actions, PageServerLoad } from './$types';
 
 // Aircraft with what the declaration needs; profiles with what matching needs.
 export const load = (async (event) => {
 	const { org } = await requireMember(event, event.params.org, 'upload');
-	const fleet = await db
-		.select({
-			id: aircraft.id,
-			registration: aircraft.registration,
-			type: aircraft.type,
-			fuelType: aircraft.fuelType,
-			displayUnit: aircraft.displayUnit,
-			densityKgPerL: aircraft.densityKgPerL,
-			capacityL: aircraft.capacityL,
-			lowerLevelL: aircraft.lowerLevelL,
-			lastOnBoardL: aircraft.lastOnBoardL
-		})
-		.from(aircraft)
-		.where(and(eq(aircraft.orgId, org.id), isNull(aircraft.archivedAt)))
-		.orderBy(asc(aircraft.registration));
-	const profiles = await db
-		.select({ id: importProfiles.id, name: importProfiles.name, headerSignature: importProfiles.headerSignature, mapping: importProfiles.mapping })
-		.from(importProfiles)
-		.where(eq(importProfiles.orgId, org.id))
-		.orderBy(asc(importProfiles.name));
+	const [fleet, profiles] = await Promise.all([listAircraft(org.id), listImportProfiles(org.id)]);
 	return {
-		fleet,
-		profiles: profiles.map((p) => ({ ...p, mapping: p.mapping as ColumnMapping })),
+		fleet: fleet.map((a) => ({
+			id: a.id,
+			registration: a.registration,
+			type: a.type,
+			fuelType: a.fuelType,
+			displayUnit: a.displayUnit,
+			densityKgPerL: a.densityKgPerL,
+			capacityL: a.capacityL,
+			lowerLevelL: a.lowerLevelL,
+			lastOnBoardL: a.lastOnBoardL
+		})),
+		profiles,
 		preselect: event.url.searchParams.get('aircraft'),
 		maxBytes: MAX_UPLOAD_BYTES,
 		maxLabel: MAX_UPLOAD_LABEL
@@ -87,19 +77,8 @@ export const actions = {
 		const parsed = parseForm(profileFormSchema, await event.request.formData());
 		const values = parsed.values;
 		if (!parsed.ok) return failForm(400, parsed.errors, values, 'saveProfile');
-		const { name, headers, mapping } = parsed.data;
-		// A profile naming columns its own header lacks could never apply.
-		const check = createRowReader(mapping, headers, 1, { densityKgPerL: 0.72 });
-		if ('problems' in check) return failForm(400, { mapping: check.problems[0].message }, values, 'saveProfile');
-		const stored = profileMapping(mapping);
-		const existing = await db.query.importProfiles.findFirst({ where: and(eq(importProfiles.orgId, org.id), eq(importProfiles.name, name)) });
-		if (existing && parsed.data.replace !== '1')
-			return failForm(400, { name: `A profile named "${name}" exists already. Tick "Replace" to overwrite it, or choose another name.` }, values, 'saveProfile');
-		const [row] = await db
-			.insert(importProfiles)
-			.values({ orgId: org.id, name, headerSignature: headerSignature(headers), mapping: stored, createdBy: user.id })
-			.onConflictDoUpdate({ target: [importProfiles.orgId, importProfiles.name], set: { headerSignature: headerSignature(headers), mapping: stored, createdBy: user.id, createdAt: new Date() } })
-			.returning({ id: importProfiles.id, name: importProfiles.name, headerSignature: importProfiles.headerSignature });
-		return { action: 'saveProfile', saved: { ...row, mapping: stored } };
+		const done = await saveImportProfile(org.id, user.id, { ...parsed.data, replace: parsed.data.replace === '1' });
+		if (!done.ok) return failForm(400, { [done.field]: done.message }, values, 'saveProfile');
+		return { action: 'saveProfile', saved: done.saved };
 	}
 } satisfies Actions;

@@ -5,15 +5,13 @@
 // only a few of those run at once (the rest answer 429 with a wait), so a crowd of viewers cannot
 // exhaust the server's memory.
 import { error, json } from '@sveltejs/kit';
-import { eq } from 'drizzle-orm';
 import { exportQuerySchema } from '$lib/schemas/flight';
 import { requireFlightById } from '$lib/server/access';
-import { db } from '$lib/server/db';
-import { users } from '$lib/server/db/schema';
 import { fuelLogChunks, summaryCsv } from '$lib/server/flights/fuel-log';
 import { parseQuery, streamText } from '$lib/server/flights/http';
 import { exportLimits, heavyExports } from '$lib/server/limits';
 import { loadFlight } from '$lib/server/flights/load';
+import { flightPeople } from '$lib/server/flights/people';
 import { computeLoaded } from '$lib/server/flights/summary';
 import type { RequestHandler } from './$types';
 
@@ -50,7 +48,7 @@ export const GET: RequestHandler = async (event) => {
 		const headers = { 'cache-control': 'private, no-store' };
 
 		if (q.what === 'summary') {
-			const pilot = flight.pilotId ? ((await db.query.users.findFirst({ where: eq(users.id, flight.pilotId), columns: { name: true } }))?.name ?? null) : null;
+			const { pilot } = await flightPeople(flight);
 			const meta = { registration: a.registration, title: flight.title, pilot, unit, densityKgPerL: a.densityKgPerL, waypoints: loaded.samples.waypoints };
 			if (q.format === 'json') {
 				return json(

@@ -1,12 +1,11 @@
-import { error } from '@sveltejs/kit';
-import { and, eq, inArray } from 'drizzle-orm';
 import { z } from 'zod';
 import { fuelSetupOf } from '$lib/flight-inputs';
 import { recentCruiseFlowLph } from '$lib/server/flights/recent-cruise';
 import type { Declaration } from '$lib/fuel';
 import { mayOnFlight, requireFlight } from '$lib/server/access';
-import { db } from '$lib/server/db';
-import { aircraft, alarmAcks, flightAlarms, users, type Flight } from '$lib/server/db/schema';
+import { aircraftOf } from '$lib/server/aircraft/lookup';
+import { flightPeople } from '$lib/server/flights/people';
+import { acknowledgeAlarm, alarmsAckedBy } from '$lib/server/live/acks';
 import { idleCloseMinutes } from '$lib/server/live/config';
 import { setLiveDeclaration } from '$lib/server/live/declare';
 import { isWatching, setWatching } from '$lib/server/live/watches';
@@ -14,33 +13,16 @@ import { declarationFormSchema, declarationFormValues, reasonFormSchema } from '
 import { failForm, parseForm } from '$lib/schemas/form';
 import type { Actions, PageServerLoad } from './$types';
 
-async function aircraftOf(flight: Flight) {
-	const [a] = await db.select().from(aircraft).where(eq(aircraft.id, flight.aircraftId));
-	if (!a) error(404, 'The aircraft of this flight no longer exists.');
-	return a;
-}
-
-/** The alarms of this flight the member has acknowledged. */
-async function ackedBy(userId: string, flightId: string): Promise<string[]> {
-	const rows = await db
-		.select({ id: alarmAcks.alarmId })
-		.from(alarmAcks)
-		.innerJoin(flightAlarms, eq(flightAlarms.id, alarmAcks.alarmId))
-		.where(and(eq(alarmAcks.userId, userId), eq(flightAlarms.flightId, flightId)));
-	return rows.map((r) => r.id);
-}
-
 // The flight's fixed facts and this member's own state (acknowledgements, watches); samples,
 // declaration changes and alarms arrive through the stream.
 export const load = (async (event) => {
 	const ctx = await requireFlight(event, event.params.org, event.params.id, 'view');
 	const { flight, user } = ctx;
 	const a = await aircraftOf(flight);
-	const people = [flight.pilotId, flight.instructorId].filter((x): x is string => x !== null);
-	const names = people.length ? await db.select({ id: users.id, name: users.name }).from(users).where(inArray(users.id, people)) : [];
 	const unit = user.prefFuelUnit ?? a.displayUnit;
-	const [acked, watchingFlight, watchingAircraft] = await Promise.all([
-		ackedBy(user.id, flight.id),
+	const [people, acked, watchingFlight, watchingAircraft] = await Promise.all([
+		flightPeople(flight),
+		alarmsAckedBy(user.id, flight.id),
 		isWatching(user.id, { flightId: flight.id }),
 		isWatching(user.id, { aircraftId: a.id })
 	]);
@@ -50,8 +32,8 @@ export const load = (async (event) => {
 			title: flight.title,
 			source: flight.source,
 			startedAt: flight.startedAt,
-			pilot: names.find((n) => n.id === flight.pilotId)?.name ?? null,
-			instructor: names.find((n) => n.id === flight.instructorId)?.name ?? null
+			pilot: people.pilot,
+			instructor: people.instructor
 		},
 		aircraft: { id: a.id, registration: a.registration, type: a.type, displayUnit: a.displayUnit, densityKgPerL: a.densityKgPerL, lastOnBoardL: a.lastOnBoardL },
 		setup: fuelSetupOf(a, await recentCruiseFlowLph(a.id, flight)),
@@ -85,10 +67,8 @@ export const actions = {
 		const { flight, user } = await requireFlight(event, event.params.org, event.params.id, 'view');
 		const form = parseForm(alarmIdSchema, await event.request.formData());
 		if (!form.ok) return failForm(400, form.errors, form.values, 'ack');
-		const [alarm] = await db.select({ id: flightAlarms.id }).from(flightAlarms).where(and(eq(flightAlarms.id, form.data.alarmId), eq(flightAlarms.flightId, flight.id)));
-		if (!alarm) return failForm(404, { alarmId: 'That alarm is not on this flight.' }, form.values, 'ack');
-		await db.insert(alarmAcks).values({ alarmId: alarm.id, userId: user.id }).onConflictDoNothing();
-		return { action: 'ack', alarmId: alarm.id };
+		if (!(await acknowledgeAlarm(flight.id, form.data.alarmId, user.id))) return failForm(404, { alarmId: 'That alarm is not on this flight.' }, form.values, 'ack');
+		return { action: 'ack', alarmId: form.data.alarmId };
 	},
 	watch: async (event) => {
 		const { flight, user } = await requireFlight(event, event.params.org, event.params.id, 'view');
