@@ -14,24 +14,6 @@ const SRC = path.join(ROOT, 'src');
 /** Packages the engine may use: pure computation, no I/O. A new one is added here on purpose. */
 const ENGINE_PACKAGES = new Set(['geographiclib-geodesic', 'ml-spectra-processing', 'fast-check', 'vitest']);
 
-/**
- * Route files that still query the database themselves. TEMPORARY: the queries are moving into
- * the server's domain modules (issue 10, part B); each file leaves this list when its queries
- * have moved, and the list ends empty. Do not add to it.
- */
-const ROUTES_STILL_ON_DRIZZLE = new Set([
-	'src/routes/account/+page.server.ts',
-	'src/routes/api/v1/flights/[id]/export/+server.ts',
-	'src/routes/api/health/+server.ts',
-	'src/routes/o/[org]/+page.server.ts',
-	'src/routes/o/[org]/recorders/+page.server.ts',
-	'src/routes/o/[org]/flights/[id]/+page.server.ts',
-	'src/routes/o/[org]/flights/[id]/live/+page.server.ts',
-	'src/routes/o/[org]/flights/upload/+page.server.ts',
-	'src/routes/o/[org]/members/+page.server.ts',
-	'src/routes/o/[org]/aircraft/[id]/+page.server.ts'
-]);
-
 /** Names whose use means I/O or reaching outside the computation. */
 const IO_GLOBALS = [
 	'fetch',
@@ -121,7 +103,7 @@ function violations(file: SourceFile): string[] {
 				if (!new RegExp(`\\b(?:const|let|var|function|class)\\s+${name}\\b`).test(code) && new RegExp(`(?<![\\w$.])${name}\\s*[.([]`).test(code)) out.push(`${rel}: the engine uses ${name} (I/O)`);
 		}
 	}
-	if (rel.startsWith('src/routes/') && !ROUTES_STILL_ON_DRIZZLE.has(rel)) {
+	if (rel.startsWith('src/routes/')) {
 		for (const { spec } of imports)
 			if (packageOf(spec) === 'drizzle-orm') out.push(`${rel}: a route file imports ${spec}; put the query in a server module`);
 	}
@@ -141,14 +123,6 @@ describe('layering', () => {
 
 	it('holds in every source file', () => {
 		expect(files.flatMap(violations)).toEqual([]);
-	});
-
-	it('keeps the temporary drizzle allow-list honest: every file on it exists and still imports drizzle-orm', () => {
-		const stale = [...ROUTES_STILL_ON_DRIZZLE].filter((rel) => {
-			const f = files.find((x) => x.rel === rel);
-			return !f || !importsOf(f.text).some((s) => packageOf(s) === 'drizzle-orm');
-		});
-		expect(stale).toEqual([]);
 	});
 
 	describe('each rule fails on a file that breaks it', () => {
