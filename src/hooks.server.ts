@@ -1,5 +1,6 @@
 import { sequence } from '@sveltejs/kit/hooks';
 import type { HandleServerError } from '@sveltejs/kit';
+import { apiConventions } from '$lib/server/hooks/api-conventions';
 import { authenticate } from '$lib/server/hooks/authenticate';
 import { authorizedGuard } from '$lib/server/hooks/authorized-guard';
 import { cacheControl } from '$lib/server/hooks/cache-control';
@@ -8,7 +9,7 @@ import { securityHeaders } from '$lib/server/hooks/security-headers';
 import { closeDb } from '$lib/server/db';
 
 // authorizedGuard innermost: it judges what the route itself answered, not originGuard's refusals.
-export const handle = sequence(securityHeaders, authenticate, cacheControl, originGuard, authorizedGuard);
+export const handle = sequence(securityHeaders, apiConventions, authenticate, cacheControl, originGuard, authorizedGuard);
 // Live flights: starts the idle sweeper; the live module closes its LISTEN connection on shutdown.
 export { init } from '$lib/server/live';
 

@@ -15,7 +15,8 @@ export const PUBLIC_ROUTES: ReadonlyMap<string, string> = new Map([
 	['/share/[token]', 'the read-only link to a debrief: the token is the credential (stored only as a hash)'],
 	['/caution', 'what Burndown is and is not: advisory only'],
 	['/dev/mailbox', 'demo mode only (404 otherwise); its own rule in its load'],
-	['/api/health', 'liveness for the harness and load balancers; reveals only "up"']
+	['/api/health', 'liveness for the harness and load balancers; reveals only "up"'],
+	['/api/[...rest]', 'the JSON 404 for an /api/ path no endpoint serves; reveals only that path']
 ]);
 
 export const isPublicRoute = (routeId: string) => PUBLIC_ROUTES.has(routeId);
