@@ -5,6 +5,7 @@
 import os from 'node:os';
 import { performance } from 'node:perf_hooks';
 import {
+	ColumnBuilder,
 	computeFlight,
 	createLiveComputation,
 	summarize,
@@ -40,12 +41,8 @@ function rng(seed: number): () => number {
  */
 function generate(n: number): { columns: SampleColumns; events: FuelEvent[] } {
 	const rand = rng(20261201);
-	const t = new Float64Array(n);
-	const flow = new Float64Array(n);
-	const gs = new Float64Array(n);
-	const dtg = new Float64Array(n);
-	const alt = new Float64Array(n);
-	const wpt = new Int32Array(n);
+	// Rows become columns the way every stored or received flight does.
+	const rows = new ColumnBuilder(n);
 	const events: FuelEvent[] = [];
 	// Leg plan in seconds: taxi out, climb, cruise, descent, taxi in, stop.
 	const plan = [480, 720, 5400, 900, 300, 2400];
@@ -56,7 +53,6 @@ function generate(n: number): { columns: SampleColumns; events: FuelEvent[] } {
 	for (let i = 0; i < n; i++) {
 		// A 30 s dropout roughly every 20,000 samples.
 		clock += rand() < 0.00005 ? 30 : 1;
-		t[i] = clock;
 		const k = i % legLength;
 		let f: number, g: number, a: number;
 		if (k < plan[0]) {
@@ -94,13 +90,9 @@ function generate(n: number): { columns: SampleColumns; events: FuelEvent[] } {
 				waypoint++;
 			}
 		}
-		flow[i] = rand() < 0.001 ? NaN : f;
-		gs[i] = g;
-		dtg[i] = g > 0 ? legDistance : NaN;
-		alt[i] = a;
-		wpt[i] = waypoint;
+		rows.push(i, clock * 1000, rand() < 0.001 ? null : f, g, g > 0 ? legDistance : null, a, `WP${waypoint}`);
 	}
-	return { columns: { t, flow, gs, dtg, alt, wpt }, events };
+	return { columns: rows.columns(), events };
 }
 
 function quantile(sorted: Float64Array, q: number): number {
