@@ -3,6 +3,7 @@
 // then reads the new samples once per flight and hands every viewer exactly the run after its own
 // cursor. A viewer's cursor only moves by whole contiguous runs, so nothing is lost or repeated.
 import pg from 'pg';
+import { serverConfig } from '../config';
 import { NEAR_HEAD, PAGE_SAMPLES } from './config';
 import { loadMeta, type FlightMeta } from './meta';
 import { EVENT_META, EVENT_SAMPLES, samplesEventOf, type MetaEvent } from '$lib/wire/live';
@@ -262,7 +263,7 @@ export class LiveHub {
 	}
 
 	private async connect(): Promise<void> {
-		const client = new pg.Client({ connectionString: this.options.connectionString ?? process.env.DATABASE_URL, keepAlive: true });
+		const client = new pg.Client({ connectionString: this.options.connectionString ?? serverConfig().DATABASE_URL, keepAlive: true });
 		client.on('notification', (m) => {
 			if (m.channel === NOTIFY_CHANNEL) this.onNotice(m.payload);
 		});
