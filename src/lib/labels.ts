@@ -104,7 +104,7 @@ export const eventLabels: Record<FuelEventKind, string> = {
 	removed: 'Fuel removed',
 	toFull: 'Filled to full',
 	toLower: 'Filled to the lower level',
-	resetUsed: 'Fuel used reset'
+	resetUsed: 'Fuel used counter reset'
 };
 
 /** Flag bits as words, for the export and the sample inspector. */

@@ -38,22 +38,27 @@ export const AVGAS_DENSITY_KG_PER_L = lbPerUsGallonToKgPerLitre(AVGAS_LB_PER_US_
 /** Default jet fuel density, about 0.803 kg/L. */
 export const JET_FUEL_DENSITY_KG_PER_L = lbPerUsGallonToKgPerLitre(JET_FUEL_LB_PER_US_GALLON);
 
-export type FuelType = 'avgas' | 'jet';
+/** An aircraft's fuel: the one list the schema's enum and the aircraft form take. */
+export const fuelTypes = ['avgas', 'jet', 'other'] as const;
+export type AircraftFuelType = (typeof fuelTypes)[number];
+/** The fuels with a known default density. */
+export type FuelType = Exclude<AircraftFuelType, 'other'>;
 
 /** The density to use when an aircraft profile has none of its own. */
 export function defaultDensityKgPerL(fuel: FuelType): number {
 	return fuel === 'jet' ? JET_FUEL_DENSITY_KG_PER_L : AVGAS_DENSITY_KG_PER_L;
 }
 
-export type FuelUnit = 'usgal' | 'l' | 'impgal' | 'lb' | 'kg';
-export type FlowUnit = 'usgal/h' | 'l/h' | 'impgal/h' | 'lb/h' | 'kg/h';
-export type SpeedUnit = 'kt' | 'km/h' | 'mph';
-export type DistanceUnit = 'nm' | 'km' | 'sm';
+/** Display units for fuel amounts: the one list the schema's enum and the forms take. */
+export const fuelUnits = ['usgal', 'l', 'impgal', 'lb', 'kg'] as const;
+export type FuelUnit = (typeof fuelUnits)[number];
+export const flowUnits = ['usgal/h', 'l/h', 'impgal/h', 'lb/h', 'kg/h'] as const;
+export type FlowUnit = (typeof flowUnits)[number];
+export const speedUnits = ['kt', 'km/h', 'mph'] as const;
+export type SpeedUnit = (typeof speedUnits)[number];
+export const distanceUnits = ['nm', 'km', 'sm'] as const;
+export type DistanceUnit = (typeof distanceUnits)[number];
 
-export const fuelUnits: readonly FuelUnit[] = ['usgal', 'l', 'impgal', 'lb', 'kg'];
-export const flowUnits: readonly FlowUnit[] = ['usgal/h', 'l/h', 'impgal/h', 'lb/h', 'kg/h'];
-export const speedUnits: readonly SpeedUnit[] = ['kt', 'km/h', 'mph'];
-export const distanceUnits: readonly DistanceUnit[] = ['nm', 'km', 'sm'];
 
 export const fuelUnitLabels: Record<FuelUnit, string> = {
 	usgal: 'US gal',

@@ -2,9 +2,9 @@
 // checking and ordering them, and working out what each one changes when it is applied.
 
 import { litresText } from './declaration';
-import type { EngineWarning, FuelEvent, UsableProfile } from './types';
+import { FUEL_EVENT_KINDS, type EngineWarning, type FuelEvent, type UsableProfile } from './types';
 
-const KINDS = new Set(['added', 'removed', 'toFull', 'toLower', 'resetUsed']);
+const KINDS = new Set<string>(FUEL_EVENT_KINDS);
 
 /** Valid events in time order (ties keep their given order); invalid ones are dropped with a warning. */
 export function normalizeEvents(

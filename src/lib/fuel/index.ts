@@ -3,6 +3,7 @@
 //
 // Map of the modules:
 //   types.ts        input columns, profile, declarations, events, thresholds, result shapes
+//   columns.ts      ColumnBuilder: stored or received sample rows → input columns (every path)
 //   compute.ts      computeFlight(): batch run over a whole flight
 //   live.ts         createLiveComputation(): incremental run for a flight in progress
 //   engine.ts       the single pass both of them run, and its running state
@@ -29,6 +30,7 @@
 // Unit constants and conversions live beside this folder in $lib/units.ts.
 
 export * from './types';
+export { ColumnBuilder } from './columns';
 export { computeFlight, columnLength } from './compute';
 export { createLiveComputation, type LiveComputation, type LiveInit } from './live';
 export { DEFAULT_OPTIONS } from './engine';

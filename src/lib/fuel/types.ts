@@ -61,7 +61,9 @@ export type Declaration =
 	| { kind: 'added'; amountL: number }
 	| { kind: 'removed'; amountL: number };
 
-export type FuelEventKind = 'added' | 'removed' | 'toFull' | 'toLower' | 'resetUsed';
+/** Every fuel event kind: the one list the schema's enum, the forms and the words take. */
+export const FUEL_EVENT_KINDS = ['added', 'removed', 'toFull', 'toLower', 'resetUsed'] as const;
+export type FuelEventKind = (typeof FUEL_EVENT_KINDS)[number];
 
 /** Something that changes fuel on board (or resets fuel used) at a time during the trip. */
 export interface FuelEvent {
@@ -186,9 +188,9 @@ export interface DataGap {
 	filledFlowLph: number;
 }
 
-export type AlarmKind = 'lowFuel' | 'lowEndurance' | 'arrivalBelowReserve';
-/** Every alarm kind, in the order of the ALARM_* bits. */
-export const alarmKinds: readonly AlarmKind[] = ['lowFuel', 'lowEndurance', 'arrivalBelowReserve'];
+/** Every alarm kind, in the order of the ALARM_* bits; the schema's enum takes this list. */
+export const alarmKinds = ['lowFuel', 'lowEndurance', 'arrivalBelowReserve'] as const;
+export type AlarmKind = (typeof alarmKinds)[number];
 
 /** One crossing of an alarm threshold, from raised to cleared. */
 export interface AlarmEpisode {

@@ -1,5 +1,6 @@
 // Sign-up, sign-in and password-reset fields.
 import { z } from 'zod';
+import { fuelUnits } from '$lib/units';
 import { plainText } from './text';
 
 // NIST SP 800-63B: at least 8 characters, and allow at least 64.
@@ -36,5 +37,5 @@ export const changePasswordSchema = z
 	.refine((v) => v.password === v.confirm, { message: 'The two passwords differ.', path: ['confirm'] });
 
 export const preferencesSchema = z.object({
-	prefFuelUnit: z.enum(['', 'usgal', 'l', 'impgal', 'lb', 'kg']).transform((v) => (v === '' ? null : v))
+	prefFuelUnit: z.enum(['', ...fuelUnits]).transform((v) => (v === '' ? null : v))
 });

@@ -1,6 +1,6 @@
 // The aircraft form: quantities are typed in the aircraft's display unit and stored in litres.
 import { z } from 'zod';
-import { defaultDensityKgPerL, fuelUnits, toLitres, type FuelUnit } from '$lib/units';
+import { defaultDensityKgPerL, fuelTypes, fuelUnits, toLitres, type FuelUnit } from '$lib/units';
 import { reserveRules, type ReserveRuleId } from '$lib/fuel';
 import { parseTypedNumber } from '$lib/csv/values';
 import { plainText } from './text';
@@ -36,9 +36,9 @@ export const aircraftFormSchema = z
 			.regex(/^[A-Z0-9][A-Z0-9-]{1,9}$/, 'Use 2 to 10 letters, digits or hyphens, e.g. N4821K or G-ABCD.'),
 		type: plainText(60, { required: 'Enter the aircraft type.' }),
 		engine: plainText(80).default(''),
-		fuelType: z.enum(['avgas', 'jet', 'other'], 'Choose a fuel type.'),
+		fuelType: z.enum(fuelTypes, 'Choose a fuel type.'),
 		densityKgPerL: optionalNumber(0.5, 1.0, 'the density in kg/L'),
-		displayUnit: z.enum(fuelUnits as [FuelUnit, ...FuelUnit[]], 'Choose a unit.'),
+		displayUnit: z.enum(fuelUnits, 'Choose a unit.'),
 		capacity: requiredNumber(1, 5000, 'the usable capacity'),
 		lowerLevel: optionalNumber(0, 5000, 'the lower fill level'),
 		unusable: optionalNumber(0, 500, 'the unusable fuel'),

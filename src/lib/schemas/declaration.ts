@@ -27,7 +27,7 @@ export const needsAmount = (kind: DeclarationKind): kind is AmountKind => kind =
 /** Generous upper bound on any typed amount; the engine clamps to the tank capacity and says so. */
 export const MAX_AMOUNT = 100_000;
 
-export const fuelUnitSchema = (message?: string) => z.enum(fuelUnits as [FuelUnit, ...FuelUnit[]], message);
+export const fuelUnitSchema = (message?: string) => z.enum(fuelUnits, message);
 
 /**
  * An amount as typed, in the one number grammar ($lib/csv/values): blank is null, a decimal comma

@@ -5,7 +5,7 @@
 import { z } from 'zod';
 import type { Declaration, FuelEventKind } from '$lib/fuel';
 import { REASON_MAX } from '$lib/corrections';
-import { verdictStates } from '$lib/fuel';
+import { FUEL_EVENT_KINDS, verdictStates } from '$lib/fuel';
 import { toLitres, type FuelUnit } from '$lib/units';
 import { plainText } from './text';
 import { MAX_AMOUNT, amountField, declarationKindOf, declarationSchema, fuelUnitSchema, toDeclaration } from './declaration';
@@ -68,16 +68,6 @@ export const declarationFormSchema = (densityKgPerL: number) =>
 		declaration: toDeclaration(v, { displayUnit: v.unit, densityKgPerL }),
 		previousOnBoardL: v.previous === null ? null : toLitres(v.previous, v.unit, densityKgPerL)
 	}));
-
-export const FUEL_EVENT_KINDS = ['added', 'removed', 'toFull', 'toLower', 'resetUsed'] as const satisfies readonly FuelEventKind[];
-
-export const fuelEventKindLabels: Record<FuelEventKind, string> = {
-	added: 'Fuel added',
-	removed: 'Fuel removed',
-	toFull: 'Filled to full',
-	toLower: 'Filled to the lower level',
-	resetUsed: 'Fuel used counter reset'
-};
 
 export const fuelEventFormSchema = (densityKgPerL: number) =>
 	z

@@ -7,6 +7,7 @@ import { DrizzlePostgreSQLAdapter } from '@lucia-auth/adapter-drizzle';
 import { Lucia, TimeSpan } from 'lucia';
 import type { Cookies } from '@sveltejs/kit';
 import { and, desc, eq, ne } from 'drizzle-orm';
+import { serverConfig } from './config';
 import { db, type Tx } from './db';
 import { sessions, users } from './db/schema';
 import { hashToken, newToken } from './tokens';
@@ -19,7 +20,7 @@ export const SESSION_ABSOLUTE_MS = 14 * 24 * 3600 * 1000;
 /** OWASP Password Storage Cheat Sheet minimum for argon2id: m=19456 KiB, t=2, p=1. */
 export const ARGON2_OPTIONS = { memoryCost: 19456, timeCost: 2, parallelism: 1, outputLen: 32 } as const;
 
-const secureCookies = (process.env.ORIGIN ?? '').startsWith('https://');
+const secureCookies = (serverConfig().ORIGIN ?? '').startsWith('https://');
 
 export const lucia = new Lucia(new DrizzlePostgreSQLAdapter(db, sessions, users), {
 	sessionExpiresIn: SESSION_IDLE,

@@ -1,5 +1,5 @@
 // The live stream's server-sent events, as the server sends them and the live page reads them.
-import type { AlarmKind, Declaration } from '$lib/fuel';
+import { ColumnBuilder, type AlarmKind, type Declaration, type SampleColumns } from '$lib/fuel';
 import type { PayloadEvent } from './replay';
 
 /** First event of every stream. */
@@ -72,3 +72,43 @@ export const EVENT_META = 'meta';
 export const EVENT_SAMPLES = 'samples';
 /** The flight is closed and the client holds every sample: do not reconnect. */
 export const EVENT_END = 'end';
+
+/**
+ * A run's samples as engine columns, through the engine's one rows→columns builder: times as
+ * (t0 + offset) ms ÷ 1000, the same double the server's engine is fed. Waypoint ids continue in
+ * `waypointIds` from run to run.
+ */
+export function samplesEventColumns(run: SamplesEvent, waypointIds: Map<string, number>): SampleColumns {
+	const n = run.tMs.length;
+	const rows = new ColumnBuilder(n, waypointIds);
+	for (let i = 0; i < n; i++) rows.push(run.from + i, run.t0Ms + run.tMs[i], run.flow[i], run.gs[i], run.dtg[i], run.alt[i], run.wpt[i]);
+	return rows.columns();
+}
+
+/** Stored samples as rows for the wire, in sequence order without holes. */
+export interface SampleRunRows {
+	tMs: readonly number[];
+	flow: readonly (number | null)[];
+	gs: readonly (number | null)[];
+	dtg: readonly (number | null)[];
+	alt: readonly (number | null)[];
+	wpt: readonly (string | null)[];
+}
+
+/** The samples event for rows a..n-1 of a run whose first row has sequence `first`; `at` as in SamplesEvent. */
+export function samplesEventOf(run: SampleRunRows, a: number, n: number, first: number, at: number): SamplesEvent {
+	const tMs = run.tMs.slice(a, n);
+	const t0Ms = tMs[0] ?? 0;
+	return {
+		from: first + a,
+		to: first + n - 1,
+		at,
+		t0Ms,
+		tMs: tMs.map((t) => t - t0Ms),
+		flow: run.flow.slice(a, n),
+		gs: run.gs.slice(a, n),
+		dtg: run.dtg.slice(a, n),
+		alt: run.alt.slice(a, n),
+		wpt: run.wpt.slice(a, n)
+	};
+}

@@ -1,5 +1,6 @@
 import { redirect } from '@sveltejs/kit';
 import { startSession } from '$lib/server/auth';
+import { demoMode } from '$lib/server/config';
 import { signInWithPassword } from '$lib/server/services/accounts';
 import { failForm, parseForm, withoutSecrets } from '$lib/schemas/form';
 import { signInSchema } from '$lib/schemas/account';
@@ -8,7 +9,7 @@ import type { Actions, PageServerLoad } from './$types';
 
 export const load = (async ({ locals, url }) => {
 	if (locals.user) redirect(303, safeNext(url.searchParams.get('next')));
-	return { demo: process.env.BURNDOWN_DEMO === '1' };
+	return { demo: demoMode() };
 }) satisfies PageServerLoad;
 
 export const actions = {

@@ -2,14 +2,16 @@
 // (build-time analysis, tests that set DATABASE_URL in their setup file first).
 import { drizzle } from 'drizzle-orm/node-postgres';
 import pg from 'pg';
+import { serverConfig } from '../config';
 import * as schema from './schema';
 
 // timestamptz as Date is Drizzle's job; leave pg's default parsers alone except int8 counts.
 pg.types.setTypeParser(20, (v) => Number(v));
 
+const config = serverConfig();
 export const pool = new pg.Pool({
-	connectionString: process.env.DATABASE_URL,
-	max: Number(process.env.DATABASE_POOL_MAX ?? 10)
+	connectionString: config.DATABASE_URL,
+	max: config.DATABASE_POOL_MAX
 });
 pool.on('error', (err) => console.error('[db] idle client error', err.message));
 

@@ -21,19 +21,22 @@ import {
 	uuid
 } from 'drizzle-orm/pg-core';
 import { PHASE_NAMES } from '../../fuel/phases';
+import { alarmKinds, FUEL_EVENT_KINDS } from '../../fuel/types';
+import { ROLES } from '../../permissions';
+import { fuelTypes, fuelUnits } from '../../units';
 
 const bytea = customType<{ data: Buffer; driverData: Buffer }>({ dataType: () => 'bytea' });
 const tstz = (name?: string) =>
 	name ? timestamp(name, { withTimezone: true, precision: 3 }) : timestamp({ withTimezone: true, precision: 3 });
 
-export const roleEnum = pgEnum('member_role', ['admin', 'instructor', 'pilot', 'viewer']);
-export const fuelTypeEnum = pgEnum('fuel_type', ['avgas', 'jet', 'other']);
-export const fuelUnitEnum = pgEnum('fuel_unit', ['usgal', 'l', 'impgal', 'lb', 'kg']);
+export const roleEnum = pgEnum('member_role', ROLES);
+export const fuelTypeEnum = pgEnum('fuel_type', fuelTypes);
+export const fuelUnitEnum = pgEnum('fuel_unit', fuelUnits);
 export const flightSourceEnum = pgEnum('flight_source', ['upload', 'live']);
 export const flightStatusEnum = pgEnum('flight_status', ['open', 'closed']);
-export const fuelEventKindEnum = pgEnum('fuel_event_kind', ['added', 'removed', 'toFull', 'toLower', 'resetUsed']);
+export const fuelEventKindEnum = pgEnum('fuel_event_kind', FUEL_EVENT_KINDS);
 export const fuelCorrectionKindEnum = pgEnum('fuel_correction_kind', ['declaration', 'eventAdded', 'eventRemoved']);
-export const alarmKindEnum = pgEnum('alarm_kind', ['lowFuel', 'lowEndurance', 'arrivalBelowReserve']);
+export const alarmKindEnum = pgEnum('alarm_kind', alarmKinds);
 export const debriefStatusEnum = pgEnum('debrief_status', DEBRIEF_STATUSES);
 export const flightPhaseEnum = pgEnum('flight_phase', PHASE_NAMES);
 

@@ -4,7 +4,7 @@
 import { asc, eq, sql } from 'drizzle-orm';
 import { engineInputsOf, fuelSetupOf, type AircraftFuelSetup } from '$lib/flight-inputs';
 import { recentCruiseFlowLph } from './recent-cruise';
-import { WPT_NONE, type FlightInput, type SampleColumns } from '$lib/fuel';
+import { ColumnBuilder, type FlightInput, type SampleColumns } from '$lib/fuel';
 import { PAYLOAD_VERSION, type ReplayData } from '$lib/wire/replay';
 import { db, type Db, type Tx } from '../db';
 import { aircraft, flights, fuelEvents, type Aircraft, type Flight, type FuelEventRow } from '../db/schema';
@@ -20,38 +20,18 @@ export interface FlightSamples {
 	hasWpt: boolean;
 }
 
-const num = (v: unknown): number => (v === null || v === undefined ? NaN : Number(v));
-
 /** Samples read per query: a page of row objects at a time, never the whole flight's. */
 const PAGE_ROWS = 20_000;
 
-/** A Float64Array / Int32Array twice the size, with the first `n` values kept. */
-function grown<A extends Float64Array | Int32Array>(a: A, n: number): A {
-	const b = new (a.constructor as new (size: number) => A)(Math.max(1024, a.length * 2));
-	b.set(a.subarray(0, n));
-	return b;
-}
-
 /**
- * The flight's samples in sequence order; a null cell becomes NaN ("not recorded"). Read page by
- * page (keyset on seq) straight into typed columns: a million samples as row objects would take
- * several hundred MB at once, the columns take about 50.
+ * The flight's samples in sequence order, through the engine's one rows→columns builder
+ * ($lib/fuel/columns). Read page by page (keyset on seq) straight into typed columns: a million
+ * samples as row objects would take several hundred MB at once, the columns take about 50.
  */
 export async function loadSampleColumns(flightId: string, q: Queryable = db): Promise<FlightSamples> {
 	const counted = await q.execute<{ n: number }>(sql`select count(*)::int as n from samples where flight_id = ${flightId}`);
-	let cap = Math.max(1, Number(counted.rows[0]?.n ?? 0));
-	let t = new Float64Array(cap);
-	let flow = new Float64Array(cap);
-	let gs = new Float64Array(cap);
-	let dtg = new Float64Array(cap);
-	let alt = new Float64Array(cap);
-	let wpt = new Int32Array(cap);
-	let seq = new Int32Array(cap);
-	const ids = new Map<string, number>();
-	const waypoints: string[] = [];
-	let hasAlt = false;
-	let hasWpt = false;
-	let n = 0;
+	// A live flight may grow after the count: the builder grows with it.
+	const builder = new ColumnBuilder(Math.max(1, Number(counted.rows[0]?.n ?? 0)));
 	let after = -2147483648;
 	for (;;) {
 		// Epoch milliseconds as an exact integer: ms ÷ 1000 is the same double Date.getTime() ÷ 1000
@@ -60,46 +40,11 @@ export async function loadSampleColumns(flightId: string, q: Queryable = db): Pr
 			select seq, (extract(epoch from t) * 1000)::float8 as ms, flow, gs, dtg, alt, wpt
 			from samples where flight_id = ${flightId} and seq > ${after} order by seq limit ${PAGE_ROWS}`);
 		const rows = result.rows;
-		for (const r of rows) {
-			// A live flight may have grown since the count.
-			if (n === cap) {
-				t = grown(t, n);
-				flow = grown(flow, n);
-				gs = grown(gs, n);
-				dtg = grown(dtg, n);
-				alt = grown(alt, n);
-				wpt = grown(wpt, n);
-				seq = grown(seq, n);
-				cap = t.length;
-			}
-			const i = n++;
-			seq[i] = Number(r.seq);
-			t[i] = Number(r.ms) / 1000;
-			flow[i] = num(r.flow);
-			gs[i] = num(r.gs);
-			dtg[i] = num(r.dtg);
-			alt[i] = num(r.alt);
-			if (r.alt !== null) hasAlt = true;
-			if (r.wpt === null || r.wpt === '') wpt[i] = WPT_NONE;
-			else {
-				hasWpt = true;
-				let id = ids.get(r.wpt);
-				if (id === undefined) {
-					id = waypoints.length;
-					ids.set(r.wpt, id);
-					waypoints.push(r.wpt);
-				}
-				wpt[i] = id;
-			}
-		}
+		for (const r of rows) builder.push(Number(r.seq), Number(r.ms), r.flow, r.gs, r.dtg, r.alt, r.wpt);
 		if (rows.length < PAGE_ROWS) break;
-		after = seq[n - 1];
+		after = Number(rows[rows.length - 1].seq);
 	}
-	const fit = <A extends Float64Array | Int32Array>(a: A): A => (a.length === n ? a : (a.slice(0, n) as A));
-	const columns: SampleColumns = { t: fit(t), flow: fit(flow), gs: fit(gs), dtg: fit(dtg) };
-	if (hasAlt) columns.alt = fit(alt);
-	if (hasWpt) columns.wpt = fit(wpt);
-	return { columns, seq: fit(seq), waypoints, hasAlt, hasWpt };
+	return { columns: builder.columns(), seq: builder.seq(), waypoints: builder.waypoints(), hasAlt: builder.hasAlt, hasWpt: builder.hasWpt };
 }
 
 export interface LoadedFlight {

@@ -31,11 +31,10 @@ import {
 	type MappingOrigin,
 	type MappingResolver,
 	type ParseSummary,
-	type RecorderRow,
 	type RowProblem
 } from '$lib/csv';
 import type { UploadProgress } from '$lib/wire/upload';
-import { computeFlight, summarize, WPT_NONE, type FlightSummary, type SampleColumns } from '$lib/fuel';
+import { ColumnBuilder, computeFlight, summarize, type FlightSummary } from '$lib/fuel';
 import { engineInputsOf, fuelSetupOf } from '$lib/flight-inputs';
 import { recentCruiseFlowLph } from '../flights/recent-cruise';
 import { declarationProblem, toDeclaration } from '$lib/schemas/declaration';
@@ -108,67 +107,6 @@ export type IngestResult =
 	| { status: 'tooLarge'; limitBytes: number; message: string };
 
 const SAMPLES_COPY = `COPY samples (${SAMPLE_COPY_COLUMNS}) FROM STDIN (FORMAT binary)`;
-
-/** Columns for the engine's summary, grown as rows arrive (a few bytes per sample). */
-class ColumnBuilder {
-	n = 0;
-	private cap = 4096;
-	t = new Float64Array(this.cap);
-	flow = new Float64Array(this.cap);
-	gs = new Float64Array(this.cap);
-	dtg = new Float64Array(this.cap);
-	alt = new Float64Array(this.cap);
-	wpt = new Int32Array(this.cap);
-	private wptIds = new Map<string, number>();
-	private hasAlt = false;
-
-	push(r: RecorderRow): void {
-		if (this.n === this.cap) this.grow();
-		const i = this.n++;
-		this.t[i] = r.tMs / 1000;
-		this.flow[i] = r.flow ?? NaN;
-		this.gs[i] = r.gs ?? NaN;
-		this.dtg[i] = r.dtg ?? NaN;
-		this.alt[i] = r.alt ?? NaN;
-		if (r.alt !== null) this.hasAlt = true;
-		if (r.wpt === null) this.wpt[i] = WPT_NONE;
-		else {
-			let id = this.wptIds.get(r.wpt);
-			if (id === undefined) this.wptIds.set(r.wpt, (id = this.wptIds.size));
-			this.wpt[i] = id;
-		}
-	}
-
-	private grow(): void {
-		this.cap *= 2;
-		const f = (a: Float64Array) => {
-			const b = new Float64Array(this.cap);
-			b.set(a);
-			return b;
-		};
-		this.t = f(this.t);
-		this.flow = f(this.flow);
-		this.gs = f(this.gs);
-		this.dtg = f(this.dtg);
-		this.alt = f(this.alt);
-		const w = new Int32Array(this.cap);
-		w.set(this.wpt);
-		this.wpt = w;
-	}
-
-	/**
-	 * The columns as the replay's loader builds them from the stored rows (altitude and waypoints
-	 * only when the flight has any, ids in order of first appearance), so the summary stored
-	 * here is the one a later recompute gives.
-	 */
-	columns(): SampleColumns {
-		const n = this.n;
-		const cols: SampleColumns = { t: this.t.subarray(0, n), flow: this.flow.subarray(0, n), gs: this.gs.subarray(0, n), dtg: this.dtg.subarray(0, n) };
-		if (this.hasAlt) cols.alt = this.alt.subarray(0, n);
-		if (this.wptIds.size > 0) cols.wpt = this.wpt.subarray(0, n);
-		return cols;
-	}
-}
 
 function titleFrom(fileName: string): string {
 	return fileName.replace(/\.(csv|txt|log)$/i, '').slice(0, 120);
@@ -286,6 +224,7 @@ async function ingestSpooled(req: IngestRequest, profiles: Profile[], spool: Fil
 	const uploadId = randomUUID();
 	const flightId = randomUUID();
 	const encoder = new SampleCopyEncoder(flightId);
+	// The engine's columns for the summary, built as the replay loader builds them from the stored rows.
 	const columns = new ColumnBuilder();
 	let rowIndex = 0;
 	let lastSeq = -1;
@@ -302,7 +241,7 @@ async function ingestSpooled(req: IngestRequest, profiles: Profile[], spool: Fil
 					lastSeq = r.seq ?? rowIndex;
 					encoder.push(r, lastSeq);
 					rowIndex++;
-					columns.push(r);
+					columns.push(lastSeq, r.tMs, r.flow, r.gs, r.dtg, r.alt, r.wpt);
 				}
 			},
 			// Per chunk of input, good rows or not, so a file full of problems shows progress too.

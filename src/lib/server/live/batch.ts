@@ -80,9 +80,9 @@ export const jsonBatchSchema = z.object({
 	firstSeq: z.number().int().min(0).max(MAX_SEQ).optional(),
 	units: z
 		.object({
-			flow: z.enum(flowUnits as [FlowUnit, ...FlowUnit[]]).default('l/h'),
-			speed: z.enum(speedUnits as [(typeof speedUnits)[number], ...(typeof speedUnits)[number][]]).default('kt'),
-			distance: z.enum(distanceUnits as [(typeof distanceUnits)[number], ...(typeof distanceUnits)[number][]]).default('nm'),
+			flow: z.enum(flowUnits).default('l/h'),
+			speed: z.enum(speedUnits).default('kt'),
+			distance: z.enum(distanceUnits).default('nm'),
 			altitude: z.enum(['ft', 'm']).default('ft')
 		})
 		.optional(),

@@ -3,9 +3,10 @@
 // then reads the new samples once per flight and hands every viewer exactly the run after its own
 // cursor. A viewer's cursor only moves by whole contiguous runs, so nothing is lost or repeated.
 import pg from 'pg';
+import { serverConfig } from '../config';
 import { NEAR_HEAD, PAGE_SAMPLES } from './config';
 import { loadMeta, type FlightMeta } from './meta';
-import { EVENT_META, EVENT_SAMPLES, type MetaEvent, type SamplesEvent } from '$lib/wire/live';
+import { EVENT_META, EVENT_SAMPLES, samplesEventOf, type MetaEvent } from '$lib/wire/live';
 import { NOTIFY_CHANNEL, type AccessNotice, type LiveNotice } from './protocol';
 import { readRun, type SampleRun } from './samples';
 
@@ -241,21 +242,7 @@ export class LiveHub {
 			if (start < first || start > last) continue;
 			let data = payloads.get(start);
 			if (data === undefined) {
-				const a = start - first;
-				const tMs = run.tMs.slice(a, n);
-				const t0Ms = tMs[0];
-				const event: SamplesEvent = {
-					from: start,
-					to: last,
-					at: fs.at,
-					t0Ms,
-					tMs: tMs.map((t) => t - t0Ms),
-					flow: run.flow.slice(a, n),
-					gs: run.gs.slice(a, n),
-					dtg: run.dtg.slice(a, n),
-					alt: run.alt.slice(a, n),
-					wpt: run.wpt.slice(a, n)
-				};
+				const event = samplesEventOf(run, start - first, n, first, fs.at);
 				data = JSON.stringify(event);
 				payloads.set(start, data);
 			}
@@ -276,7 +263,7 @@ export class LiveHub {
 	}
 
 	private async connect(): Promise<void> {
-		const client = new pg.Client({ connectionString: this.options.connectionString ?? process.env.DATABASE_URL, keepAlive: true });
+		const client = new pg.Client({ connectionString: this.options.connectionString ?? serverConfig().DATABASE_URL, keepAlive: true });
 		client.on('notification', (m) => {
 			if (m.channel === NOTIFY_CHANNEL) this.onNotice(m.payload);
 		});

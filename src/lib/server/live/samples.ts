@@ -2,7 +2,7 @@
 // highest contiguous sequence (what a recorder is acknowledged and what viewers may see), the
 // stored neighbours a batch must fit between in time, and reading sequence ranges back.
 import { sql } from 'drizzle-orm';
-import { WPT_NONE, type SampleColumns } from '$lib/fuel';
+import { ColumnBuilder, type SampleColumns } from '$lib/fuel';
 import { db, type Db, type Tx } from '../db';
 import type { LiveSample } from './batch';
 
@@ -121,34 +121,13 @@ export async function readRun(flightId: string, after: number, upTo: number, lim
 }
 
 /**
- * A run as engine columns. Waypoint names become ids in order of first appearance, continuing
- * `ids` across calls, the same numbering the replay loader ($lib/server/flights/load) gives.
+ * A run as engine columns, through the engine's one rows→columns builder. Waypoint names become
+ * ids in order of first appearance, continuing `ids` across calls: the same numbering the
+ * replay loader gives.
  */
 export function runColumns(run: SampleRun, ids: Map<string, number>): SampleColumns {
 	const n = run.seq.length;
-	const t = new Float64Array(n);
-	const flow = new Float64Array(n);
-	const gs = new Float64Array(n);
-	const dtg = new Float64Array(n);
-	const alt = new Float64Array(n);
-	const wpt = new Int32Array(n);
-	const num = (v: number | null) => (v === null ? NaN : v);
-	for (let i = 0; i < n; i++) {
-		t[i] = run.tMs[i] / 1000;
-		flow[i] = num(run.flow[i]);
-		gs[i] = num(run.gs[i]);
-		dtg[i] = num(run.dtg[i]);
-		alt[i] = num(run.alt[i]);
-		const w = run.wpt[i];
-		if (w === null || w === '') wpt[i] = WPT_NONE;
-		else {
-			let id = ids.get(w);
-			if (id === undefined) {
-				id = ids.size;
-				ids.set(w, id);
-			}
-			wpt[i] = id;
-		}
-	}
-	return { t, flow, gs, dtg, alt, wpt };
+	const b = new ColumnBuilder(n, ids);
+	for (let i = 0; i < n; i++) b.push(run.seq[i], run.tMs[i], run.flow[i], run.gs[i], run.dtg[i], run.alt[i], run.wpt[i]);
+	return b.columns();
 }

@@ -1,17 +1,19 @@
 // Every e-mail Burndown sends goes through here (nodemailer over SMTP). In development and tests
 // SMTP points at the local sink (scripts/mail-sink.ts); in production at the SMTP_* servers.
 import nodemailer, { type Transporter } from 'nodemailer';
+import { serverConfig } from '../config';
 
 let transport: Transporter | undefined;
 
 function transporter(): Transporter {
+	const c = serverConfig();
 	transport ??= nodemailer.createTransport({
-		host: process.env.SMTP_HOST ?? '127.0.0.1',
-		port: Number(process.env.SMTP_PORT ?? 2525),
-		secure: process.env.SMTP_SECURE === 'true',
-		auth: process.env.SMTP_USER ? { user: process.env.SMTP_USER, pass: process.env.SMTP_PASS ?? '' } : undefined,
+		host: c.SMTP_HOST,
+		port: c.SMTP_PORT,
+		secure: c.SMTP_SECURE,
+		auth: c.SMTP_USER ? { user: c.SMTP_USER, pass: c.SMTP_PASS ?? '' } : undefined,
 		// The local sink speaks plain SMTP on loopback; a real server negotiates STARTTLS.
-		ignoreTLS: !process.env.SMTP_USER && (process.env.SMTP_HOST ?? '127.0.0.1') === '127.0.0.1'
+		ignoreTLS: !c.SMTP_USER && c.SMTP_HOST === '127.0.0.1'
 	});
 	return transport;
 }
@@ -25,14 +27,14 @@ export interface Message {
 
 export async function sendMail(message: Message): Promise<void> {
 	await transporter().sendMail({
-		from: process.env.MAIL_FROM ?? 'Burndown <no-reply@burndown.invalid>',
+		from: serverConfig().MAIL_FROM,
 		...message
 	});
 }
 
 /** Absolute link for e-mails, from ORIGIN (adapter-node's setting) or the request's origin. */
 export function link(path: string, fallbackOrigin?: string): string {
-	return new URL(path, process.env.ORIGIN ?? fallbackOrigin ?? 'http://127.0.0.1:5180').toString();
+	return new URL(path, serverConfig().ORIGIN ?? fallbackOrigin ?? 'http://127.0.0.1:5180').toString();
 }
 
 const pending = new Set<Promise<void>>();

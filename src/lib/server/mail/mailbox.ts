@@ -3,6 +3,7 @@
 // only their own messages: the sink also holds everyone's reset and invitation links.
 import { readdir, readFile } from 'node:fs/promises';
 import { join } from 'node:path';
+import { demoMode, serverConfig } from '../config';
 
 /** One message as scripts/mail-sink.ts stores it (one JSON file each); tests read the same files. */
 export interface StoredMessage {
@@ -17,7 +18,7 @@ export interface StoredMessage {
 	html: string | null;
 }
 
-export const mailboxEnabled = () => process.env.BURNDOWN_DEMO === '1' && !!process.env.MAILBOX_DIR;
+export const mailboxEnabled = () => demoMode() && !!serverConfig().MAILBOX_DIR;
 
 /** The newest messages delivered to `address` (compared without regard to case). */
 export async function listMailboxFor(address: string, limit = 100): Promise<StoredMessage[]> {
@@ -26,7 +27,7 @@ export async function listMailboxFor(address: string, limit = 100): Promise<Stor
 }
 
 async function listMailbox(): Promise<StoredMessage[]> {
-	const dir = process.env.MAILBOX_DIR;
+	const dir = serverConfig().MAILBOX_DIR;
 	if (!dir) return [];
 	let names: string[];
 	try {

@@ -2,8 +2,8 @@
 // and the incremental fuel computation fed by each run of samples, so every figure updates with
 // the same engine a replay runs. Redraws are batched to a few per second however fast data comes.
 import { engineInputsOf, type AircraftFuelSetup } from '$lib/flight-inputs';
-import { createLiveComputation, WPT_NONE, type Declaration, type FlightComputation, type LiveComputation, type SampleColumns } from '$lib/fuel';
-import type { MetaEvent, SamplesEvent } from '$lib/wire/live';
+import { createLiveComputation, type Declaration, type FlightComputation, type LiveComputation, type SampleColumns } from '$lib/fuel';
+import { samplesEventColumns, type MetaEvent, type SamplesEvent } from '$lib/wire/live';
 import { openLiveStream, type LiveStream, type StreamStatus } from './stream-client';
 
 /** Longest pause between redraws while samples stream in. */
@@ -94,35 +94,9 @@ export class LiveFlight {
 	}
 
 	private append(run: SamplesEvent): void {
-		const n = run.tMs.length;
-		const t = new Float64Array(n);
-		const flow = new Float64Array(n);
-		const gs = new Float64Array(n);
-		const dtg = new Float64Array(n);
-		const alt = new Float64Array(n);
-		const wpt = new Int32Array(n);
-		let newNames = false;
-		for (let i = 0; i < n; i++) {
-			// (t0 + offset) ms ÷ 1000: the same double the server's engine is fed.
-			t[i] = (run.t0Ms + run.tMs[i]) / 1000;
-			flow[i] = run.flow[i] ?? NaN;
-			gs[i] = run.gs[i] ?? NaN;
-			dtg[i] = run.dtg[i] ?? NaN;
-			alt[i] = run.alt[i] ?? NaN;
-			const w = run.wpt[i];
-			if (w === null || w === '') wpt[i] = WPT_NONE;
-			else {
-				let id = this.ids.get(w);
-				if (id === undefined) {
-					id = this.ids.size;
-					this.ids.set(w, id);
-					newNames = true;
-				}
-				wpt[i] = id;
-			}
-		}
-		this.comp.append({ t, flow, gs, dtg, alt, wpt });
-		if (newNames) this.waypoints = [...this.ids.keys()];
+		const known = this.ids.size;
+		this.comp.append(samplesEventColumns(run, this.ids));
+		if (this.ids.size !== known) this.waypoints = [...this.ids.keys()];
 		if (this.lastReceivedAt === null || run.at > this.lastReceivedAt) this.lastReceivedAt = run.at;
 		this.redraw ??= setTimeout(() => {
 			this.redraw = null;

@@ -1,0 +1,39 @@
+// The server's settings from the environment, parsed with zod in one place: every module reads
+// `serverConfig()` instead of process.env, so a variable has one name, one default and one type
+// (the table in DEVELOPERS.md, "Configuration"). Parsed at each call — a few dozen string checks —
+// so a test or an operator changing a variable sees it at the next request. A value that does not
+// parse is an error naming the variable, never a silent NaN. The tunables of limits.ts and
+// live/config.ts keep their own readers (each falls back to its default on a bad value, on purpose).
+import { z } from 'zod';
+
+/** An unset variable and an empty one mean the same: not set. */
+const optional = <T extends z.ZodType>(schema: T) => z.preprocess((v) => (v === '' ? undefined : v), schema);
+
+const envSchema = z.object({
+	DATABASE_URL: optional(z.string().optional()),
+	DATABASE_POOL_MAX: optional(z.coerce.number().int().min(1).default(10)),
+	ORIGIN: optional(z.string().optional()),
+	SMTP_HOST: optional(z.string().default('127.0.0.1')),
+	SMTP_PORT: optional(z.coerce.number().int().min(1).max(65535).default(2525)),
+	SMTP_SECURE: optional(z.string().optional()).transform((v) => v === 'true'),
+	SMTP_USER: optional(z.string().optional()),
+	SMTP_PASS: optional(z.string().optional()),
+	MAIL_FROM: optional(z.string().default('Burndown <no-reply@burndown.invalid>')),
+	/** Demo mode: the mailbox page and the demo sign-ins. Never set in production. */
+	BURNDOWN_DEMO: optional(z.string().optional()).transform((v) => v === '1'),
+	MAILBOX_DIR: optional(z.string().optional())
+});
+
+export type ServerConfig = z.infer<typeof envSchema>;
+
+export function serverConfig(env: Record<string, string | undefined> = process.env): ServerConfig {
+	const parsed = envSchema.safeParse(env);
+	if (!parsed.success) {
+		const issue = parsed.error.issues[0];
+		throw new Error(`Environment variable ${String(issue.path[0])}: ${issue.message}`);
+	}
+	return parsed.data;
+}
+
+/** The one demo flag. */
+export const demoMode = (): boolean => serverConfig().BURNDOWN_DEMO;
