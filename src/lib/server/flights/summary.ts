@@ -2,24 +2,50 @@
 // the lists read) and the aircraft's "last known on board", recomputed from the stored samples and
 // fuel inputs with the same engine the browser runs. Every write that changes an input (upload,
 // declaration, fuel event, close, aircraft fuel profile, meter factor) calls it in its transaction.
-import { and, asc, desc, eq, isNotNull, sql } from 'drizzle-orm';
-import { computeFlight, summarize, type FlightComputation, type FlightSummary } from '$lib/fuel';
-import { db } from '../db';
-import { aircraft, flights } from '../db/schema';
+import { asc, eq } from 'drizzle-orm';
+import { computeFlight, summarize, type FlightComputation, type FlightInput, type FlightSummary } from '$lib/fuel';
+import { db, type Db } from '../db';
+import { aircraft, flights, type Flight } from '../db/schema';
+import { newestShutdownOnBoard } from '../ingest/placement';
 import { storeComputedFigures } from './figures';
 import { loadFlight, type LoadedFlight, type Queryable } from './load';
 
 /**
  * The version of how stored figures are derived. Raise it with any change to the engine or to
- * what recomputeSummary stores that changes a stored figure: flights written by an older version
- * are recomputed once at start (refreshStaleFlights in ./refresh.ts), so no list, history or
- * export keeps figures the replay would no longer show.
+ * what storeDerived stores that changes a stored figure: flights written by an older version are
+ * recomputed once at start (refreshStaleFlights in ./refresh.ts), so no list, history or export
+ * keeps figures the replay would no longer show.
  */
 export const DERIVED_VERSION = 1;
 
-export function computeLoaded(f: LoadedFlight): { computation: FlightComputation; summary: FlightSummary } {
-	const computation = computeFlight(f.input);
+export interface Computed {
+	computation: FlightComputation;
+	summary: FlightSummary;
+}
+
+/** The one derivation of a flight's figures from its engine input. */
+export function computeInput(input: FlightInput): Computed {
+	const computation = computeFlight(input);
 	return { computation, summary: summarize(computation) };
+}
+
+export function computeLoaded(f: LoadedFlight): Computed {
+	return computeInput(f.input);
+}
+
+/** Any Drizzle handle that reads and writes: the pool, a transaction, the upload's own client. */
+type Writer = Pick<Db, 'select' | 'update' | 'insert' | 'delete'>;
+
+/**
+ * Stores what was derived for a flight: its cached summary, the history's per-flight and
+ * per-phase figures, and the aircraft's last known fuel on board. `computed` is null for an open
+ * flight (nothing stored). recomputeSummary and the upload both end here.
+ */
+export async function storeDerived(flight: Pick<Flight, 'id' | 'aircraftId'>, input: FlightInput, computed: Computed | null, q: Writer): Promise<void> {
+	await q.update(flights).set({ summary: computed?.summary ?? null, derivedVersion: DERIVED_VERSION, updatedAt: new Date() }).where(eq(flights.id, flight.id));
+	// The history's typed per-flight and per-phase figures, from this same computation.
+	await storeComputedFigures(flight.id, computed, input.columns, input.profile.meterFactor, q);
+	await refreshLastOnBoard(flight.aircraftId, q);
 }
 
 /**
@@ -31,12 +57,8 @@ export async function recomputeSummary(flightId: string, q: Queryable = db): Pro
 	const loaded = await loadFlight(flightId, q);
 	if (!loaded) return null;
 	const computed = loaded.flight.status === 'closed' ? computeLoaded(loaded) : null;
-	const summary = computed?.summary ?? null;
-	await q.update(flights).set({ summary, derivedVersion: DERIVED_VERSION, updatedAt: new Date() }).where(eq(flights.id, flightId));
-	// The history's typed per-flight and per-phase figures, from this same computation.
-	await storeComputedFigures(flightId, computed, loaded.input.columns, loaded.input.profile.meterFactor, q);
-	await refreshLastOnBoard(loaded.flight.aircraftId, q);
-	return summary;
+	await storeDerived(loaded.flight, loaded.input, computed, q);
+	return computed?.summary ?? null;
 }
 
 /**
@@ -61,16 +83,12 @@ export async function recomputeAircraftFlights(aircraftId: string, q: Queryable)
 }
 
 /**
- * The aircraft's last known fuel on board is the latest closed flight's fuel at shutdown. An
- * aircraft with no such flight keeps the figure it was given (a fleet entry, the demo data).
+ * The aircraft's last known fuel on board is its newest flight's fuel at shutdown (the rule in
+ * ingest/placement.ts). An aircraft with no such flight keeps the figure it was given (a fleet
+ * entry, the demo data).
  */
-async function refreshLastOnBoard(aircraftId: string, q: Queryable): Promise<void> {
-	const [latest] = await q
-		.select({ onBoardL: sql<number | null>`(${flights.summary}->>'onBoardAtShutdownL')::float8` })
-		.from(flights)
-		.where(and(eq(flights.aircraftId, aircraftId), eq(flights.status, 'closed'), isNotNull(flights.summary)))
-		.orderBy(desc(flights.startedAt))
-		.limit(1);
-	if (!latest || latest.onBoardL === null) return;
-	await q.update(aircraft).set({ lastOnBoardL: latest.onBoardL, updatedAt: new Date() }).where(eq(aircraft.id, aircraftId));
+async function refreshLastOnBoard(aircraftId: string, q: Writer): Promise<void> {
+	const onBoardL = await newestShutdownOnBoard(q, aircraftId);
+	if (onBoardL === null) return;
+	await q.update(aircraft).set({ lastOnBoardL: onBoardL, updatedAt: new Date() }).where(eq(aircraft.id, aircraftId));
 }

@@ -1,7 +1,17 @@
 // Import profiles: an organisation's named column mappings for recorder files in other layouts,
 // matched to a file by its header's signature.
 import { and, asc, eq } from 'drizzle-orm';
-import { createRowReader, headerSignature, profileMapping, type ColumnMapping } from '$lib/csv';
+import {
+	burndownMapping,
+	columnMappingSchema,
+	createRowReader,
+	headerSignature,
+	profileMapping,
+	type ColumnMapping,
+	type MappingChoice,
+	type MappingOrigin,
+	type MappingResolver
+} from '$lib/csv';
 import { db } from '../db';
 import { importProfiles, type ImportProfile } from '../db/schema';
 
@@ -52,4 +62,50 @@ export async function saveImportProfile(
 		.onConflictDoUpdate({ target: [importProfiles.orgId, importProfiles.name], set: { headerSignature: signature, mapping: stored, createdBy: userId, createdAt: new Date() } })
 		.returning({ id: importProfiles.id, name: importProfiles.name, headerSignature: importProfiles.headerSignature });
 	return { ok: true, saved: { ...row, mapping: stored } };
+}
+
+/** What an upload says about its mapping (IngestRequest's fields of the same names). */
+export interface MappingRequest {
+	/** A mapping from the column mapper; null for our format or a matching import profile. */
+	mapping?: ColumnMapping | null;
+	/** An import profile of the organisation to apply. */
+	profileId?: string | null;
+	/** The date (clock times) or start (elapsed seconds) of this file, for a profile that needs it. */
+	timeBase?: { date?: string; start?: string };
+}
+
+/**
+ * Picks the mapping: the one given, the chosen profile, our own format, or the newest profile
+ * matching the header. The profiles are read before the upload takes its connection: a query
+ * needing a second connection while every pooled one waits for it would never finish.
+ */
+export function mappingResolver(req: MappingRequest, profiles: readonly ProfileForMatching[]): MappingResolver {
+	const withTimeBase = (m: ColumnMapping, origin: MappingOrigin, line: number): MappingChoice => {
+		const merged = { ...m, time: { ...m.time, ...(req.timeBase?.date ? { date: req.timeBase.date } : {}), ...(req.timeBase?.start ? { start: req.timeBase.start } : {}) } };
+		const checked = columnMappingSchema.safeParse(merged);
+		if (checked.success) return { mapping: checked.data, origin };
+		const issue = checked.error.issues[0];
+		return { problem: { line, column: '', value: '', message: `${origin.profileName ? `Import profile "${origin.profileName}": ` : ''}${issue.message}` } };
+	};
+	const fromProfile = (p: ProfileForMatching, line: number) => withTimeBase(p.mapping as ColumnMapping, { kind: 'profile', profileId: p.id, profileName: p.name }, line);
+	return (header) => {
+		if (req.mapping) return withTimeBase(req.mapping, { kind: 'given' }, header.line);
+		if (req.profileId) {
+			const p = profiles.find((x) => x.id === req.profileId);
+			if (!p) return { problem: { line: header.line, column: '', value: req.profileId, message: 'The chosen import profile does not exist in this organisation.' } };
+			return fromProfile(p, header.line);
+		}
+		const ours = burndownMapping(header.names);
+		if ('mapping' in ours) return { mapping: ours.mapping, origin: { kind: 'burndown' } };
+		const match = profiles.filter((x) => x.headerSignature === header.signature).sort((a, b) => b.createdAt.getTime() - a.createdAt.getTime())[0];
+		if (match) return fromProfile(match, header.line);
+		return {
+			problem: {
+				line: header.line,
+				column: '',
+				value: header.names.join(header.layout.delimiter).slice(0, 200),
+				message: `${ours.message} No import profile of this organisation matches these columns either: map the columns on the upload page, or send a mapping.`
+			}
+		};
+	};
 }
