@@ -21,6 +21,8 @@ test('the owner sees the rich trip marked, and its difference from the leaned tr
 	// The extra fuel is quantified and a likely cause named, as a possibility.
 	await expect(rich.getByTestId('high-burn')).toContainText(/cruise [\d.]+ US gal\/h over usual .* about [\d.]+ US gal extra/);
 	await expect(rich.getByTestId('high-burn')).toContainText('mixture may not have been leaned');
+	// The reserve column reads the flight's stored verdict, in the flights list's words.
+	await expect(rich.getByTestId('history-verdict')).toHaveText(/^(Reserve kept|Landed below the reserve|No reserve amount to judge)/);
 	await page.screenshot({ path: 'test-results/owner-history.png', fullPage: true });
 
 	await leaned.getByRole('checkbox').check();

@@ -10,6 +10,7 @@ import {
 	findHighBurn,
 	learnBaseline,
 	type Baseline,
+	type FlightVerdict,
 	type BaselineFlight,
 	type BaselinePhase,
 	type PhaseFigures
@@ -112,7 +113,9 @@ export async function aircraftHistory(v: ListViewer, aircraftId: string, q: Hist
 				pilot: users.name,
 				f: flightFigures,
 				unusualReason: flightUnusualMarks.reason,
-				unusual: flightUnusualMarks.flightId
+				unusual: flightUnusualMarks.flightId,
+				// The flight's one reserve verdict, as stored in its summary (replay and flights list read it too).
+				verdict: sql<FlightVerdict | null>`${flights.summary}->'verdict'`
 			})
 			.from(flights)
 			.innerJoin(flightFigures, eq(flightFigures.flightId, flights.id))
@@ -167,7 +170,7 @@ export async function aircraftHistory(v: ListViewer, aircraftId: string, q: Hist
 			phases: byPhase,
 			unusual: r.unusual !== null ? { reason: r.unusualReason ?? '' } : null,
 			highBurn: findHighBurn(ph, baseline, { thresholdPercent: settings.thresholdPercent, leaningMoments: r.f.leaningMoments }),
-			reserveVerdict: null
+			reserveVerdict: r.verdict ?? null
 		};
 	});
 	const trend: TrendPoint[] = trendRows.map((r) => ({ t: r.t, cruiseFlowLph: r.cruise, fuelPerEngineHourLph: r.perHour }));
