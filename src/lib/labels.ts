@@ -37,3 +37,10 @@ export const baselineSourceLabels = {
 
 /** A leaning moment on the replay timeline. */
 export const leaningTitle = 'Mixture leaned';
+
+/** Where a calibration entry's factors came from. */
+export const calibrationSourceLabels = {
+	reconciliation: 'From a reconciliation with fuel pumped',
+	hand: 'Set by hand',
+	initial: 'Factors before dated history'
+} as const;

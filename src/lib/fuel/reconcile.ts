@@ -53,7 +53,15 @@ export interface ReconciliationWindow {
 }
 
 /** Windows between consecutive fills to full, newest first. */
-export function reconcile(receipts: readonly ReconcileReceipt[], flights: readonly ReconcileFlight[], options: { kFactorOld?: number | null }): ReconciliationWindow[] {
+/**
+ * `kFactorOld` is the sensor's K-factor during the window (K_new = K_old ÷ MF needs the K the
+ * pulses were counted with): one number, or the K in force at a window's start.
+ */
+export function reconcile(
+	receipts: readonly ReconcileReceipt[],
+	flights: readonly ReconcileFlight[],
+	options: { kFactorOld?: number | null | ((from: number) => number | null) }
+): ReconciliationWindow[] {
 	const sorted = [...receipts].sort((a, b) => a.at - b.at || a.id.localeCompare(b.id));
 	const byStart = [...flights].sort((a, b) => a.startedAt - b.startedAt || a.id.localeCompare(b.id));
 	const windows: ReconciliationWindow[] = [];
@@ -85,7 +93,7 @@ export function reconcile(receipts: readonly ReconcileReceipt[], flights: readon
 				gapTimeS: inside.reduce((s, f) => s + f.gapTimeS, 0),
 				flightsWithoutFigures: inside.filter((f) => f.fuelUsedL === null).map((f) => f.id),
 				mixedFactors: factors.size > 1,
-				proposal: calibrate({ indicatedL, pumpedL, kFactorOld: options.kFactorOld })
+				proposal: calibrate({ indicatedL, pumpedL, kFactorOld: typeof options.kFactorOld === 'function' ? options.kFactorOld(first.at) : options.kFactorOld })
 			});
 		}
 		open = { receipt: r, index };

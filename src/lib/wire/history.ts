@@ -58,4 +58,6 @@ export interface HistoryPage {
 	baseline: Baseline;
 	settings: BurnSettingsView;
 	pilots: { id: string; name: string }[];
+	/** Fuel pumped ÷ fuel computed that persists over the newest fill-up windows; null without one. */
+	pumpedOverComputed: number | null;
 }

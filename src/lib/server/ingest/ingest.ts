@@ -37,6 +37,7 @@ import {
 } from '$lib/csv';
 import { computeFlight, summarize, WPT_NONE, type FlightSummary, type SampleColumns } from '$lib/fuel';
 import { engineInputsOf, fuelSetupOf } from '$lib/flight-inputs';
+import { aircraftAt } from '../calibration/in-force';
 import { recentCruiseFlowLph } from '../flights/recent-cruise';
 import { declarationProblem, toDeclaration } from '$lib/schemas/declaration';
 import { db as poolDb, pool } from '../db';
@@ -411,7 +412,8 @@ async function ingestSpooled(req: IngestRequest, profiles: Profile[], spool: Fil
 		// The aircraft's figures as they are now, not as they were when this request began: another
 		// upload may have moved them while this one waited for the lock.
 		const [current] = await db.select().from(aircraftTable).where(eq(aircraftTable.id, a.id)).limit(1);
-		const ac = current ?? a;
+		// With the meter factor and K-factor in force at this flight's engine start (dated calibration).
+		const ac = await aircraftAt(current ?? a, first);
 		const later = await client.query('SELECT 1 FROM flights WHERE aircraft_id = $1 AND id <> $3 AND started_at > $2 LIMIT 1', [a.id, first, flightId]);
 		const newest = later.rowCount === 0;
 		const before = await client.query<{ on_board: number | null }>(
