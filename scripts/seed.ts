@@ -73,7 +73,7 @@ async function seedPumpReceipts(): Promise<void> {
 		.where(and(eq(flightsTable.aircraftId, a.id), gte(flightsTable.startedAt, first), lt(flightsTable.startedAt, second)));
 	const gal = (l: number) => Math.round(fromLitres(l, 'usgal', a.densityKgPerL) * 10) / 10;
 	const topUp = 8;
-	const rest = Math.max(1, gal(computed * 1.06) - topUp);
+	const rest = Math.max(1, Math.round((gal(computed * 1.06) - topUp) * 10) / 10);
 	const receipt = (at: Date, amount: number, filledToFull: boolean, note: string) => ({
 		aircraftId: a.id,
 		at,
