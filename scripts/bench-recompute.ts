@@ -73,7 +73,7 @@ try {
 
 	const [row] = await db.select().from(aircraft).where(eq(aircraft.id, ac));
 	const input = aircraftFormSchema.parse({ ...aircraftFormValues(row), capacity: '390' });
-	const save = await peakHeap(() => updateAircraft(org, ac, input));
+	const save = await peakHeap(() => updateAircraft(org, ac, input, null));
 	if (!save.result.ok) throw new Error(save.result.message);
 	log(`saving a new capacity, every flight recomputed in the transaction: ${save.ms.toFixed(0)} ms (${(save.ms / FLIGHTS).toFixed(0)} ms a flight), peak heap ${mib(save.peak)} (${(save.peak / Math.max(1, one.peak)).toFixed(1)}× one flight's load)`);
 	await closeDb();

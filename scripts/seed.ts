@@ -1,12 +1,12 @@
 // Demo data from an invented scenario: Kestrel Field Flying Club (fictional), its three aircraft,
 // a member for every role, a recorder with a known demo token, and flights from samples/.
 // Loads only into an empty database; always prints the demo sign-ins and a simulator command.
-import { count, eq } from 'drizzle-orm';
+import { and, count, eq, gte, lt, sql } from 'drizzle-orm';
 import { closeDb, db } from '../src/lib/server/db';
-import { aircraft, memberships, organisations, recorders, users, watches } from '../src/lib/server/db/schema';
+import { aircraft, flightFigures, flights as flightsTable, memberships, organisations, pumpReceipts, recorders, users, watches } from '../src/lib/server/db/schema';
 import { hashPassword } from '../src/lib/server/auth';
 import { hashToken } from '../src/lib/server/tokens';
-import { toLitres, defaultDensityKgPerL } from '../src/lib/units';
+import { fromLitres, toLitres, defaultDensityKgPerL } from '../src/lib/units';
 import { DEMO } from './demo-scenario';
 import { loadDemoFlights } from './demo-flights';
 
@@ -53,7 +53,44 @@ async function load(): Promise<void> {
 		for (const w of DEMO.watches) await tx.insert(watches).values(w);
 	});
 	const flights = await loadDemoFlights();
+	await seedPumpReceipts();
 	console.log(`seed: loaded ${DEMO.users.length} users, ${DEMO.aircraft.length} aircraft, ${flights} flights`);
+}
+
+/**
+ * The trainer's pump receipts (invented): filled to full before the leaned Merrow trip, a top-up
+ * between, full again after the rich one, the pump giving 6 % more than Burndown computed for the
+ * two flights in between, so the owner finds a reconciliation to look at on the first start.
+ */
+async function seedPumpReceipts(): Promise<void> {
+	const a = await db.query.aircraft.findFirst({ where: eq(aircraft.registration, 'BD-KTR') });
+	if (!a) return;
+	const first = new Date('2026-06-27T12:30:00Z');
+	const second = new Date('2026-07-05T09:00:00Z');
+	const [{ computed }] = await db
+		.select({ computed: sql<number>`coalesce(sum(${flightFigures.fuelUsedL}), 0)::float8` })
+		.from(flightsTable)
+		.innerJoin(flightFigures, eq(flightFigures.flightId, flightsTable.id))
+		.where(and(eq(flightsTable.aircraftId, a.id), gte(flightsTable.startedAt, first), lt(flightsTable.startedAt, second)));
+	const gal = (l: number) => Math.round(fromLitres(l, 'usgal', a.densityKgPerL) * 10) / 10;
+	const topUp = 8;
+	const rest = Math.max(1, Math.round((gal(computed * 1.06) - topUp) * 10) / 10);
+	const receipt = (at: Date, amount: number, filledToFull: boolean, note: string) => ({
+		aircraftId: a.id,
+		at,
+		airfield: 'Kestrel Field',
+		amount,
+		unit: 'usgal' as const,
+		amountL: toLitres(amount, 'usgal', a.densityKgPerL),
+		filledToFull,
+		note,
+		createdBy: 'demo-admin'
+	});
+	await db.insert(pumpReceipts).values([
+		receipt(first, 22.4, true, 'Club pump, filled to full'),
+		receipt(new Date('2026-07-01T10:00:00Z'), topUp, false, 'Top-up before a lesson'),
+		receipt(second, rest, true, 'Club pump, filled to full')
+	]);
 }
 
 function printSignIns(origin: string): void {

@@ -1,7 +1,7 @@
 // Display helpers shared by pages: fuel amounts in a chosen unit, reserve-rule labels. Rounding
 // itself lives in $lib/rounding.
 import { reserveRules } from '$lib/fuel';
-import { fixed, type RoundMode } from '$lib/rounding';
+import { fixed, signedDown, type RoundMode } from '$lib/rounding';
 import { fromLitres, fuelUnitLabels, type FuelUnit } from '$lib/units';
 
 export function reserveRuleLabel(id: string, customMin: number | null): string {
@@ -17,4 +17,9 @@ export function reserveRuleCitation(id: string): string {
 export function fuel(litres: number | null | undefined, unit: FuelUnit, densityKgPerL: number, digits = 1, mode: RoundMode = 'nearest'): string {
 	if (litres === null || litres === undefined || !Number.isFinite(litres)) return '—';
 	return `${fixed(fromLitres(litres, unit, densityKgPerL), digits, mode)} ${fuelUnitLabels[unit]}`;
+}
+
+/** The landed margin against the reserve, rounded down (never more than exists): "+3.2 US gal". */
+export function landedMargin(litres: number | null | undefined, unit: FuelUnit, densityKgPerL: number): string {
+	return litres === null || litres === undefined || !Number.isFinite(litres) ? '' : `${signedDown(fromLitres(litres, unit, densityKgPerL), 1)} ${fuelUnitLabels[unit]}`;
 }

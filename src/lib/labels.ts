@@ -129,3 +129,9 @@ export function gapTitle(g: { kind: 'time' | 'flow'; start: number; end: number;
 	if (!(g.filledFlowLph > 0)) return `No samples for ${length}, engine stopped (a stop with the recorder off)`;
 	return `Recorder dropout, ${length}`;
 }
+/** Where a calibration entry's factors came from. */
+export const calibrationSourceLabels = {
+	reconciliation: 'From a reconciliation with fuel pumped',
+	hand: 'Set by hand',
+	initial: 'Factors before dated history'
+} as const;

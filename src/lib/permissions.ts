@@ -12,13 +12,15 @@ export type Permission =
 	| 'manageMembers'
 	| 'manageAircraft'
 	| 'manageRecorders'
-	| 'calibrate';
+	| 'calibrate'
+	/** Read the aircraft's pump receipts, reconciliations and calibration history. */
+	| 'viewFuelRecords';
 
 const GRANTS: Record<Role, readonly Permission[]> = {
-	admin: ['viewFleet', 'viewAllFlights', 'upload', 'editAnyFlight', 'annotate', 'manageMembers', 'manageAircraft', 'manageRecorders', 'calibrate'],
-	instructor: ['viewFleet', 'viewAllFlights', 'upload', 'editAnyFlight', 'annotate'],
+	admin: ['viewFleet', 'viewAllFlights', 'upload', 'editAnyFlight', 'annotate', 'manageMembers', 'manageAircraft', 'manageRecorders', 'calibrate', 'viewFuelRecords'],
+	instructor: ['viewFleet', 'viewAllFlights', 'upload', 'editAnyFlight', 'annotate', 'viewFuelRecords'],
 	pilot: ['viewFleet', 'upload'],
-	viewer: ['viewFleet', 'viewAllFlights']
+	viewer: ['viewFleet', 'viewAllFlights', 'viewFuelRecords']
 };
 
 export function can(role: Role, permission: Permission): boolean {
@@ -36,5 +38,5 @@ export const ROLE_HINTS: Record<Role, string> = {
 	admin: 'Manages members, aircraft, recorders and calibration; sees every flight.',
 	instructor: 'Sees, corrects and annotates every flight in the organisation.',
 	pilot: 'Uploads and flies; sees own flights and the fleet.',
-	viewer: 'Read-only: every flight and the fleet (e.g. a maintenance shop).'
+	viewer: 'Read-only: every flight, the fleet, pump receipts and calibration history (e.g. a maintenance shop).'
 };

@@ -56,7 +56,6 @@ const MATRIX: Row[] = [
 	{ route: '/o/[org]/aircraft/[id]', method: 'GET', path: () => `${O}/aircraft/${DEMO_AIRCRAFT.otherOrg}`, expect: { ...members(404), anonymous: 303 } },
 	{ route: '/o/[org]/aircraft/[id]', method: 'GET', path: () => `/o/${OTHER_ORG}/aircraft/${DEMO_AIRCRAFT.otherOrg}`, expect: { admin: 404, instructor: 404, pilot: 404, student: 404, viewer: 404, other: 200, anonymous: 303 } },
 	{ route: '/o/[org]/aircraft/[id]', method: 'POST', path: () => `${O}/aircraft/${DEMO_AIRCRAFT.trainer}?/save`, form: { registration: '' }, expect: only(['admin'], 400) },
-	{ route: '/o/[org]/aircraft/[id]', method: 'POST', path: () => `${O}/aircraft/${DEMO_AIRCRAFT.trainer}?/calibrate`, form: { shown: '' }, expect: only(['admin'], 400) },
 	// Archive toggles: twice, so the trainer ends as it started for the tests after this one.
 	{ route: '/o/[org]/aircraft/[id]', method: 'POST', path: () => `${O}/aircraft/${DEMO_AIRCRAFT.trainer}?/archive`, form: {}, expect: only(['admin'], 200) },
 	{ route: '/o/[org]/aircraft/[id]', method: 'POST', path: () => `${O}/aircraft/${DEMO_AIRCRAFT.trainer}?/archive`, form: {}, expect: only(['admin'], 200) },
@@ -64,6 +63,13 @@ const MATRIX: Row[] = [
 	{ route: '/o/[org]/aircraft/[id]/history', method: 'GET', path: () => `${O}/aircraft/${DEMO_AIRCRAFT.otherOrg}/history`, expect: { ...members(404), anonymous: 303 } },
 	{ route: '/o/[org]/aircraft/[id]/history', method: 'POST', path: () => `${O}/aircraft/${DEMO_AIRCRAFT.trainer}/history?/settings`, form: { threshold: 'lots' }, expect: only(['admin'], 400) },
 	{ route: '/o/[org]/aircraft/[id]/history', method: 'POST', path: () => `${O}/aircraft/${DEMO_AIRCRAFT.trainer}/history?/unusual`, form: { flightId: '' }, expect: only(['admin'], 400) },
+	// Fuel pumped and calibration: the maintenance viewer (and the instructor) read; only the admin writes.
+	{ route: '/o/[org]/aircraft/[id]/reconciliation', method: 'GET', path: () => `${O}/aircraft/${DEMO_AIRCRAFT.trainer}/reconciliation`, expect: only(['admin', 'instructor', 'viewer'], 200) },
+	{ route: '/o/[org]/aircraft/[id]/reconciliation', method: 'GET', path: () => `${O}/aircraft/${DEMO_AIRCRAFT.otherOrg}/reconciliation`, expect: { ...members(404), anonymous: 303 } },
+	{ route: '/o/[org]/aircraft/[id]/reconciliation', method: 'POST', path: () => `${O}/aircraft/${DEMO_AIRCRAFT.trainer}/reconciliation?/receipt`, form: { amount: '' }, expect: only(['admin'], 400) },
+	{ route: '/o/[org]/aircraft/[id]/reconciliation', method: 'POST', path: () => `${O}/aircraft/${DEMO_AIRCRAFT.trainer}/reconciliation?/deleteReceipt`, form: { receiptId: '' }, expect: only(['admin'], 400) },
+	{ route: '/o/[org]/aircraft/[id]/reconciliation', method: 'POST', path: () => `${O}/aircraft/${DEMO_AIRCRAFT.trainer}/reconciliation?/apply`, form: { from: '' }, expect: only(['admin'], 400) },
+	{ route: '/o/[org]/aircraft/[id]/reconciliation', method: 'POST', path: () => `${O}/aircraft/${DEMO_AIRCRAFT.trainer}/reconciliation?/factors`, form: { meterFactor: '' }, expect: only(['admin'], 400) },
 	{ route: '/o/[org]/members', method: 'GET', path: () => `${O}/members`, expect: only(['admin'], 200) },
 	{ route: '/o/[org]/members', method: 'POST', path: () => `${O}/members?/invite`, form: { email: 'not-an-address', role: 'pilot' }, expect: only(['admin'], 400) },
 	{ route: '/o/[org]/members', method: 'POST', path: () => `${O}/members?/role`, form: { userId: '', role: 'admin' }, expect: only(['admin'], 400) },

@@ -21,6 +21,8 @@ test('the owner sees the rich trip marked, and its difference from the leaned tr
 	// The extra fuel is quantified and a likely cause named, as a possibility.
 	await expect(rich.getByTestId('high-burn')).toContainText(/cruise [\d.]+ US gal\/h over usual .* about [\d.]+ US gal extra/);
 	await expect(rich.getByTestId('high-burn')).toContainText('mixture may not have been leaned');
+	// The reserve column reads the flight's stored verdict, in the flights list's words.
+	await expect(rich.getByTestId('history-verdict')).toHaveText(/^(Reserve kept|Landed below the reserve|No reserve amount to judge)/);
 	await page.screenshot({ path: 'test-results/owner-history.png', fullPage: true });
 
 	await leaned.getByRole('checkbox').check();
@@ -40,4 +42,72 @@ test('the maintenance viewer reads the history and gets no forms to change it', 
 	await expect(page.getByTestId('history-row').filter({ hasText: RICH })).toHaveAttribute('data-marked', '1');
 	await expect(page.getByRole('button', { name: /Mark unusual/ })).toHaveCount(0);
 	await expect(page.getByRole('heading', { name: 'High-burn settings' })).toHaveCount(0);
+});
+
+test('the owner records two fills, reconciles, applies the factor and sees the figures change, then sets it back by hand', async ({ page }) => {
+	const LONG = 'The long way round against a headwind';
+	const usedInList = async () => {
+		await page.goto(`/o/${DEMO_ORG}/flights`);
+		const row = page.getByTestId('flight-row').filter({ hasText: LONG });
+		return (await row.locator('td').nth(4).textContent())?.trim() ?? '';
+	};
+	await signIn(page, DEMO_USERS.admin);
+	const before = await usedInList();
+	await page.goto(`/o/${DEMO_ORG}/aircraft/${DEMO_AIRCRAFT.trainer}`);
+	await page.getByTestId('aircraft-reconciliation-link').click();
+	// The demo's own receipts already make one reconciliation.
+	await expect(page.getByTestId('reconciliation-window')).toHaveCount(1);
+	await expect(page.getByTestId('reconciliation-window').first().getByTestId('window-ratio')).toContainText('%');
+
+	const receipt = page.getByTestId('receipt-form');
+	for (const [at, amount] of [
+		['2026-07-11T08:00', '20'],
+		['2026-07-11T18:00', '30']
+	]) {
+		await receipt.getByLabel('When (UTC)').fill(at);
+		await receipt.getByLabel('Amount').fill(amount);
+		await receipt.getByLabel('Unit').selectOption('usgal');
+		await receipt.getByLabel('Filled to full').selectOption('1');
+		await receipt.getByRole('button', { name: 'Record' }).click();
+		await expect(receipt.getByRole('status')).toHaveText('Receipt recorded.');
+	}
+	const newest = page.getByTestId('reconciliation-window').first();
+	await expect(page.getByTestId('reconciliation-window')).toHaveCount(3);
+	await expect(newest.getByTestId('window-pumped')).toHaveText('30.0 US gal');
+	await expect(newest.getByTestId('window-flights')).toContainText(LONG, { useInnerText: false });
+
+	await newest.getByRole('button', { name: 'Preview' }).click();
+	await expect(newest.getByTestId('apply-preview')).toContainText(/Would apply: meter factor 1\.0000 → [\d.]+, .* to the \d+ flights? started from 2026-07-11 08:00/);
+	await newest.getByTestId('apply-confirm').click();
+	await expect(page.getByTestId('reconciliation-window').first().getByTestId('apply-preview')).toContainText('Applied');
+	await expect(page.getByTestId('calibration-row').first()).toHaveAttribute('data-source', 'reconciliation');
+	await page.screenshot({ path: 'test-results/owner-reconciliation.png', fullPage: true });
+
+	const after = await usedInList();
+	expect(after).not.toBe(before);
+	// Pumped 30.0 US gal against what was computed: after the factor the flight's fuel used is the pumped amount.
+	expect(after).toBe('30.0 US gal');
+
+	// Back by hand, dated from the same time: the history keeps both, the figures return.
+	await page.goto(`/o/${DEMO_ORG}/aircraft/${DEMO_AIRCRAFT.trainer}/reconciliation`);
+	const hand = page.getByTestId('factors-form');
+	await hand.getByLabel('Meter factor').fill('1');
+	await hand.getByLabel('In force from (UTC)').fill('2026-07-11T08:00');
+	await hand.getByRole('button', { name: 'Save to the history' }).click();
+	// The flights of other tests since that day (a live flight, uploads) are covered too.
+	await expect(hand.getByRole('status')).toContainText(/\d+ flights? recomputed/);
+	await expect(page.getByTestId('calibration-row').first()).toHaveAttribute('data-source', 'hand');
+	expect(await usedInList()).toBe(before);
+});
+
+test('the maintenance viewer reads receipts and calibration history, with no forms', async ({ page }) => {
+	await signIn(page, DEMO_USERS.viewer);
+	await page.goto(`/o/${DEMO_ORG}/aircraft/${DEMO_AIRCRAFT.trainer}/reconciliation`);
+	await expect(page.getByTestId('receipt-row').first()).toBeVisible();
+	await expect(page.getByTestId('reconciliation-window').first()).toBeVisible();
+	await expect(page.getByRole('heading', { name: 'Calibration history' })).toBeVisible();
+	await expect(page.getByTestId('receipt-form')).toHaveCount(0);
+	await expect(page.getByTestId('apply-form')).toHaveCount(0);
+	await expect(page.getByTestId('factors-form')).toHaveCount(0);
+	await expect(page.getByRole('button', { name: 'Delete' })).toHaveCount(0);
 });

@@ -6,7 +6,7 @@ import type { RequestEvent } from '@sveltejs/kit';
 import { isHttpError } from '@sveltejs/kit';
 import { eq } from 'drizzle-orm';
 import { db, pool } from '$lib/server/db';
-import { aircraft, aircraftBurnSettings, flightUnusualMarks, memberships, organisations, users } from '$lib/server/db/schema';
+import { aircraft, aircraftBurnSettings, flights, flightUnusualMarks, memberships, organisations, users } from '$lib/server/db/schema';
 import { aircraftHistory } from '$lib/server/aircraft/history';
 import { recomputeSummary } from '$lib/server/flights/summary';
 import { historyQuerySchema } from '$lib/schemas/history';
@@ -80,7 +80,11 @@ describe('aircraft fuel history', () => {
 		expect(h.baseline.phases.cruise?.centreLph).toBeCloseTo(30.5, 0);
 		expect(h.baseline.phases.cruise?.flights).toBe(6);
 		expect(h.trend).toHaveLength(6);
-		expect(first.reserveVerdict).toBeNull();
+		// The reserve column is the flight's stored verdict, the very one the replay and the flights list read.
+		const [stored] = await db.select({ summary: flights.summary }).from(flights).where(eq(flights.id, first.id));
+		expect(first.reserveVerdict).not.toBeNull();
+		expect(first.reserveVerdict).toEqual((stored.summary as { verdict: unknown }).verdict);
+		expect(['kept', 'notKept', 'noReserve']).toContain(first.reserveVerdict!.state);
 	});
 
 	it('marks the rich flight, quantifies its extra cruise fuel and names the mixture', async () => {

@@ -10,7 +10,7 @@ import { isHttpError } from '@sveltejs/kit';
 import { asc, desc, eq } from 'drizzle-orm';
 import type { CorrectionView, DeclarationSnapshot, EventSnapshot } from '$lib/corrections';
 import { db, pool } from '$lib/server/db';
-import { aircraft, flightFigures, flightPhaseFigures, flights, fuelCorrections, fuelEvents, memberships, organisations, users } from '$lib/server/db/schema';
+import { aircraft, calibrations, flightFigures, flightPhaseFigures, flights, fuelCorrections, fuelEvents, memberships, organisations, users } from '$lib/server/db/schema';
 import { loadFlight } from '$lib/server/flights/load';
 import { computeLoaded, recomputeSummary } from '$lib/server/flights/summary';
 import { aircraftFormValues } from '$lib/server/services/aircraft';
@@ -18,6 +18,7 @@ import { LITRES_PER_US_GALLON } from '$lib/units';
 import { load as replayLoad, actions as replayActions } from '../../src/routes/o/[org]/flights/[id]/+page.server';
 import { actions as liveActions } from '../../src/routes/o/[org]/flights/[id]/live/+page.server';
 import { actions as aircraftActions } from '../../src/routes/o/[org]/aircraft/[id]/+page.server';
+import { actions as reconciliationActions } from '../../src/routes/o/[org]/aircraft/[id]/reconciliation/+page.server';
 import { generateFlight, insertFlight } from './replay-fixture';
 
 const stamp = Date.now().toString(36);
@@ -50,6 +51,10 @@ const onReplay = (action: keyof typeof replayActions, id: string, fields: Record
 	replayActions[action](formEvent(user, '/o/[org]/flights/[id]', { org: slug, id }, `/o/${slug}/flights/${id}?/${action}`, fields) as never) as Promise<unknown>;
 const onLive = (action: keyof typeof liveActions, id: string, fields: Record<string, string>, user: TestUser = U.pilot) =>
 	liveActions[action](formEvent(user, '/o/[org]/flights/[id]/live', { org: slug, id }, `/o/${slug}/flights/${id}/live?/${action}`, fields) as never) as Promise<unknown>;
+const onReconciliation = (action: keyof typeof reconciliationActions, fields: Record<string, string>) =>
+	reconciliationActions[action](
+		formEvent(U.admin, '/o/[org]/aircraft/[id]/reconciliation', { org: slug, id: aircraftId }, `/o/${slug}/aircraft/${aircraftId}/reconciliation?/${action}`, fields) as never
+	) as Promise<unknown>;
 const onAircraft = (action: keyof typeof aircraftActions, fields: Record<string, string>) =>
 	aircraftActions[action](formEvent(U.admin, '/o/[org]/aircraft/[id]', { org: slug, id: aircraftId }, `/o/${slug}/aircraft/${aircraftId}?/${action}`, fields) as never) as Promise<unknown>;
 
@@ -196,13 +201,26 @@ describe('every write that changes a fuel input keeps the stored figures derived
 		await expectDerived('aircraft capacity, declared full');
 	});
 
-	it('aircraft: meter factor from a calibration', async () => {
+	it('aircraft: a dated meter factor set by hand, and one typed on the aircraft form', async () => {
 		const before = await storedOnBoard(uploaded);
-		const result = (await onAircraft('calibrate', { shown: '10', pumped: '11', apply: 'meterFactor', note: '' })) as { calibration: { ok: boolean } };
-		expect(result.calibration.ok).toBe(true);
-		expect((await aircraftRow()).meterFactor).not.toBe(1);
+		// In force from long before every flight: each of them is recomputed with 1.1.
+		const result = await onReconciliation('factors', { meterFactor: '1.1', kFactor: '', inForceFrom: '2000-01-01T00:00', note: '' });
+		expect(result).toMatchObject({ saved: true });
+		expect((await aircraftRow()).meterFactor).toBe(1.1);
 		expect(await storedOnBoard(uploaded)).toBeLessThan(before);
-		await expectDerived('calibration');
+		await expectDerived('calibration by hand');
+		// Typed on the aircraft form, a factor is dated from now: past flights keep theirs.
+		const mid = await storedOnBoard(uploaded);
+		expect(await onAircraft('save', { ...aircraftFormValues(await aircraftRow()), meterFactor: '1.2' })).toMatchObject({ saved: true });
+		expect((await aircraftRow()).meterFactor).toBe(1.2);
+		expect(await storedOnBoard(uploaded)).toBe(mid);
+		const entries = await db.select().from(calibrations).where(eq(calibrations.aircraftId, aircraftId)).orderBy(asc(calibrations.createdAt));
+		expect(entries.map((e) => [e.source, e.meterFactorOld, e.meterFactorNew])).toEqual([
+			['initial', 1, 1],
+			['hand', 1, 1.1],
+			['hand', 1.1, 1.2]
+		]);
+		await expectDerived('meter factor on the aircraft form');
 	});
 
 	it('waits for a flight write in progress instead of deadlocking with it', async () => {

@@ -10,6 +10,7 @@ import { actions as orgsActions } from '../../src/routes/orgs/+page.server';
 import { actions as accountActions } from '../../src/routes/account/+page.server';
 import { actions as newAircraftActions } from '../../src/routes/o/[org]/aircraft/new/+page.server';
 import { actions as aircraftActions } from '../../src/routes/o/[org]/aircraft/[id]/+page.server';
+import { actions as reconciliationActions } from '../../src/routes/o/[org]/aircraft/[id]/reconciliation/+page.server';
 import { actions as recorderActions } from '../../src/routes/o/[org]/recorders/+page.server';
 import { actions as flightActions } from '../../src/routes/o/[org]/flights/[id]/+page.server';
 import { actions as liveActions } from '../../src/routes/o/[org]/flights/[id]/live/+page.server';
@@ -37,7 +38,7 @@ async function fingerprint(): Promise<string> {
 		(select count(*) from organisations) o, (select count(*) from memberships) m, (select count(*) from aircraft) a,
 		(select max(updated_at) from aircraft) au, (select count(*) from recorders) r, (select string_agg(token_hash || coalesce(revoked_at::text, ''), ',' order by id) from recorders) rt,
 		(select count(*) from flights) f, (select max(updated_at) from flights) fu, (select count(*) from samples) s,
-		(select count(*) from fuel_events) e, (select count(*) from flight_notes) n, (select count(*) from calibrations) c,
+		(select count(*) from fuel_events) e, (select count(*) from flight_notes) n, (select count(*) from calibrations) c, (select count(*) from pump_receipts) pr,
 		(select count(*) from api_tokens) t, (select count(*) from api_tokens where revoked_at is not null) tr,
 		(select count(*) from import_profiles) p, (select count(*) from watches) wa, (select count(*) from alarm_acks) aa,
 		(select string_agg(coalesce(pref_fuel_unit::text, '-'), ',' order by id) from users) u`);
@@ -87,7 +88,10 @@ describe('every form action under hostile input', () => {
 		['account revokeToken', accountActions.revokeToken, '/account', () => '/account?/revokeToken', () => ({}), ['id']],
 		['aircraft new', newAircraftActions.default, '/o/[org]/aircraft/new', () => `/o/${w.slug}/aircraft/new`, org, aircraftFields],
 		['aircraft save', aircraftActions.save, '/o/[org]/aircraft/[id]', () => `/o/${w.slug}/aircraft/${w.aircraftA}?/save`, ac, aircraftFields],
-		['aircraft calibrate', aircraftActions.calibrate, '/o/[org]/aircraft/[id]', () => `/o/${w.slug}/aircraft/${w.aircraftA}?/calibrate`, ac, ['shown', 'pumped', 'apply', 'note']],
+		['reconciliation receipt', reconciliationActions.receipt, '/o/[org]/aircraft/[id]/reconciliation', () => `/o/${w.slug}/aircraft/${w.aircraftA}/reconciliation?/receipt`, ac, ['at', 'airfield', 'amount', 'unit', 'full', 'note']],
+		['reconciliation deleteReceipt', reconciliationActions.deleteReceipt, '/o/[org]/aircraft/[id]/reconciliation', () => `/o/${w.slug}/aircraft/${w.aircraftA}/reconciliation?/deleteReceipt`, ac, ['receiptId']],
+		['reconciliation apply', reconciliationActions.apply, '/o/[org]/aircraft/[id]/reconciliation', () => `/o/${w.slug}/aircraft/${w.aircraftA}/reconciliation?/apply`, ac, ['from', 'to', 'as', 'inForceFrom', 'step', 'note']],
+		['reconciliation factors', reconciliationActions.factors, '/o/[org]/aircraft/[id]/reconciliation', () => `/o/${w.slug}/aircraft/${w.aircraftA}/reconciliation?/factors`, ac, ['meterFactor', 'kFactor', 'inForceFrom', 'note']],
 		['aircraft watch', aircraftActions.watch, '/o/[org]/aircraft/[id]', () => `/o/${w.slug}/aircraft/${w.aircraftA}?/watch`, ac, ['on']],
 		['recorders register', recorderActions.register, '/o/[org]/recorders', () => `/o/${w.slug}/recorders?/register`, org, ['name', 'aircraftId']],
 		['recorders rotate', recorderActions.rotate, '/o/[org]/recorders', () => `/o/${w.slug}/recorders?/rotate`, org, ['id']],

@@ -19,6 +19,7 @@
 //   reserve.ts      legal reserve rules as data, the normal-cruise flow and the reserve amount
 //   summary.ts      summarize(): the flight summary for the debrief
 //   calibration.ts  meter factor and K-factor from a fill-up
+//   reconcile.ts    fill-up-to-fill-up windows: fuel computed over the flights in between against fuel pumped
 //   plan.ts         a fuel plan worked out: time and fuel per leg, on board at each waypoint, reserve
 //   geo.ts          great-circle distance between two positions (plan legs from a route)
 //   passage.ts      when each waypoint was passed, from the recorder's waypoint id and distance to go
@@ -83,6 +84,17 @@ export {
 	type CalibrationInput,
 	type CalibrationResult
 } from './calibration';
+export {
+	BELOW_PUMPED_WINDOWS,
+	belowPumpedRatio,
+	factorsToApply,
+	reconcile,
+	type ApplyAs,
+	type Factors,
+	type ReconcileFlight,
+	type ReconcileReceipt,
+	type ReconciliationWindow
+} from './reconcile';
 export {
 	legDistanceNm,
 	legFuelL,

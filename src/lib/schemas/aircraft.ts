@@ -6,7 +6,7 @@ import { parseTypedNumber } from '$lib/csv/values';
 import { plainText } from './text';
 
 /** A number typed in a form (the shared grammar: a decimal comma is accepted), blank means "not set". */
-const optionalNumber = (min: number, max: number, what: string) =>
+export const optionalNumber = (min: number, max: number, what: string) =>
 	z
 		.string()
 		.optional()
@@ -24,7 +24,7 @@ const optionalNumber = (min: number, max: number, what: string) =>
 			return n;
 		});
 
-const requiredNumber = (min: number, max: number, what: string) =>
+export const requiredNumber = (min: number, max: number, what: string) =>
 	optionalNumber(min, max, what).refine((v) => v !== null, { message: `Enter ${what}.` }) as z.ZodType<number>;
 
 export const aircraftFormSchema = z

@@ -7,7 +7,7 @@ import type { z } from 'zod';
 import { parseForm } from './form';
 import { preferencesSchema, resetPasswordSchema, resetRequestSchema, signInSchema, signUpSchema } from './account';
 import { aircraftFormSchema } from './aircraft';
-import { calibrationFormSchema } from './calibration';
+import { handFactorsFormSchema, receiptFormSchema } from './pump';
 import { declarationFormSchema, exportQuerySchema, flightListQuerySchema, fuelEventFormSchema, idFormSchema, noteFormSchema, samplesQuerySchema } from './flight';
 import { invitationSchema, memberRemoveSchema, memberRoleSchema, organisationSchema } from './organisation';
 import { textProblem } from './text';
@@ -33,7 +33,8 @@ const SCHEMAS: [string, z.ZodType, string[], string[]][] = [
 	['member role', memberRoleSchema, ['userId', 'role'], []],
 	['member remove', memberRemoveSchema, ['userId'], []],
 	['aircraft', aircraftFormSchema, ['registration', 'type', 'engine', 'fuelType', 'densityKgPerL', 'displayUnit', 'capacity', 'lowerLevel', 'unusable', 'meterFactor', 'kFactor', 'lowFuel', 'lowEnduranceMin', 'reserveRule', 'reserveCustomMin', 'baselineCruise'], ['type', 'engine']],
-	['calibration', calibrationFormSchema, ['shown', 'pumped', 'apply', 'note'], ['note']],
+	['pump receipt', receiptFormSchema(0.719), ['at', 'airfield', 'amount', 'unit', 'full', 'note'], ['note']],
+	['factors by hand', handFactorsFormSchema, ['meterFactor', 'kFactor', 'inForceFrom', 'note'], ['note']],
 	['declaration', declarationFormSchema(0.72), ['kind', 'amount', 'unit', 'previous'], []],
 	['fuel event', fuelEventFormSchema(0.72), ['kind', 'amount', 'unit', 'at', 'note'], ['note']],
 	['id', idFormSchema, ['id'], []],

@@ -2,7 +2,7 @@
 import { describe, expect, it } from 'vitest';
 import { parseNumber, parseTypedNumber } from '$lib/csv/values';
 import { aircraftFormSchema } from './aircraft';
-import { calibrationFormSchema } from './calibration';
+import { receiptFormSchema } from './pump';
 import { declarationFormSchema, fuelEventFormSchema } from './flight';
 
 /** [typed text, value a form reads, value a CSV cell reads (no decimal comma)] */
@@ -54,10 +54,11 @@ describe('every numeric form field refuses what the grammar refuses', () => {
 			for (const bad of ['0x10', '1e400', '1_0']) expect(aircraftFormSchema.safeParse({ ...aircraft, [field]: bad }).success, `${field}=${bad}`).toBe(false);
 		expect(aircraftFormSchema.parse({ ...aircraft, capacity: '150,5' }).capacityL).toBe(150.5);
 	});
-	it('calibration amounts', () => {
-		expect(calibrationFormSchema.parse({ shown: '10,5', pumped: '11', apply: 'none' }).shown).toBe(10.5);
-		expect(calibrationFormSchema.safeParse({ shown: '0x10', pumped: '11', apply: 'none' }).success).toBe(false);
-		expect(calibrationFormSchema.safeParse({ shown: '10', pumped: '0b1011', apply: 'none' }).success).toBe(false);
+	it('pump receipt amounts', () => {
+		const r = (amount: string) => receiptFormSchema(0.719).safeParse({ at: '2026-05-01T10:00', amount, unit: 'l', full: '1' });
+		expect(r('10,5').data?.amount).toBe(10.5);
+		expect(r('0x10').success).toBe(false);
+		expect(r('0b1011').success).toBe(false);
 	});
 	it('declaration and fuel-event amounts', () => {
 		expect(declarationFormSchema(0.72).safeParse({ kind: 'onBoard', amount: '0x10', unit: 'l' }).success).toBe(false);

@@ -3,7 +3,7 @@ import { z } from 'zod';
 import { plainText, textProblem } from './text';
 import { organisationSchema } from './organisation';
 import { signUpSchema } from './account';
-import { calibrationFormSchema } from './calibration';
+import { receiptFormSchema } from './pump';
 import { fuelEventFormSchema, noteFormSchema } from './flight';
 import { aircraftFormSchema } from './aircraft';
 import { openSchema } from '$lib/server/live/batch';
@@ -51,7 +51,7 @@ describe('every name, title and note field uses it', () => {
 	const fields: [string, z.ZodType, (bad: string) => Record<string, unknown>][] = [
 		['organisation name', organisationSchema, (v) => ({ name: v })],
 		['account name', signUpSchema, (v) => ({ name: v, email: 'a@example.org', password: 'long enough pass' })],
-		['calibration note', calibrationFormSchema, (v) => ({ shown: '10', pumped: '11', apply: 'none', note: v })],
+		['pump receipt note', receiptFormSchema(0.719), (v) => ({ at: '2026-05-01T10:00', amount: '10', unit: 'l', full: '1', note: v })],
 		['fuel event note', fuelEventFormSchema(0.72), (v) => ({ kind: 'toFull', unit: 'l', at: '2026-05-02T09:00', note: v })],
 		['flight note', noteFormSchema, (v) => ({ body: v })],
 		['live flight title', openSchema, (v) => ({ title: v })],

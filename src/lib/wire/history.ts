@@ -1,7 +1,7 @@
 // What the aircraft's fuel history page receives: one page of flights with their stored figures
 // and the high-burn finder's verdict on each, the trend points, and the baseline they were judged
 // against. Shared by the server module that builds it and the page that draws it.
-import type { Baseline, BaselinePhase, HighBurnResult } from '$lib/fuel';
+import type { Baseline, BaselinePhase, FlightVerdict, HighBurnResult } from '$lib/fuel';
 import type { HistorySort } from '$lib/schemas/history';
 
 export interface HistoryPhase {
@@ -29,11 +29,8 @@ export interface HistoryRow {
 	/** The owner's mark: left out of the learned baseline. */
 	unusual: { reason: string } | null;
 	highBurn: HighBurnResult;
-	/**
-	 * Reserved for the per-flight reserve verdict the engine summary is gaining; null until the
-	 * summary carries it (the page shows a dash).
-	 */
-	reserveVerdict: null;
+	/** The flight's stored reserve verdict (summary.verdict); null for a flight without samples. */
+	reserveVerdict: FlightVerdict | null;
 }
 
 export interface TrendPoint {
@@ -61,4 +58,6 @@ export interface HistoryPage {
 	baseline: Baseline;
 	settings: BurnSettingsView;
 	pilots: { id: string; name: string }[];
+	/** Fuel pumped ÷ fuel computed that persists over the newest fill-up windows; null without one. */
+	pumpedOverComputed: number | null;
 }

@@ -10,6 +10,7 @@ import {
 	findHighBurn,
 	learnBaseline,
 	type Baseline,
+	type FlightVerdict,
 	type BaselineFlight,
 	type BaselinePhase,
 	type PhaseFigures
@@ -20,6 +21,7 @@ import type { BurnSettingsView, HistoryPage, HistoryPhase, HistoryRow, TrendPoin
 import { db } from '../db';
 import { aircraft, aircraftBurnSettings, flightFigures, flightPhaseFigures, flights, flightUnusualMarks, users } from '../db/schema';
 import { visibleFlights, type ListViewer } from '../flights/list';
+import { reconciliationOf } from '../calibration/receipts';
 
 /** Flights read to learn the baseline: the newest usual ones plus room for those marked unusual. */
 const BASELINE_READ = DEFAULT_BASELINE_FLIGHTS * 5;
@@ -101,7 +103,7 @@ export async function aircraftHistory(v: ListViewer, aircraftId: string, q: Hist
 	const phaseJoin = isPhaseSort(q.sort) ? and(eq(sortPhase.flightId, flights.id), eq(sortPhase.phase, q.sort)) : sql`false`;
 
 	const settings = await burnSettingsOf(aircraftId);
-	const [[{ total }], rows, trendRows, baseline, pilots] = await Promise.all([
+	const [[{ total }], rows, trendRows, baseline, pilots, pumped] = await Promise.all([
 		db.select({ total: count() }).from(flights).innerJoin(flightFigures, eq(flightFigures.flightId, flights.id)).where(where),
 		db
 			.select({
@@ -112,7 +114,9 @@ export async function aircraftHistory(v: ListViewer, aircraftId: string, q: Hist
 				pilot: users.name,
 				f: flightFigures,
 				unusualReason: flightUnusualMarks.reason,
-				unusual: flightUnusualMarks.flightId
+				unusual: flightUnusualMarks.flightId,
+				// The flight's one reserve verdict, as stored in its summary (replay and flights list read it too).
+				verdict: sql<FlightVerdict | null>`${flights.summary}->'verdict'`
 			})
 			.from(flights)
 			.innerJoin(flightFigures, eq(flightFigures.flightId, flights.id))
@@ -143,7 +147,14 @@ export async function aircraftHistory(v: ListViewer, aircraftId: string, q: Hist
 					.innerJoin(users, eq(users.id, flights.pilotId))
 					.where(eq(flights.aircraftId, aircraftId))
 					.orderBy(asc(users.name))
-			: Promise.resolve([])
+			: Promise.resolve([]),
+		// Computed fuel against fuel pumped over the newest fill-up windows: a cause for every flight
+		// while it persists (the sensor or a leak concerns the aircraft, not one flight).
+		db
+			.select()
+			.from(aircraft)
+			.where(eq(aircraft.id, aircraftId))
+			.then(([a]) => (a ? reconciliationOf(a) : null))
 	]);
 
 	const phases = await phasesOf(rows.map((r) => r.id));
@@ -166,8 +177,8 @@ export async function aircraftHistory(v: ListViewer, aircraftId: string, q: Hist
 			leaningMoments: r.f.leaningMoments,
 			phases: byPhase,
 			unusual: r.unusual !== null ? { reason: r.unusualReason ?? '' } : null,
-			highBurn: findHighBurn(ph, baseline, { thresholdPercent: settings.thresholdPercent, leaningMoments: r.f.leaningMoments }),
-			reserveVerdict: null
+			highBurn: findHighBurn(ph, baseline, { thresholdPercent: settings.thresholdPercent, leaningMoments: r.f.leaningMoments, pumpedOverComputed: pumped?.belowPumpedRatio ?? null }),
+			reserveVerdict: r.verdict ?? null
 		};
 	});
 	const trend: TrendPoint[] = trendRows.map((r) => ({ t: r.t, cruiseFlowLph: r.cruise, fuelPerEngineHourLph: r.perHour }));
@@ -181,7 +192,8 @@ export async function aircraftHistory(v: ListViewer, aircraftId: string, q: Hist
 		trend,
 		baseline,
 		settings,
-		pilots
+		pilots,
+		pumpedOverComputed: pumped?.belowPumpedRatio ?? null
 	};
 }
 

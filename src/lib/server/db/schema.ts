@@ -39,6 +39,8 @@ export const fuelCorrectionKindEnum = pgEnum('fuel_correction_kind', ['declarati
 export const alarmKindEnum = pgEnum('alarm_kind', alarmKinds);
 export const debriefStatusEnum = pgEnum('debrief_status', DEBRIEF_STATUSES);
 export const flightPhaseEnum = pgEnum('flight_phase', PHASE_NAMES);
+/** Where a calibration entry's factors came from: a reconciliation of pump receipts, or typed by hand. */
+export const calibrationSourceEnum = pgEnum('calibration_source', ['reconciliation', 'hand', 'initial']);
 
 // ---- accounts -------------------------------------------------------------------------------
 
@@ -226,7 +228,14 @@ export const aircraft = pgTable(
 );
 export type Aircraft = typeof aircraft.$inferSelect;
 
-/** Meter-factor changes from reconciling computed fuel used against fuel pumped. */
+/**
+ * The aircraft's dated calibration history: every change of meter factor and K-factor, with its
+ * author and old → new for both. An entry with `inForceFrom` applies to every flight whose engine
+ * start is at or after it, until the next entry's; the factor a flight is computed with is the
+ * newest entry in force at its engine start (server/calibration/factors.ts). An entry without
+ * `inForceFrom` was recorded only (a reconciliation looked at, nothing applied). An 'initial'
+ * entry keeps the factors every flight had before the first dated change.
+ */
 export const calibrations = pgTable(
 	'calibrations',
 	{
@@ -234,19 +243,53 @@ export const calibrations = pgTable(
 		aircraftId: uuid()
 			.notNull()
 			.references(() => aircraft.id, { onDelete: 'cascade' }),
-		indicatedL: doublePrecision().notNull(),
-		pumpedL: doublePrecision().notNull(),
+		source: calibrationSourceEnum().notNull().default('hand'),
+		/** Fuel used without any meter factor, and fuel pumped, litres; null for a hand edit. */
+		indicatedL: doublePrecision(),
+		pumpedL: doublePrecision(),
 		meterFactorOld: doublePrecision().notNull(),
 		meterFactorNew: doublePrecision().notNull(),
 		kFactorOld: doublePrecision(),
 		kFactorNew: doublePrecision(),
+		inForceFrom: tstz(),
+		/** The two fill-to-full receipts of the reconciliation the factors came from. */
+		receiptFromId: uuid().references(() => pumpReceipts.id, { onDelete: 'set null' }),
+		receiptToId: uuid().references(() => pumpReceipts.id, { onDelete: 'set null' }),
+		/** Flights whose stored figures were recomputed when the entry was written. */
+		flightsRecomputed: integer().notNull().default(0),
 		note: text().notNull().default(''),
 		createdBy: text().references(() => users.id, { onDelete: 'set null' }),
 		createdAt: tstz().notNull().defaultNow()
 	},
-	(t) => [index().on(t.aircraftId, t.createdAt)]
+	(t) => [index().on(t.aircraftId, t.createdAt), index().on(t.aircraftId, t.inForceFrom)]
 );
 export type Calibration = typeof calibrations.$inferSelect;
+
+/**
+ * Fuel actually pumped into an aircraft, as the receipt says: the amount as entered (any unit)
+ * and in litres, whether the tanks were filled to full. Two fill-to-full receipts bound a
+ * reconciliation window (fuel/reconcile.ts).
+ */
+export const pumpReceipts = pgTable(
+	'pump_receipts',
+	{
+		id: uuid().primaryKey().defaultRandom(),
+		aircraftId: uuid()
+			.notNull()
+			.references(() => aircraft.id, { onDelete: 'cascade' }),
+		at: tstz().notNull(),
+		airfield: text().notNull().default(''),
+		amount: doublePrecision().notNull(),
+		unit: fuelUnitEnum().notNull(),
+		amountL: doublePrecision().notNull(),
+		filledToFull: boolean().notNull(),
+		note: text().notNull().default(''),
+		createdBy: text().references(() => users.id, { onDelete: 'set null' }),
+		createdAt: tstz().notNull().defaultNow()
+	},
+	(t) => [index().on(t.aircraftId, t.at)]
+);
+export type PumpReceipt = typeof pumpReceipts.$inferSelect;
 
 // ---- flights and samples ---------------------------------------------------------------------
 

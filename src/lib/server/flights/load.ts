@@ -4,6 +4,7 @@
 import { asc, eq, sql } from 'drizzle-orm';
 import { engineInputsOf, fuelSetupOf, type AircraftFuelSetup } from '$lib/flight-inputs';
 import { recentCruiseFlowLph } from './recent-cruise';
+import { aircraftAt } from '../calibration/in-force';
 import { ColumnBuilder, type FlightInput, type SampleColumns } from '$lib/fuel';
 import { PAYLOAD_VERSION, type ReplayData } from '$lib/wire/replay';
 import { db, type Db, type Tx } from '../db';
@@ -65,15 +66,17 @@ export async function loadEvents(flightId: string, q: Queryable = db): Promise<F
 export async function loadFlight(flightId: string, q: Queryable = db): Promise<LoadedFlight | null> {
 	const [row] = await q.select({ flight: flights, aircraft }).from(flights).innerJoin(aircraft, eq(aircraft.id, flights.aircraftId)).where(eq(flights.id, flightId)).limit(1);
 	if (!row) return null;
-	const [events, samples, recent] = await Promise.all([
+	const [events, samples, recent, asFlown] = await Promise.all([
 		loadEvents(flightId, q),
 		loadSampleColumns(flightId, q),
-		recentCruiseFlowLph(row.aircraft.id, row.flight, q)
+		recentCruiseFlowLph(row.aircraft.id, row.flight, q),
+		// The meter factor and K-factor in force at this flight's engine start (dated calibration).
+		aircraftAt(row.aircraft, row.flight.startedAt, q)
 	]);
-	const setup = fuelSetupOf(row.aircraft, recent);
+	const setup = fuelSetupOf(asFlown, recent);
 	return {
 		flight: row.flight,
-		aircraft: row.aircraft,
+		aircraft: asFlown,
 		setup,
 		events,
 		samples,

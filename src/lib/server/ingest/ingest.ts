@@ -26,6 +26,7 @@ import {
 import type { UploadProgress } from '$lib/wire/upload';
 import { ColumnBuilder, type FlightInput, type FlightSummary } from '$lib/fuel';
 import { engineInputsOf, fuelSetupOf } from '$lib/flight-inputs';
+import { aircraftAt } from '../calibration/in-force';
 import { declarationProblem, toDeclaration } from '$lib/schemas/declaration';
 import { pool } from '../db';
 import { flights, uploads, type Aircraft } from '../db/schema';
@@ -215,7 +216,9 @@ async function store(
 	// Earlier flights only, committed before this upload: read outside this transaction.
 	const recent = await recentCruiseFlowLph(ac.id, { id: flightId, startedAt: first });
 	// The engine input as loadFlight builds it from the stored rows, so a later recompute agrees.
-	const input: FlightInput = { columns: p.columns.columns(), ...engineInputsOf(fuelSetupOf(ac, recent), { declaration, previousOnBoardL }, []) };
+	// With the meter factor and K-factor in force at this flight's engine start (dated calibration).
+	const acAtStart = await aircraftAt(ac, first);
+	const input: FlightInput = { columns: p.columns.columns(), ...engineInputsOf(fuelSetupOf(acAtStart, recent), { declaration, previousOnBoardL }, []) };
 	const computed = computeInput(input);
 
 	progress('original');

@@ -4,6 +4,7 @@
 // whenever the fuel inputs changed or this instance has not seen the flight yet.
 import { asc, eq } from 'drizzle-orm';
 import { engineInputsOf, fuelSetupOf } from '$lib/flight-inputs';
+import { aircraftAt } from '../calibration/in-force';
 import { createLiveComputation, type LiveComputation } from '$lib/fuel';
 import type { Aircraft, Flight, FuelEventRow } from '../db/schema';
 import { fuelEvents } from '../db/schema';
@@ -40,7 +41,9 @@ export interface Computed {
  * only what this instance has not appended yet. Call inside the transaction that stored a batch
  * so its rows are visible; drop() the flight if that transaction then fails.
  */
-export async function computationFor(q: Queryable, flight: Flight, a: Aircraft): Promise<Computed> {
+export async function computationFor(q: Queryable, flight: Flight, current: Aircraft): Promise<Computed> {
+	// The factors in force at this flight's engine start (dated calibration).
+	const a = await aircraftAt(current, flight.startedAt, q);
 	const events = await q.select().from(fuelEvents).where(eq(fuelEvents.flightId, flight.id)).orderBy(asc(fuelEvents.t), asc(fuelEvents.createdAt));
 	const recent = await recentCruiseFlowLph(a.id, flight, q);
 	const signature = signatureOf(a, recent, flight, events);

@@ -6,6 +6,7 @@ import type { AircraftInput } from '$lib/schemas/aircraft';
 import { db } from '../db';
 import { aircraft, type Aircraft } from '../db/schema';
 import { lockAircraftFlights, recomputeAircraftFlights } from '../flights/summary';
+import { writeEntryIn } from '../calibration/factors';
 
 export async function listAircraft(orgId: string, opts: { includeArchived?: boolean } = {}) {
 	return db
@@ -23,7 +24,10 @@ export async function createAircraft(orgId: string, input: AircraftInput): Promi
 	return { ok: true, aircraft: row };
 }
 
-export async function updateAircraft(orgId: string, id: string, input: AircraftInput): Promise<SaveResult> {
+/** The fuel setup without the factors: those change through dated calibration entries. */
+const setupButFactors = (a: Aircraft) => JSON.stringify({ ...fuelSetupOf(a), meterFactor: null });
+
+export async function updateAircraft(orgId: string, id: string, input: AircraftInput, userId: string | null): Promise<SaveResult> {
 	const clash = await db.query.aircraft.findFirst({ where: and(eq(aircraft.orgId, orgId), eq(aircraft.registration, input.registration)) });
 	if (clash && clash.id !== id) return { ok: false, field: 'registration', message: 'This organisation already has an aircraft with that registration.' };
 	const row = await db.transaction(async (tx) => {
@@ -34,9 +38,16 @@ export async function updateAircraft(orgId: string, id: string, input: AircraftI
 			.set({ ...input, updatedAt: new Date() })
 			.where(and(eq(aircraft.orgId, orgId), eq(aircraft.id, id)))
 			.returning();
-		// A new name or type changes no figure; anything the engine reads recomputes every flight.
-		if (before && after && JSON.stringify(fuelSetupOf(before)) !== JSON.stringify(fuelSetupOf(after))) await recomputeAircraftFlights(id, tx);
-		return after;
+		if (!before || !after) return after;
+		// A factor typed here is a hand edit: a dated entry in force from now, old → new in the
+		// history; past flights keep the factors they were computed with.
+		if (before.meterFactor !== after.meterFactor || before.kFactor !== after.kFactor) {
+			await writeEntryIn(tx, before, { source: 'hand', inForceFrom: new Date(), factors: { meterFactor: after.meterFactor, kFactor: after.kFactor }, note: 'Set on the aircraft form.' }, userId);
+		}
+		// A new name or type changes no figure; anything else the engine reads recomputes every flight.
+		if (setupButFactors(before) !== setupButFactors(after)) await recomputeAircraftFlights(id, tx);
+		const [now] = await tx.select().from(aircraft).where(eq(aircraft.id, id));
+		return now;
 	});
 	return { ok: true, aircraft: row };
 }

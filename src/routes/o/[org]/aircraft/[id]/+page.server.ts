@@ -1,16 +1,14 @@
 import { requireAircraft } from '$lib/server/access';
 import { aircraftFormValues, setArchived, updateAircraft } from '$lib/server/services/aircraft';
-import { listCalibrations, recordCalibration } from '$lib/server/services/calibration';
 import { isWatching, setWatching } from '$lib/server/live/watches';
 import { failForm, parseForm } from '$lib/schemas/form';
 import { aircraftFormSchema } from '$lib/schemas/aircraft';
-import { calibrationFormSchema } from '$lib/schemas/calibration';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load = (async (event) => {
 	const { aircraft, user } = await requireAircraft(event, event.params.org, event.params.id, 'viewFleet');
-	const [history, watching] = await Promise.all([listCalibrations(aircraft.id), isWatching(user.id, { aircraftId: aircraft.id })]);
-	return { aircraft, values: aircraftFormValues(aircraft), calibrations: history, watching };
+	const watching = await isWatching(user.id, { aircraftId: aircraft.id });
+	return { aircraft, values: aircraftFormValues(aircraft), watching };
 }) satisfies PageServerLoad;
 
 export const actions = {
@@ -22,10 +20,10 @@ export const actions = {
 		return { action: 'watch', watching: on };
 	},
 	save: async (event) => {
-		const { org, aircraft } = await requireAircraft(event, event.params.org, event.params.id, 'manageAircraft');
+		const { org, aircraft, user } = await requireAircraft(event, event.params.org, event.params.id, 'manageAircraft');
 		const form = parseForm(aircraftFormSchema, await event.request.formData());
 		if (!form.ok) return failForm(400, form.errors, form.values, 'save');
-		const saved = await updateAircraft(org.id, aircraft.id, form.data);
+		const saved = await updateAircraft(org.id, aircraft.id, form.data, user.id);
 		if (!saved.ok) return failForm(400, { [saved.field]: saved.message }, form.values, 'save');
 		return { action: 'save', saved: true };
 	},
@@ -34,11 +32,4 @@ export const actions = {
 		await setArchived(org.id, aircraft.id, aircraft.archivedAt === null);
 		return { action: 'archive' };
 	},
-	calibrate: async (event) => {
-		const { user, aircraft } = await requireAircraft(event, event.params.org, event.params.id, 'calibrate');
-		const form = parseForm(calibrationFormSchema, await event.request.formData());
-		if (!form.ok) return failForm(400, form.errors, form.values, 'calibrate');
-		const result = await recordCalibration(aircraft, form.data, user.id);
-		return { action: 'calibrate', calibration: result };
-	}
 } satisfies Actions;
