@@ -295,7 +295,7 @@ async function ingestSpooled(req: IngestRequest, profiles: Profile[], spool: Fil
 	try {
 		await client.query('BEGIN');
 		// The samples need their flight row first; its real figures are set once the checks pass.
-		await db.insert(flights).values({ id: flightId, orgId: req.orgId, aircraftId: req.aircraft.id, source: 'upload', status: 'closed', startedAt: new Date(), declaration: {} });
+		await db.insert(flights).values({ id: flightId, orgId: req.orgId, aircraftId: req.aircraft.id, source: 'upload', status: 'closed', startedAt: new Date(), declaration: { kind: 'full' } });
 		const stream = client.query(copyFrom(SAMPLES_COPY));
 		copy = stream;
 		const copyFailure: { error: Error | null } = { error: null };
