@@ -9,6 +9,7 @@ import { loadFlight } from '$lib/server/flights/load';
 import { refreshStaleFlights } from '$lib/server/flights/refresh';
 import { computeLoaded, DERIVED_VERSION, recomputeSummary } from '$lib/server/flights/summary';
 import { LITRES_PER_US_GALLON } from '$lib/units';
+import type { FlightSummary } from '$lib/fuel';
 import { generateFlight, insertFlight } from './replay-fixture';
 
 const stamp = Date.now().toString(36);
@@ -52,13 +53,14 @@ beforeAll(async () => {
 	const [o] = await db.select({ summary: flights.summary }).from(flights).where(eq(flights.id, olderVersion));
 	await db
 		.update(flights)
-		.set({ summary: { ...(o.summary as object), fuelUsedL: 1 }, derivedVersion: DERIVED_VERSION - 1 })
+		.set({ summary: { ...o.summary!, fuelUsedL: 1 }, derivedVersion: DERIVED_VERSION - 1 })
 		.where(eq(flights.id, olderVersion));
 	// Current: marked so that a needless recompute would show.
 	current = await insertFlight(pool, base, f(3));
 	await recomputeSummary(current);
 	const [c] = await db.select({ summary: flights.summary }).from(flights).where(eq(flights.id, current));
-	await db.update(flights).set({ summary: { ...(c.summary as object), marker: 'left alone' } }).where(eq(flights.id, current));
+	// A field no derivation writes: a needless recompute would drop it.
+	await db.update(flights).set({ summary: { ...c.summary!, marker: 'left alone' } as FlightSummary }).where(eq(flights.id, current));
 	// Open: its figures are live, none are stored.
 	open = await insertFlight(pool, base, f(4));
 	await db.update(flights).set({ status: 'open', source: 'live' }).where(eq(flights.id, open));

@@ -15,18 +15,14 @@ export interface HelloEvent {
  * numbers run from..to without holes, so a client that keeps `to` as its cursor never loses or
  * repeats a sample. Times are integer ms after t0Ms (exact); null = not recorded.
  */
-export interface SamplesEvent {
+export interface SamplesEvent extends SampleRunRows {
 	from: number;
 	to: number;
 	/** Commit time (epoch ms) of the newest batch included, for latency figures. */
 	at: number;
 	t0Ms: number;
+	/** Here: integer ms after t0Ms. */
 	tMs: number[];
-	flow: (number | null)[];
-	gs: (number | null)[];
-	dtg: (number | null)[];
-	alt: (number | null)[];
-	wpt: (string | null)[];
 }
 
 export interface WireAlarm {
@@ -85,14 +81,14 @@ export function samplesEventColumns(run: SamplesEvent, waypointIds: Map<string, 
 	return rows.columns();
 }
 
-/** Stored samples as rows for the wire, in sequence order without holes. */
+/** Samples as rows for the wire, in sequence order without holes; tMs epoch ms unless said otherwise. */
 export interface SampleRunRows {
-	tMs: readonly number[];
-	flow: readonly (number | null)[];
-	gs: readonly (number | null)[];
-	dtg: readonly (number | null)[];
-	alt: readonly (number | null)[];
-	wpt: readonly (string | null)[];
+	tMs: number[];
+	flow: (number | null)[];
+	gs: (number | null)[];
+	dtg: (number | null)[];
+	alt: (number | null)[];
+	wpt: (string | null)[];
 }
 
 /** The samples event for rows a..n-1 of a run whose first row has sequence `first`; `at` as in SamplesEvent. */

@@ -3,6 +3,8 @@
 // Column names become snake_case through Drizzle's casing option (see db/index.ts, drizzle.config.ts).
 import { sql } from 'drizzle-orm';
 import type { PlanLeg } from '../../fuel/plan';
+import type { FlightSummary } from '../../fuel/summary';
+import type { Declaration } from '../../fuel/types';
 import { DEBRIEF_STATUSES } from '../../wire/plan';
 import {
 	bigint,
@@ -392,7 +394,7 @@ export const flights = pgTable(
 		startedAt: tstz().notNull(),
 		endedAt: tstz(),
 		/** The start-of-flight declaration (engine Declaration, canonical litres). */
-		declaration: jsonb().notNull(),
+		declaration: jsonb().$type<Declaration>().notNull(),
 		/** Fuel on board before the declaration applies (for "added"/"removed"). */
 		previousOnBoardL: doublePrecision(),
 		/** False when a live flight assumed the last known fuel: the pilot should confirm. */
@@ -405,7 +407,7 @@ export const flights = pgTable(
 		lastSeq: integer().notNull().default(-1),
 		lastSampleAt: tstz(),
 		/** Cached flight summary for lists; recomputed whenever samples or fuel inputs change. */
-		summary: jsonb(),
+		summary: jsonb().$type<FlightSummary>(),
 		/**
 		 * The version of the derivation (DERIVED_VERSION in server/flights/summary.ts) that wrote
 		 * summary and the history figures; older rows are recomputed at start (flights/refresh.ts).

@@ -65,7 +65,7 @@ export async function studentsOf(orgId: string, instructorId: string): Promise<S
 			startedAt: r.startedAt,
 			title: r.title,
 			registration: r.registration,
-			reserveKept: reserveKeptOf(r.summary as FlightSummary | null),
+			reserveKept: reserveKeptOf(r.summary),
 			hasPlan: r.planId !== null,
 			debrief,
 			signedOff: r.signedOffAt !== null

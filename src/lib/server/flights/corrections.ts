@@ -3,13 +3,12 @@
 // transaction of the change, so there is never a change without its record or the reverse.
 import { desc, eq } from 'drizzle-orm';
 import type { CorrectionKind, CorrectionView, DeclarationSnapshot, EventSnapshot } from '$lib/corrections';
-import type { Declaration } from '$lib/fuel';
 import { db } from '../db';
 import { fuelCorrections, users, type Flight, type FuelEventRow } from '../db/schema';
 import type { Queryable } from './load';
 
 export function declarationSnapshot(f: Pick<Flight, 'declaration' | 'previousOnBoardL' | 'declarationConfirmed'>): DeclarationSnapshot {
-	return { declaration: f.declaration as Declaration, previousOnBoardL: f.previousOnBoardL, confirmed: f.declarationConfirmed };
+	return { declaration: f.declaration, previousOnBoardL: f.previousOnBoardL, confirmed: f.declarationConfirmed };
 }
 
 export function eventSnapshot(e: Pick<FuelEventRow, 't' | 'kind' | 'amountL' | 'note'>): EventSnapshot {

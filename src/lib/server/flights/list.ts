@@ -85,7 +85,7 @@ export async function listFlights(v: ListViewer, q: FlightListQuery) {
 		page: q.page,
 		sort: q.sort,
 		dir,
-		flights: rows.map((r) => ({ ...r, summary: r.summary as FlightSummary | null }))
+		flights: rows
 	};
 }
 

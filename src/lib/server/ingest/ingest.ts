@@ -191,7 +191,7 @@ async function store(
 	const progress = (step: 'checks' | 'summary' | 'original' | 'flight' | 'commit') => req.onProgress?.({ phase: 'storing', step, rows });
 
 	// The samples need their flight row first; its real figures are set once the checks pass.
-	await db.insert(flights).values({ id: flightId, orgId: req.orgId, aircraftId: req.aircraft.id, source: 'upload', status: 'closed', startedAt: new Date(), declaration: {} });
+	await db.insert(flights).values({ id: flightId, orgId: req.orgId, aircraftId: req.aircraft.id, source: 'upload', status: 'closed', startedAt: new Date(), declaration: { kind: 'full' } });
 	await copySamplesIn(client, on.copySpool);
 
 	progress('checks');

@@ -1,7 +1,6 @@
 // The flight's live state apart from its samples (status, declaration, fuel events, alarms), as
 // the stream's meta event carries it. Read once per change per instance, whatever the viewers.
 import { asc, eq } from 'drizzle-orm';
-import type { Declaration } from '$lib/fuel';
 import { db } from '../db';
 import { flightAlarms, flights, fuelEvents } from '../db/schema';
 import type { MetaEvent } from '$lib/wire/live';
@@ -27,7 +26,7 @@ export async function loadMeta(flightId: string): Promise<FlightMeta | null> {
 			receivedAt: f.sampleCount > 0 ? f.updatedAt.getTime() : null,
 			declarationConfirmed: f.declarationConfirmed
 		},
-		declaration: f.declaration as Declaration,
+		declaration: f.declaration,
 		previousOnBoardL: f.previousOnBoardL,
 		events: events.map((e) => ({ id: e.id, t: e.t.getTime() / 1000, kind: e.kind, amountL: e.amountL, note: e.note })),
 		alarms: alarms.map((a) => ({

@@ -3,6 +3,7 @@
 // stored neighbours a batch must fit between in time, and reading sequence ranges back.
 import { sql } from 'drizzle-orm';
 import { ColumnBuilder, type SampleColumns } from '$lib/fuel';
+import type { SampleRunRows } from '$lib/wire/live';
 import { db, type Db, type Tx } from '../db';
 import type { LiveSample } from './batch';
 
@@ -92,14 +93,8 @@ export async function neighbours(q: Queryable, flightId: string, lo: number, hi:
 }
 
 /** Samples with after < seq ≤ upTo in sequence order, at most `limit`, as rows for the wire. */
-export interface SampleRun {
+export interface SampleRun extends SampleRunRows {
 	seq: number[];
-	tMs: number[];
-	flow: (number | null)[];
-	gs: (number | null)[];
-	dtg: (number | null)[];
-	alt: (number | null)[];
-	wpt: (string | null)[];
 }
 
 export async function readRun(flightId: string, after: number, upTo: number, limit: number, q: Queryable = db): Promise<SampleRun> {
