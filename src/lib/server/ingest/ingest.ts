@@ -44,6 +44,7 @@ import { uploadConnections } from '../limits';
 import * as schema from '../db/schema';
 import { aircraft as aircraftTable, flights, importProfiles, uploads, type Aircraft, type ImportProfile } from '../db/schema';
 import { storeComputedFigures } from '../flights/figures';
+import { attachWaitingPlan } from '../plans';
 import { SAMPLE_COPY_COLUMNS, SampleCopyEncoder, chunkTuple, copyHeader, copyTrailer, writeWithBackpressure } from './binary-copy';
 import type { DeclarationInput } from './declaration';
 
@@ -481,6 +482,8 @@ async function ingestSpooled(req: IngestRequest, profiles: Profile[], spool: Fil
 				updatedAt: new Date()
 			})
 			.where(eq(flights.id, flightId));
+		// A plan made before this flight for this aircraft and about this time becomes its plan.
+		await attachWaitingPlan(db, { id: flightId, aircraftId: a.id, startedAt: first });
 		// The history's per-flight and per-phase figures, as recomputeSummary stores them.
 		await storeComputedFigures(flightId, { computation, summary: flightSummary }, flightColumns, ac.meterFactor, db);
 		if (newest && flightSummary.onBoardAtShutdownL !== null)
