@@ -83,7 +83,7 @@ describe('plan form', () => {
 		expect(page.plan?.legs.map((l) => l.to)).toEqual(['CAIRNS', 'SALTMR', 'BRAMBL', 'FENWAY', 'KESTRL']);
 		// FAA-H-8083-25: time = distance ÷ GS; 36.2 NM at 120 kt = 18.1 min.
 		expect(page.worked!.legs[0].timeH * 60).toBeCloseTo(18.1, 6);
-		expect(page.values['legs.2.refuel']).toBe('84');
+		expect(page.values['legs.2.refuel']).toBe('88');
 	});
 
 	it('fills the legs from a GPX route and says what is wrong with a bad file, storing nothing', async () => {
@@ -109,8 +109,8 @@ describe('plan against actual', () => {
 		expect(c.legs.filter((l) => l.offPlan).map((l) => l.planned.to)).toEqual(['FENWAY']);
 		const fenway = c.legs[3];
 		expect(fenway.fuelDiffPercent).toBeGreaterThan(c.tolerancePercent);
-		// The leg after the refuel starts at the planned refuel amount, 84 US gal.
-		expect(c.legs[2].planned.onBoardStartL / GAL).toBeCloseTo(84, 9);
+		// The leg after the refuel starts at the planned refuel amount, 88 US gal (to full, as at Saltmere).
+		expect(c.legs[2].planned.onBoardStartL / GAL).toBeCloseTo(88, 9);
 		// Actual fuel on board at each passage is the engine's, as the replay shows it.
 		for (const l of c.legs) expect(l.actualOnBoardL).toBeGreaterThan(0);
 		expect(report.route).toBe('Departure – CAIRNS – SALTMR – BRAMBL – FENWAY – KESTRL');

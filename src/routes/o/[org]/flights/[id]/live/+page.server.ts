@@ -10,6 +10,7 @@ import { aircraft, alarmAcks, flightAlarms, users, type Flight } from '$lib/serv
 import { idleCloseMinutes } from '$lib/server/live/config';
 import { setLiveDeclaration } from '$lib/server/live/declare';
 import { isWatching, setWatching } from '$lib/server/live/watches';
+import { planOfFlight } from '$lib/server/plans';
 import { declarationFormSchema, declarationFormValues, reasonFormSchema } from '$lib/schemas/flight';
 import { failForm, parseForm } from '$lib/schemas/form';
 import type { Actions, PageServerLoad } from './$types';
@@ -39,7 +40,8 @@ export const load = (async (event) => {
 	const people = [flight.pilotId, flight.instructorId].filter((x): x is string => x !== null);
 	const names = people.length ? await db.select({ id: users.id, name: users.name }).from(users).where(inArray(users.id, people)) : [];
 	const unit = user.prefFuelUnit ?? a.displayUnit;
-	const [acked, watchingFlight, watchingAircraft] = await Promise.all([
+	const [plan, acked, watchingFlight, watchingAircraft] = await Promise.all([
+		planOfFlight(flight.id),
 		ackedBy(user.id, flight.id),
 		isWatching(user.id, { flightId: flight.id }),
 		isWatching(user.id, { aircraftId: a.id })
@@ -58,6 +60,8 @@ export const load = (async (event) => {
 		unit,
 		declarationValues: declarationFormValues(flight.declaration as Declaration, flight.previousOnBoardL, unit, a.densityKgPerL),
 		may: { edit: mayOnFlight(ctx, flight, 'edit') },
+		// The plan (made ahead, or added since): the legs passed so far set against it.
+		plan,
 		acked,
 		watchingFlight,
 		watchingAircraft,
