@@ -6,7 +6,7 @@ import { beforeAll, describe, expect, it } from 'vitest';
 import { isHttpError, type RequestEvent } from '@sveltejs/kit';
 import { count, eq } from 'drizzle-orm';
 import { db } from '$lib/server/db';
-import { debriefShares, flightNotes, flights, fuelPlans, memberships } from '$lib/server/db/schema';
+import { debriefShares, flightFigures, flightNotes, flights, fuelPlans, memberships } from '$lib/server/db/schema';
 import { LITRES_PER_US_GALLON } from '$lib/units';
 import { createShare, debriefReport, flightOfShare, publishDebrief, revokeShare, signOff } from '$lib/server/debriefs';
 import { addNote, editNote } from '$lib/server/flights/edit';
@@ -115,6 +115,13 @@ describe('plan against actual', () => {
 		for (const l of c.legs) expect(l.actualOnBoardL).toBeGreaterThan(0);
 		expect(report.route).toBe('Departure – CAIRNS – SALTMR – BRAMBL – FENWAY – KESTRL');
 		expect(OFF_PLAN_WORDS).toBe('Fuel consumption different than planned'); // FAA-S-ACS-6 wording
+	});
+
+	it('lists the leaning moments the stored flight figures counted, each a step down in flow', async () => {
+		const report = (await debriefReport(flightId))!;
+		const [figures] = await db.select().from(flightFigures).where(eq(flightFigures.flightId, flightId));
+		expect(report.leaning.length).toBe(figures.leaningMoments);
+		for (const m of report.leaning) expect(m.toLph).toBeLessThan(m.fromLph);
 	});
 });
 

@@ -1,6 +1,6 @@
 // What crosses the network about fuel plans and debriefs: the stored plan as the pages and the
 // API send it (canonical units), and the lists of values the schema, the forms and the UI share.
-import type { FlightSummary, PlanLeg, ReserveRuleId } from '$lib/fuel';
+import type { FlightSummary, LeaningMoment, PlanLeg, ReserveRuleId } from '$lib/fuel';
 import type { PlanReport } from '$lib/plan-report';
 
 /** A stored fuel plan, canonical units (litres, L/h, NM, kt, minutes). */
@@ -78,6 +78,8 @@ export interface DebriefReport {
 	/** The plan's route, waypoint ids in order: "CAIRNS – SALTMR – …". */
 	route: string | null;
 	notes: DebriefNote[];
+	/** Where the mixture was leaned in cruise: the engine's leaning moments, as the replay's timeline marks them. */
+	leaning: LeaningMoment[];
 	debrief: DebriefView;
 	/** Fuel on board through the flight, thinned for a printed chart: epoch s and litres. */
 	chart: { t: number[]; onBoardL: number[] };
