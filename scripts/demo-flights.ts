@@ -16,7 +16,9 @@ import { backgroundSettled } from '../src/lib/server/mail';
 import { ingestRecorderFile } from '../src/lib/server/ingest/ingest';
 import type { DeclarationInput } from '../src/lib/server/ingest/declaration';
 import { addFuelEvent, addNote } from '../src/lib/server/flights/edit';
-import { savePlan } from '../src/lib/server/plans';
+import { createWaitingPlan, savePlan } from '../src/lib/server/plans';
+import { checkProfile, resolveDeclaration } from '../src/lib/fuel/declaration';
+import { engineInputsOf, fuelSetupOf } from '../src/lib/flight-inputs';
 import { DEFAULT_TOLERANCE_PERCENT } from '../src/lib/fuel/plan-actual';
 import { toLitres } from '../src/lib/units';
 import { DEMO, DEMO_ORG_ID } from './demo-scenario';
@@ -122,20 +124,27 @@ export async function loadDemoFlights(): Promise<number> {
 		if (plan.file === f.file) {
 			const L = (gal: number) => toLitres(gal, a.displayUnit, a.densityKgPerL);
 			const flight = { id: result.flightId, orgId: a.orgId, aircraftId: a.id };
-			await savePlan(
-				flight,
-				{
-					startOnBoardL: L(plan.startOnBoard),
-					taxiL: L(plan.taxi),
-					climbL: L(plan.climb),
-					reserveRule: plan.reserveRule,
-					reserveCustomMin: null,
-					reserveFlowLph: L(plan.reserveFlow),
-					tolerancePercent: DEFAULT_TOLERANCE_PERCENT,
-					legs: plan.legs.map((l) => ({ to: l.to, distanceNm: l.distanceNm, gsKt: l.gsKt, timeMin: null, flowLph: L(l.flow), fuelL: null, refuelToL: 'refuelTo' in l ? L(l.refuelTo) : null }))
-				},
-				f.pilot
-			);
+			// The plan starts from the fuel the flight declared at engine start (the engine's own
+			// reading of its declaration), so the legs differ only where the flying did.
+			const stored = (await db.query.flights.findFirst({ where: eq(flights.id, result.flightId) }))!;
+			const inputs = engineInputsOf(fuelSetupOf(a), stored, []);
+			const startOnBoardL = resolveDeclaration(inputs.declaration, checkProfile(inputs.profile).profile, inputs.previousOnBoardL).onBoardL;
+			const planInput = {
+				startOnBoardL,
+				taxiL: L(plan.taxi),
+				climbL: L(plan.climb),
+				reserveRule: plan.reserveRule,
+				reserveCustomMin: null,
+				reserveFlowLph: L(plan.reserveFlow),
+				tolerancePercent: DEFAULT_TOLERANCE_PERCENT,
+				legs: plan.legs.map((l) => ({ to: l.to, distanceNm: l.distanceNm, gsKt: l.gsKt, timeMin: null, flowLph: L(l.flow), fuelL: null, refuelToL: 'refuelTo' in l ? L(l.refuelTo) : null }))
+			};
+			await savePlan(flight, planInput, f.pilot);
+			// The student's next cross-country, planned ahead for tomorrow morning: it waits for its flight.
+			const tomorrow = new Date();
+			tomorrow.setUTCDate(tomorrow.getUTCDate() + 1);
+			tomorrow.setUTCHours(9, 0, 0, 0);
+			await createWaitingPlan(a.orgId, { aircraft: a.id, departure: tomorrow, pilot: f.pilot }, { ...planInput, startOnBoardL: L(plan.startOnBoard) }, f.instructor ?? f.pilot);
 			await addNote(flight, { body: plan.note.body, at: new Date(plan.note.at) }, f.instructor ?? f.pilot);
 		}
 		stored++;

@@ -134,6 +134,10 @@ export const DEMO = {
 	 */
 	crossCountryPlan: {
 		file: 'kestrel-crosscountry-3leg.csv',
+		/**
+		 * Used where a test declares the flight itself, and for the waiting plan the seed makes for
+		 * tomorrow; the seeded flight's plan starts from the fuel that flight declared instead.
+		 */
 		startOnBoard: 62,
 		taxi: 0.8,
 		climb: 1.0,
@@ -142,7 +146,7 @@ export const DEMO = {
 		legs: [
 			{ to: 'CAIRNS', distanceNm: 36.2, gsKt: 120, flow: 13.4 },
 			{ to: 'SALTMR', distanceNm: 35.5, gsKt: 140, flow: 9.5 },
-			{ to: 'BRAMBL', distanceNm: 59.5, gsKt: 145, flow: 15.0, refuelTo: 84 },
+			{ to: 'BRAMBL', distanceNm: 59.5, gsKt: 145, flow: 15.0, refuelTo: 88 },
 			{ to: 'FENWAY', distanceNm: 35.3, gsKt: 140, flow: 16.0 },
 			{ to: 'KESTRL', distanceNm: 74.4, gsKt: 160, flow: 11.5 }
 		],

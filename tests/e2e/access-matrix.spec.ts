@@ -110,6 +110,12 @@ const MATRIX: Row[] = [
 	{ route: '/o/[org]/flights/[id]/debrief', method: 'POST', path: (i) => `${F(i)}/debrief?/publish`, form: {}, expect: only(['admin', 'instructor'], 200) },
 	{ route: '/o/[org]/flights/[id]/debrief/print', method: 'GET', path: (i) => `${F(i)}/debrief/print`, expect: only(FLIGHT_VIEWERS, 200) },
 	{ route: '/o/[org]/students', method: 'GET', path: () => `${O}/students`, expect: only(['admin', 'instructor'], 200) },
+	// An id that is no waiting plan: whoever may remove one is told so (404 with the reason).
+	{ route: '/o/[org]/students', method: 'POST', path: () => `${O}/students?/removeWaiting`, form: { id: '00000000-0000-4000-8000-000000000000' }, expect: only(['admin', 'instructor'], 404) },
+	// A plan made before the flight is the instructor's: a blank form answers each field's error.
+	{ route: '/o/[org]/plans/new', method: 'GET', path: () => `${O}/plans/new`, expect: only(['admin', 'instructor'], 200) },
+	{ route: '/o/[org]/plans/new', method: 'POST', path: () => `${O}/plans/new?/save`, form: {}, expect: only(['admin', 'instructor'], 400) },
+	{ route: '/o/[org]/plans/new', method: 'POST', path: () => `${O}/plans/new?/import`, form: {}, expect: only(['admin', 'instructor'], 400) },
 	// A shared link is its own authorization: an unknown token is 404 for everyone, signed in or not.
 	{ route: '/share/[token]', method: 'GET', path: () => '/share/bds_not-a-real-token-000000000', expect: { ...anyone(404), anonymous: 404 } },
 	{ route: '/o/[org]/flights/[id]/live', method: 'POST', path: (i) => `${F(i)}/live?/declaration`, form: {}, expect: only(FLIGHT_EDITORS, 400) },

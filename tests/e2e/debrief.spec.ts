@@ -94,7 +94,7 @@ test('instructor debriefs the student cross-country: plan against actual, notes,
 		expect(pages, `${format} pages`).toBeGreaterThanOrEqual(1);
 		expect(pages, `${format} pages`).toBeLessThanOrEqual(2);
 		const text = pdfText(file);
-		for (const want of ['BD-KTT', 'Priya Achebe', 'Ines Varga', 'CAIRNS', 'FENWAY', 'KESTRL', 'Fuel consumption different than planned', '14 CFR 91.151(a)(1)', 'Advisory only', 'Signed off by Ines Varga'])
+		for (const want of ['BD-KTT', 'Priya Achebe', 'Ines Varga', 'CAIRNS', 'FENWAY', 'KESTRL', 'Fuel consumption different than planned', '14 CFR 91.151(a)(1)', 'Advisory only', 'Signed off by Ines Varga', 'Mixture leaned'])
 			expect(text, `${format} PDF text`).toContain(want);
 		for (const never of ['Sign out', 'Print or save as PDF', 'Overview']) expect(text, `${format} PDF text`).not.toContain(never);
 		execFileSync('pdftoppm', ['-png', '-r', '60', file, path.join(OUT, `debrief-${format}`)]);

@@ -6,7 +6,7 @@ import { beforeAll, describe, expect, it } from 'vitest';
 import { isHttpError, type RequestEvent } from '@sveltejs/kit';
 import { count, eq } from 'drizzle-orm';
 import { db } from '$lib/server/db';
-import { debriefShares, flightNotes, flights, fuelPlans, memberships } from '$lib/server/db/schema';
+import { debriefShares, flightFigures, flightNotes, flights, fuelPlans, memberships } from '$lib/server/db/schema';
 import { LITRES_PER_US_GALLON } from '$lib/units';
 import { createShare, debriefReport, flightOfShare, publishDebrief, revokeShare, signOff } from '$lib/server/debriefs';
 import { addNote, editNote } from '$lib/server/flights/edit';
@@ -83,7 +83,7 @@ describe('plan form', () => {
 		expect(page.plan?.legs.map((l) => l.to)).toEqual(['CAIRNS', 'SALTMR', 'BRAMBL', 'FENWAY', 'KESTRL']);
 		// FAA-H-8083-25: time = distance ÷ GS; 36.2 NM at 120 kt = 18.1 min.
 		expect(page.worked!.legs[0].timeH * 60).toBeCloseTo(18.1, 6);
-		expect(page.values['legs.2.refuel']).toBe('84');
+		expect(page.values['legs.2.refuel']).toBe('88');
 	});
 
 	it('fills the legs from a GPX route and says what is wrong with a bad file, storing nothing', async () => {
@@ -109,12 +109,19 @@ describe('plan against actual', () => {
 		expect(c.legs.filter((l) => l.offPlan).map((l) => l.planned.to)).toEqual(['FENWAY']);
 		const fenway = c.legs[3];
 		expect(fenway.fuelDiffPercent).toBeGreaterThan(c.tolerancePercent);
-		// The leg after the refuel starts at the planned refuel amount, 84 US gal.
-		expect(c.legs[2].planned.onBoardStartL / GAL).toBeCloseTo(84, 9);
+		// The leg after the refuel starts at the planned refuel amount, 88 US gal (to full, as at Saltmere).
+		expect(c.legs[2].planned.onBoardStartL / GAL).toBeCloseTo(88, 9);
 		// Actual fuel on board at each passage is the engine's, as the replay shows it.
 		for (const l of c.legs) expect(l.actualOnBoardL).toBeGreaterThan(0);
 		expect(report.route).toBe('Departure – CAIRNS – SALTMR – BRAMBL – FENWAY – KESTRL');
 		expect(OFF_PLAN_WORDS).toBe('Fuel consumption different than planned'); // FAA-S-ACS-6 wording
+	});
+
+	it('lists the leaning moments the stored flight figures counted, each a step down in flow', async () => {
+		const report = (await debriefReport(flightId))!;
+		const [figures] = await db.select().from(flightFigures).where(eq(flightFigures.flightId, flightId));
+		expect(report.leaning.length).toBe(figures.leaningMoments);
+		for (const m of report.leaning) expect(m.toLph).toBeLessThan(m.fromLph);
 	});
 });
 

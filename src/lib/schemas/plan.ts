@@ -7,6 +7,7 @@ import { DEFAULT_TOLERANCE_PERCENT } from '$lib/fuel/plan-actual';
 import { fromLitres, toLitres, type FuelUnit } from '$lib/units';
 import { amountField, fuelUnitSchema, parseAmount } from './declaration';
 import { fieldErrors, type FieldErrors } from './form';
+import { parseUtc } from './flight';
 
 export const PLAN_LEG_FIELDS = ['to', 'distance', 'gs', 'time', 'flow', 'fuel', 'refuel'] as const;
 export type PlanLegField = (typeof PLAN_LEG_FIELDS)[number];
@@ -188,3 +189,25 @@ export function planFormValues(plan: PlanInput, unit: FuelUnit, densityKgPerL: n
 	});
 	return values;
 }
+
+/**
+ * A plan made before the flight: which aircraft, when it is expected to start (UTC) and who is to
+ * fly it, beside the plan's own fields (parsePlanForm, in the chosen aircraft's density).
+ */
+export const waitingPlanFormSchema = z.object({
+	aircraft: z.uuid('Choose the aircraft.'),
+	departure: z.string('Enter the expected departure.').transform((raw, ctx) => {
+		const date = parseUtc(raw);
+		if (!date) {
+			ctx.addIssue({ code: 'custom', message: 'Enter the expected departure as a UTC date and time, e.g. 2026-06-21 09:00.' });
+			return z.NEVER;
+		}
+		return date;
+	}),
+	pilot: z
+		.string()
+		.max(200)
+		.optional()
+		.transform((v) => (v && v.trim() !== '' ? v.trim() : null))
+});
+export type WaitingPlanHeader = z.output<typeof waitingPlanFormSchema>;

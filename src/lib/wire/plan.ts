@@ -1,6 +1,6 @@
 // What crosses the network about fuel plans and debriefs: the stored plan as the pages and the
 // API send it (canonical units), and the lists of values the schema, the forms and the UI share.
-import type { FlightSummary, PlanLeg, ReserveRuleId } from '$lib/fuel';
+import type { FlightSummary, LeaningMoment, PlanLeg, ReserveRuleId } from '$lib/fuel';
 import type { PlanReport } from '$lib/plan-report';
 
 /** A stored fuel plan, canonical units (litres, L/h, NM, kt, minutes). */
@@ -15,7 +15,33 @@ export interface FuelPlanWire {
 	reserveFlowLph: number | null;
 	tolerancePercent: number;
 	legs: PlanLeg[];
+	/** Set on a plan made before the flight: when its aircraft is expected to start (ISO). */
+	expectedDepartureAt: string | null;
+	/** Who is to fly it (a plan made before the flight). */
+	pilotId: string | null;
 	updatedAt: string;
+}
+
+/**
+ * How far from its expected departure a flight may start and still take a waiting plan, either
+ * way (our choice: a morning's delay, not the next day's flight). Shared by the server's
+ * attaching and the page that explains it.
+ */
+export const WAITING_PLAN_WINDOW_H = 3;
+export const WAITING_PLAN_WINDOW_MS = WAITING_PLAN_WINDOW_H * 3600 * 1000;
+
+/** A plan waiting for its flight, as the instructor's list shows it. */
+export interface WaitingPlanView {
+	id: string;
+	aircraftId: string;
+	registration: string;
+	expectedDepartureAt: Date;
+	pilot: string | null;
+	createdBy: string | null;
+	/** Waypoint ids in order. */
+	route: string[];
+	/** The window has closed with no flight: it will never attach by itself. */
+	windowPassed: boolean;
 }
 
 /** A debrief's life: written by the instructor, then published to the student. */
@@ -52,6 +78,8 @@ export interface DebriefReport {
 	/** The plan's route, waypoint ids in order: "CAIRNS – SALTMR – …". */
 	route: string | null;
 	notes: DebriefNote[];
+	/** Where the mixture was leaned in cruise: the engine's leaning moments, as the replay's timeline marks them. */
+	leaning: LeaningMoment[];
 	debrief: DebriefView;
 	/** Fuel on board through the flight, thinned for a printed chart: epoch s and litres. */
 	chart: { t: number[]; onBoardL: number[] };

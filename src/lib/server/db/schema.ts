@@ -9,6 +9,7 @@ import { DEBRIEF_STATUSES } from '../../wire/plan';
 import {
 	bigint,
 	boolean,
+	check,
 	customType,
 	doublePrecision,
 	index,
@@ -593,11 +594,26 @@ export const fuelPlans = pgTable(
 		reserveFlowLph: doublePrecision(),
 		tolerancePercent: doublePrecision().notNull(),
 		legs: jsonb().$type<PlanLeg[]>().notNull(),
+		/**
+		 * A plan made before the flight: when the aircraft is expected to start. While flight_id is
+		 * null the plan waits; the upload or live flight of its aircraft that starts nearest to
+		 * this time, within WAITING_PLAN_WINDOW_MS, takes it (server/plans attachWaitingPlan).
+		 */
+		expectedDepartureAt: tstz(),
+		/** Who is to fly a plan made before the flight (the student); the flight takes it when attached. */
+		pilotId: text().references(() => users.id, { onDelete: 'set null' }),
 		createdBy: text().references(() => users.id, { onDelete: 'set null' }),
 		createdAt: tstz().notNull().defaultNow(),
 		updatedAt: tstz().notNull().defaultNow()
 	},
-	(t) => [uniqueIndex().on(t.flightId), index().on(t.aircraftId)]
+	(t) => [
+		uniqueIndex().on(t.flightId),
+		index().on(t.aircraftId),
+		// The waiting plans of an aircraft by time: what an arriving flight looks up.
+		index('fuel_plans_waiting_idx').on(t.aircraftId, t.expectedDepartureAt).where(sql`${t.flightId} is null`),
+		// A plan belongs to a flight, or waits for one at a stated time; never neither.
+		check('fuel_plans_flight_or_departure', sql`${t.flightId} is not null or ${t.expectedDepartureAt} is not null`)
+	]
 );
 export type FuelPlanRow = typeof fuelPlans.$inferSelect;
 

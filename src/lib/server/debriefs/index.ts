@@ -2,6 +2,7 @@
 // notes, sign-off) is built from the stored inputs with the same engine the replay runs; the
 // debrief row holds only what the instructor wrote and decided. Publishing mails the student.
 import { and, asc, eq, gt, inArray, isNull } from 'drizzle-orm';
+import { findLeaningMoments } from '$lib/fuel';
 import { planReport } from '$lib/plan-report';
 import type { DebriefNote, DebriefReport, DebriefStatus, DebriefView } from '$lib/wire/plan';
 
@@ -56,6 +57,7 @@ export async function debriefReport(flightId: string): Promise<DebriefReport | n
 		plan: plan ? planReport(plan, computation, loaded.samples.columns, loaded.samples.waypoints) : null,
 		route: plan ? ['Departure', ...plan.legs.map((l) => l.to)].join(' – ') : null,
 		notes,
+		leaning: findLeaningMoments({ t: loaded.samples.columns.t, flow: computation.flow, gs: loaded.samples.columns.gs, alt: loaded.samples.columns.alt, phase: computation.phase }),
 		debrief,
 		chart: thin(loaded.samples.columns.t, computation.onBoard)
 	};

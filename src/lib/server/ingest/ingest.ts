@@ -32,6 +32,7 @@ import { pool } from '../db';
 import { flights, uploads, type Aircraft } from '../db/schema';
 import { recentCruiseFlowLph } from '../flights/recent-cruise';
 import { computeInput, storeDerived, type Computed } from '../flights/summary';
+import { attachWaitingPlan } from '../plans';
 import { SampleCopyEncoder } from './binary-copy';
 import { inUploadTransaction, type UploadDb } from './connection';
 import { copyOriginalIn, copySamplesIn } from './copy-in';
@@ -245,6 +246,8 @@ async function store(
 			updatedAt: new Date()
 		})
 		.where(eq(flights.id, flightId));
+	// A plan made before this flight for this aircraft and about this time becomes its plan.
+	await attachWaitingPlan(db, { id: flightId, aircraftId: ac.id, startedAt: first });
 	await storeDerived({ id: flightId, aircraftId: ac.id }, input, computed, db);
 
 	report.storeMs = Math.round(performance.now() - startedAt - report.parseMs);

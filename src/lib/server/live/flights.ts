@@ -9,6 +9,7 @@ import { db, type Tx } from '../db';
 import { aircraft, flights, memberships, recorders, users, type Aircraft, type Flight, type Recorder } from '../db/schema';
 import { findAircraftOf } from '../aircraft/lookup';
 import { recomputeSummary } from '../flights/summary';
+import { attachWaitingPlan } from '../plans';
 import { dropComputation } from './computation';
 import type { LiveNotice } from './protocol';
 import { NOTIFY_CHANNEL } from './protocol';
@@ -100,6 +101,9 @@ export async function createFlight(tx: Tx, recorder: Recorder, a: Aircraft, o: N
 			lastSeq: o.firstSeq - 1
 		})
 		.returning();
+	// A plan made before this flight for this aircraft and about this time becomes its plan (and
+	// may name the pilot and instructor: read the row back if so).
+	if (await attachWaitingPlan(tx, f)) return (await tx.select().from(flights).where(eq(flights.id, f.id)).limit(1))[0];
 	return f;
 }
 

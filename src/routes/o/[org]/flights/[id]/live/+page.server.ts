@@ -9,6 +9,7 @@ import { acknowledgeAlarm, alarmsAckedBy } from '$lib/server/live/acks';
 import { idleCloseMinutes } from '$lib/server/live/config';
 import { setLiveDeclaration } from '$lib/server/live/declare';
 import { isWatching, setWatching } from '$lib/server/live/watches';
+import { planOfFlight } from '$lib/server/plans';
 import { declarationFormSchema, declarationFormValues, reasonFormSchema } from '$lib/schemas/flight';
 import { failForm, parseForm } from '$lib/schemas/form';
 import type { Actions, PageServerLoad } from './$types';
@@ -20,8 +21,9 @@ export const load = (async (event) => {
 	const { flight, user } = ctx;
 	const a = await aircraftOf(flight);
 	const unit = user.prefFuelUnit ?? a.displayUnit;
-	const [people, acked, watchingFlight, watchingAircraft] = await Promise.all([
+	const [people, plan, acked, watchingFlight, watchingAircraft] = await Promise.all([
 		flightPeople(flight),
+		planOfFlight(flight.id),
 		alarmsAckedBy(user.id, flight.id),
 		isWatching(user.id, { flightId: flight.id }),
 		isWatching(user.id, { aircraftId: a.id })
@@ -40,6 +42,8 @@ export const load = (async (event) => {
 		unit,
 		declarationValues: declarationFormValues(flight.declaration as Declaration, flight.previousOnBoardL, unit, a.densityKgPerL),
 		may: { edit: mayOnFlight(ctx, flight, 'edit') },
+		// The plan (made ahead, or added since): the legs passed so far set against it.
+		plan,
 		acked,
 		watchingFlight,
 		watchingAircraft,

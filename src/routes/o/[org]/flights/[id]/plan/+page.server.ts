@@ -1,9 +1,9 @@
 import { mayOnFlight, requireFlight } from '$lib/server/access';
 import { planContext, removePlan, savePlan } from '$lib/server/plans';
 import { workedPlanOf } from '$lib/plan-report';
-import { legsFromCsv, legsFromGpx, MAX_PLAN_FILE_BYTES } from '$lib/plan-import';
+import { importPlanFile } from '$lib/server/plans/import-form';
 import { failForm, formValues } from '$lib/schemas/form';
-import { parsePlanForm, planFormValues, PLAN_LEG_FIELDS } from '$lib/schemas/plan';
+import { parsePlanForm, planFormValues } from '$lib/schemas/plan';
 import { DEFAULT_TOLERANCE_PERCENT } from '$lib/fuel';
 import { fromLitres } from '$lib/units';
 import type { Actions, PageServerLoad } from './$types';
@@ -40,20 +40,7 @@ export const actions = {
 	// Fills the legs table from a file; nothing is stored until the form is saved.
 	import: async (event) => {
 		await requireFlight(event, event.params.org, event.params.id, 'annotate');
-		const body = await event.request.formData();
-		const values = formValues(body);
-		const file = body.get('file');
-		if (!(file instanceof File) || file.size === 0) return failForm(400, { file: 'Choose a CSV of legs or a GPX route file.' }, values, 'import');
-		if (file.size > MAX_PLAN_FILE_BYTES) return failForm(400, { file: `The file is larger than ${MAX_PLAN_FILE_BYTES / 1024} KB; a plan's legs fit in far less.` }, values, 'import');
-		const text = await file.text();
-		const gpx = /\.gpx$/i.test(file.name) || /^\s*(<\?xml|<gpx)/i.test(text);
-		const result = gpx ? legsFromGpx(text) : legsFromCsv(text);
-		if (!result.ok) return failForm(400, { file: `${file.name}: ${result.message}` }, values, 'import');
-		const kept = Object.fromEntries(Object.entries(values).filter(([k]) => !k.startsWith('legs.')));
-		result.rows.forEach((row, i) => {
-			for (const f of PLAN_LEG_FIELDS) kept[`legs.${i}.${f}`] = row[f];
-		});
-		return { action: 'import', imported: result.rows.length, warnings: result.warnings, values: kept };
+		return importPlanFile(await event.request.formData());
 	},
 	remove: async (event) => {
 		const { flight } = await requireFlight(event, event.params.org, event.params.id, 'annotate');
