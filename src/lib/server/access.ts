@@ -4,7 +4,7 @@
 // which the authorization guard checks on every answer of a non-public route.
 import { error, redirect, type RequestEvent } from '@sveltejs/kit';
 import { and, eq, gt, isNull } from 'drizzle-orm';
-import { can, type Permission, type Role } from '$lib/permissions';
+import { can, mayOnFlight, type FlightAction, type Permission, type Role } from '$lib/permissions';
 import { SESSION_ABSOLUTE_MS, type AuthUser } from './auth';
 import { db } from './db';
 import { aircraft, apiTokens, flights, memberships, organisations, recorders, sessions, type Aircraft, type Flight, type Organisation, type Recorder } from './db/schema';
@@ -27,7 +27,8 @@ export interface OrgContext {
 	role: Role;
 }
 
-export type FlightAction = 'view' | 'edit' | 'annotate';
+// The per-flight rule lives in $lib/permissions (the UI shows what the server allows).
+export { mayOnFlight, type FlightAction };
 
 const isApi = (event: Event) => event.route.id?.startsWith('/api/') ?? event.url.pathname.startsWith('/api/');
 
@@ -73,18 +74,6 @@ export async function requireAircraft(
 	if (!can(ctx.role, permission)) refuse(event, () => error(403, 'Your role in this organisation does not allow that.'));
 	granted(event);
 	return { ...ctx, aircraft: found };
-}
-
-export function mayOnFlight(ctx: { user: Pick<AuthUser, 'id'> & Partial<AuthUser>; role: Role }, flight: Pick<Flight, 'pilotId' | 'instructorId'>, action: FlightAction): boolean {
-	const own = flight.pilotId === ctx.user.id || flight.instructorId === ctx.user.id;
-	switch (action) {
-		case 'view':
-			return own || can(ctx.role, 'viewAllFlights');
-		case 'edit':
-			return (own && can(ctx.role, 'upload')) || can(ctx.role, 'editAnyFlight');
-		case 'annotate':
-			return (own && can(ctx.role, 'upload')) || can(ctx.role, 'annotate');
-	}
 }
 
 /** A flight of the organisation that the member may view / edit / annotate. */

@@ -339,6 +339,8 @@ export const flights = pgTable(
 		pilotId: text().references(() => users.id, { onDelete: 'set null' }),
 		instructorId: text().references(() => users.id, { onDelete: 'set null' }),
 		title: text().notNull().default(''),
+		/** The route as the pilot writes it (e.g. "KSTR – FENNY – KSTR"); free text, not the plan. */
+		route: text().notNull().default(''),
 		source: flightSourceEnum().notNull(),
 		status: flightStatusEnum().notNull(),
 		uploadId: uuid().references(() => uploads.id, { onDelete: 'set null' }),

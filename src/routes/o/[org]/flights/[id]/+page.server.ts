@@ -10,7 +10,8 @@ import { debriefOf } from '$lib/server/debriefs';
 import { listCorrections } from '$lib/server/flights/corrections';
 import { loadEvents } from '$lib/server/flights/load';
 import { can } from '$lib/permissions';
-import { declarationFormSchema, declarationFormValues, fuelEventFormSchema, idFormSchema, noteEditFormSchema, noteFormSchema, reasonFormSchema } from '$lib/schemas/flight';
+import { declarationFormSchema, declarationFormValues, flightDetailsFormSchema, fuelEventFormSchema, idFormSchema, noteEditFormSchema, noteFormSchema, reasonFormSchema } from '$lib/schemas/flight';
+import { peopleChoices, saveDetails } from '$lib/server/flights/details';
 import { failForm, parseForm } from '$lib/schemas/form';
 import type { Declaration } from '$lib/fuel';
 import type { Actions, PageServerLoad } from './$types';
@@ -39,6 +40,7 @@ export const load = (async (event) => {
 		planOfFlight(flight.id),
 		debriefOf(flight.id)
 	]);
+	const mayEdit = mayOnFlight(ctx, flight, 'edit');
 	const people = [flight.pilotId, flight.instructorId].filter((x): x is string => x !== null);
 	const names = people.length ? await db.select({ id: users.id, name: users.name }).from(users).where(inArray(users.id, people)) : [];
 	const nameOf = (id: string | null) => names.find((n) => n.id === id)?.name ?? null;
@@ -56,6 +58,9 @@ export const load = (async (event) => {
 			declarationConfirmed: flight.declarationConfirmed,
 			sampleCount: flight.sampleCount,
 			notes: flight.notes,
+			route: flight.route,
+			pilotId: flight.pilotId,
+			instructorId: flight.instructorId,
 			pilot: nameOf(flight.pilotId),
 			instructor: nameOf(flight.instructorId)
 		},
@@ -68,8 +73,11 @@ export const load = (async (event) => {
 		debriefStatus: debrief.status,
 		declarationValues: declarationFormValues(flight.declaration as Declaration, flight.previousOnBoardL, unit, a.densityKgPerL),
 		unit,
+		// Who can be chosen, only for those who may change the details.
+		people: mayEdit ? await peopleChoices(flight.orgId) : null,
 		may: {
-			edit: mayOnFlight(ctx, flight, 'edit'),
+			edit: mayEdit,
+			setPilot: mayOnFlight(ctx, flight, 'setPilot'),
 			annotate: mayOnFlight(ctx, flight, 'annotate'),
 			removeAnyNote: can(role, 'editAnyFlight')
 		},
@@ -78,6 +86,14 @@ export const load = (async (event) => {
 }) satisfies PageServerLoad;
 
 export const actions = {
+	details: async (event) => {
+		const ctx = await requireFlight(event, event.params.org, event.params.id, 'edit');
+		const form = parseForm(flightDetailsFormSchema, await event.request.formData());
+		if (!form.ok) return failForm(400, form.errors, form.values, 'details');
+		const done = await saveDetails(ctx.flight, form.data, mayOnFlight(ctx, ctx.flight, 'setPilot'));
+		if (!done.ok) return failForm(400, { [done.field]: done.message }, form.values, 'details');
+		return { action: 'details', saved: true };
+	},
 	declaration: async (event) => {
 		const { flight, user } = await requireFlight(event, event.params.org, event.params.id, 'edit');
 		const a = await aircraftOf(flight);

@@ -1,0 +1,1 @@
+ALTER TABLE "flights" ADD COLUMN "route" text DEFAULT '' NOT NULL;
