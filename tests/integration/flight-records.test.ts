@@ -5,12 +5,22 @@ import { beforeAll, describe, expect, it } from 'vitest';
 import { isHttpError, type RequestEvent } from '@sveltejs/kit';
 import { eq } from 'drizzle-orm';
 import { db } from '$lib/server/db';
-import { flights, memberships, type Flight } from '$lib/server/db/schema';
+import { flights, memberships, recorders, type Flight } from '$lib/server/db/schema';
+import { hashToken, newToken } from '$lib/server/tokens';
+import { listFlights } from '$lib/server/flights/list';
+import { flightListQuerySchema } from '$lib/schemas/flight';
 import { actions as flightActions, load as flightLoad } from '../../src/routes/o/[org]/flights/[id]/+page.server';
+import { actions as liveActions, load as liveLoad } from '../../src/routes/o/[org]/flights/[id]/live/+page.server';
+import { actions as recorderActions } from '../../src/routes/o/[org]/recorders/+page.server';
+import { call } from './live-fixtures';
 import { makeClub, makeUser, steadyFile, upload, type Club } from './upload-fixture';
 import type { AuthUser } from '$lib/server/auth';
 
 const FLIGHT_ROUTE = '/o/[org]/flights/[id]';
+const LIVE_ROUTE = '/o/[org]/flights/[id]/live';
+const RECORDERS_ROUTE = '/o/[org]/recorders';
+let recorderToken = '';
+let recorderId = '';
 let club: Club;
 let instructor: AuthUser;
 let admin: AuthUser;
@@ -51,7 +61,18 @@ beforeAll(async () => {
 	const res = await upload(club.pilot, { aircraftId: club.trainer.id, file: steadyFile({ start: Date.UTC(2026, 3, 1, 9), seconds: 600, flowUsgph: 8 }), fileName: 'test.csv' });
 	expect(res.status).toBe(201);
 	flightId = res.body.flightId;
+	recorderToken = newToken('bdr_');
+	const [r] = await db.insert(recorders).values({ orgId: club.orgId, aircraftId: club.tourer.id, name: 'panel', tokenHash: hashToken(recorderToken), tokenHint: recorderToken.slice(0, 10) }).returning();
+	recorderId = r.id;
 });
+
+/** The recorder closes its open flight, if any, and opens a new one, saying nothing of the pilot. */
+async function recorderOpens(): Promise<string> {
+	await call('close', recorderToken, {});
+	const r = await call('open', recorderToken, {});
+	expect(r.status).toBeLessThan(300);
+	return r.body.flightId as string;
+}
 
 describe('editing a flight’s details', () => {
 	it('lets the flight’s pilot set title, route and instructor', async () => {
@@ -102,5 +123,71 @@ describe('editing a flight’s details', () => {
 		const seen = (await flightLoad(event(otherPilot, FLIGHT_ROUTE, { org: club.slug, id: flightId }) as never)) as { may: { edit: boolean; setPilot: boolean } };
 		expect(seen.may).toMatchObject({ edit: true, setPilot: false });
 		await details(instructor, { title: 'Circuits at Merrow', route: '', pilotId: club.pilot.id });
+	});
+});
+
+describe('a recorder-opened flight gets its pilot', () => {
+	const live = (user: AuthUser, id: string) => liveLoad(event(user, LIVE_ROUTE, { org: club.slug, id }) as never) as Promise<{ unclaimed: boolean; may: { claim: boolean; setPilot: boolean; edit: boolean } }>;
+	const claim = (user: AuthUser, id: string) => liveActions.claim(event(user, LIVE_ROUTE, { org: club.slug, id }, form({})) as never);
+	const setPilotAs = (user: AuthUser, id: string, pilotId: string) => liveActions.setPilot(event(user, LIVE_ROUTE, { org: club.slug, id }, form({ pilotId })) as never);
+
+	it('opens without a pilot; the club’s pilots see it, listed, for claiming', async () => {
+		const id = await recorderOpens();
+		expect((await flightRow(id)).pilotId).toBeNull();
+		const seen = await live(club.pilot, id);
+		expect(seen.unclaimed).toBe(true);
+		expect(seen.may).toMatchObject({ claim: true, setPilot: false, edit: false });
+		const list = await listFlights({ orgId: club.orgId, userId: otherPilot.id, role: 'pilot' }, flightListQuerySchema.parse({}));
+		expect(list.flights.map((r) => r.id)).toContain(id);
+		// The viewer sees every flight but does not fly: no claim.
+		expect((await live(club.viewer, id)).may.claim).toBe(false);
+		await expect(claim(club.viewer, id)).rejects.toSatisfy(refusedWith(403));
+		expect((await flightRow(id)).pilotId).toBeNull();
+	});
+
+	it('is the claiming pilot’s from then on, and other pilots lose sight of it', async () => {
+		const id = await recorderOpens();
+		expect(await claim(club.pilot, id)).toEqual({ action: 'claim', claimed: true });
+		// Claimed, it is no longer open to other pilots at all.
+		await expect(claim(otherPilot, id)).rejects.toSatisfy(refusedWith(403));
+		expect((await flightRow(id)).pilotId).toBe(club.pilot.id);
+		// His own flight now: the replay page opens with the right to correct its fuel inputs.
+		const mine = (await flightLoad(event(club.pilot, FLIGHT_ROUTE, { org: club.slug, id }) as never)) as { may: { edit: boolean } };
+		expect(mine.may.edit).toBe(true);
+		expect((await live(club.pilot, id)).unclaimed).toBe(false);
+		await expect(live(otherPilot, id)).rejects.toSatisfy(refusedWith(403));
+	});
+
+	it('a second claim by someone who still sees the flight answers 409', async () => {
+		const id = await recorderOpens();
+		await claim(club.pilot, id);
+		await expect(claim(instructor, id)).resolves.toMatchObject({ status: 409 });
+	});
+
+	it('lets instructors and admins set the pilot, not pilots or viewers', async () => {
+		const id = await recorderOpens();
+		await expect(setPilotAs(club.pilot, id, club.pilot.id)).rejects.toSatisfy(refusedWith(403));
+		await expect(setPilotAs(club.viewer, id, club.pilot.id)).rejects.toSatisfy(refusedWith(403));
+		expect(await setPilotAs(instructor, id, club.viewer.id)).toMatchObject({ status: 400 });
+		expect((await flightRow(id)).pilotId).toBeNull();
+		expect(await setPilotAs(instructor, id, otherPilot.id)).toEqual({ action: 'setPilot', saved: true });
+		expect((await flightRow(id)).pilotId).toBe(otherPilot.id);
+	});
+
+	it('gives new flights the pilot flying today, assigned by an admin on the recorder', async () => {
+		const assign = (user: AuthUser, pilotId: string) => recorderActions.flyingToday(event(user, RECORDERS_ROUTE, { org: club.slug }, form({ id: recorderId, pilotId })) as never);
+		await expect(assign(club.pilot, otherPilot.id)).rejects.toSatisfy(refusedWith(403));
+		expect(await assign(admin, club.viewer.id)).toMatchObject({ status: 400 });
+		expect(await assign(admin, otherPilot.id)).toEqual({ action: 'flyingToday', recorderId });
+		const id = await recorderOpens();
+		expect((await flightRow(id)).pilotId).toBe(otherPilot.id);
+		// A flight opened by samples alone (no open call) gets the pilot too.
+		expect((await call('close', recorderToken, {})).status).toBe(200);
+		const sent = await call('samples', recorderToken, { samples: [{ seq: 0, t: new Date().toISOString(), flow: 30, gs: 0, dtg: 10 }] });
+		expect(sent.status).toBeLessThan(300);
+		expect((await flightRow(sent.body.flightId)).pilotId).toBe(otherPilot.id);
+		// Yesterday's assignment does not carry over: the next flight waits to be claimed.
+		await db.update(recorders).set({ flyingOn: '2000-01-01' }).where(eq(recorders.id, recorderId));
+		expect((await flightRow(await recorderOpens())).pilotId).toBeNull();
 	});
 });

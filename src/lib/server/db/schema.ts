@@ -8,6 +8,7 @@ import {
 	bigint,
 	boolean,
 	customType,
+	date,
 	doublePrecision,
 	index,
 	integer,
@@ -320,7 +321,10 @@ export const recorders = pgTable(
 		tokenHint: text().notNull(),
 		createdAt: tstz().notNull().defaultNow(),
 		lastContactAt: tstz(),
-		revokedAt: tstz()
+		revokedAt: tstz(),
+		/** The pilot flying today: flights this recorder opens on flyingOn (a UTC day) are theirs. */
+		flyingPilotId: text().references(() => users.id, { onDelete: 'set null' }),
+		flyingOn: date({ mode: 'string' })
 	},
 	(t) => [index().on(t.aircraftId)]
 );

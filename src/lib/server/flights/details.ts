@@ -33,6 +33,21 @@ async function roleIn(orgId: string, userId: string): Promise<Role | null> {
 	return m?.role ?? null;
 }
 
+/** Why this member cannot be the pilot of a flight of the organisation, or null when they can. */
+async function pilotProblem(orgId: string, pilotId: string): Promise<string | null> {
+	const role = await roleIn(orgId, pilotId);
+	return role && can(role, 'upload') ? null : 'Choose a member of this organisation who flies (a pilot, instructor or admin).';
+}
+
+/** Sets (or clears, with null) the pilot, for those who may choose it. */
+export async function setPilot(flight: Pick<Flight, 'id' | 'orgId'>, pilotId: string | null): Promise<EditResult> {
+	const problem = pilotId === null ? null : await pilotProblem(flight.orgId, pilotId);
+	if (problem) return { ok: false, field: 'pilotId', message: problem };
+	await db.update(flights).set({ pilotId, updatedAt: new Date() }).where(eq(flights.id, flight.id));
+	await announceChange(flight.id);
+	return { ok: true };
+}
+
 /**
  * Saves the details. `maySetPilot` is the editor's right to choose the pilot: without it a pilot
  * field that names someone else is refused (never silently dropped).
@@ -40,10 +55,8 @@ async function roleIn(orgId: string, userId: string): Promise<Role | null> {
 export async function saveDetails(flight: Pick<Flight, 'id' | 'orgId' | 'pilotId'>, input: FlightDetailsInput, maySetPilot: boolean): Promise<EditResult> {
 	if (input.pilotId !== undefined && input.pilotId !== flight.pilotId) {
 		if (!maySetPilot) return { ok: false, field: 'pilotId', message: 'Only an instructor or an admin can change the pilot of a flight.' };
-		if (input.pilotId !== null) {
-			const role = await roleIn(flight.orgId, input.pilotId);
-			if (!role || !can(role, 'upload')) return { ok: false, field: 'pilotId', message: 'Choose a member of this organisation who flies (a pilot, instructor or admin).' };
-		}
+		const problem = input.pilotId === null ? null : await pilotProblem(flight.orgId, input.pilotId);
+		if (problem) return { ok: false, field: 'pilotId', message: problem };
 	}
 	if (input.instructorId) {
 		const role = await roleIn(flight.orgId, input.instructorId);

@@ -1,5 +1,5 @@
-import { and, desc, eq, or } from 'drizzle-orm';
-import { can } from '$lib/permissions';
+import { and, desc, eq } from 'drizzle-orm';
+import { visibleFlights } from '$lib/server/flights/list';
 import { requireMember } from '$lib/server/access';
 import { db } from '$lib/server/db';
 import { aircraft, flights, users } from '$lib/server/db/schema';
@@ -8,9 +8,7 @@ import type { PageServerLoad } from './$types';
 // Overview: flights in the air now, the latest flights the member may see, and the fleet.
 export const load = (async (event) => {
 	const { org, role, user } = await requireMember(event, event.params.org);
-	const visible = can(role, 'viewAllFlights')
-		? eq(flights.orgId, org.id)
-		: and(eq(flights.orgId, org.id), or(eq(flights.pilotId, user.id), eq(flights.instructorId, user.id)));
+	const visible = visibleFlights({ orgId: org.id, userId: user.id, role });
 	const columns = {
 		id: flights.id,
 		title: flights.title,
