@@ -12,10 +12,11 @@ export type Permission =
 	| 'manageMembers'
 	| 'manageAircraft'
 	| 'manageRecorders'
-	| 'calibrate';
+	| 'calibrate'
+	| 'emptyTrash';
 
 const GRANTS: Record<Role, readonly Permission[]> = {
-	admin: ['viewFleet', 'viewAllFlights', 'upload', 'editAnyFlight', 'annotate', 'manageMembers', 'manageAircraft', 'manageRecorders', 'calibrate'],
+	admin: ['viewFleet', 'viewAllFlights', 'upload', 'editAnyFlight', 'annotate', 'manageMembers', 'manageAircraft', 'manageRecorders', 'calibrate', 'emptyTrash'],
 	instructor: ['viewFleet', 'viewAllFlights', 'upload', 'editAnyFlight', 'annotate'],
 	pilot: ['viewFleet', 'upload'],
 	viewer: ['viewFleet', 'viewAllFlights']

@@ -27,7 +27,9 @@ interface Row {
 	method: 'GET' | 'POST';
 	path: (ids: Ids) => string;
 	expect: Expect;
-	form?: Record<string, string>;
+	form?: Record<string, string> | ((ids: Ids) => Record<string, string>);
+	/** Where a member's 303 must lead (the anonymous one always leads to sign-in). */
+	location?: RegExp;
 	/** A raw body instead of a form, e.g. an empty CSV upload. */
 	body?: { data: string; type: string };
 }
@@ -127,6 +129,11 @@ const MATRIX: Row[] = [
 	{ route: '/account', method: 'POST', path: () => '/account?/signOutOthers', form: {}, expect: anyone(200) },
 	// An empty CSV for the trainer: members who may upload get the file's error, the rest are refused first.
 	{ route: '/api/v1/flights', method: 'POST', path: () => `/api/v1/flights?aircraftId=${DEMO_AIRCRAFT.trainer}&declaration=full`, body: { data: '', type: 'text/csv' }, expect: only(FLIGHT_EDITORS.concat('student'), 400, 401) },
+	// The trash: the second fixture flight goes in and comes back out for each editor in turn.
+	{ route: '/o/[org]/trash', method: 'GET', path: () => `${O}/trash`, expect: members(200) },
+	{ route: '/o/[org]/flights/[id]', method: 'POST', path: (i) => `${O}/flights/${i.pilotFlight2}?/trash`, form: {}, location: /\/trash\?moved=/, expect: only(FLIGHT_EDITORS, 303) },
+	{ route: '/o/[org]/trash', method: 'POST', path: () => `${O}/trash?/restore`, form: (i) => ({ id: i.pilotFlight2 }), expect: { ...only(FLIGHT_EDITORS, 200), viewer: 404, student: 404 } },
+	{ route: '/o/[org]/trash', method: 'POST', path: () => `${O}/trash?/empty`, form: {}, expect: only(['admin'], 200) },
 	// Last: it ends the role's own session, so every row after it would see a signed-out user.
 	{ route: '/account', method: 'POST', path: () => '/account?/signOutEverywhere', form: {}, expect: anyone(303) }
 ];
@@ -185,12 +192,14 @@ for (const role of ROLES) {
 					? await ctx.get(url, { maxRedirects: 0, headers: { accept: 'text/html' } })
 					: row.body
 						? await ctx.post(url, { data: row.body.data, maxRedirects: 0, headers: { 'content-type': row.body.type } })
-						: await ctx.post(url, { form: row.form ?? {}, maxRedirects: 0, headers: { accept: 'text/html' } });
+						: await ctx.post(url, { form: (typeof row.form === 'function' ? row.form(ids) : row.form) ?? {}, maxRedirects: 0, headers: { accept: 'text/html' } });
 			const want = row.expect[role];
 			if (res.status() !== want) failures.push(`${row.method} ${url}: got ${res.status()}, want ${want}`);
 			if (want === 303 && res.status() === 303) {
 				const location = res.headers()['location'] ?? '';
-				if (!location.startsWith('/sign-in')) failures.push(`${row.method} ${url}: redirected to ${location}, want /sign-in`);
+				if (row.location && role !== 'anonymous') {
+					if (!row.location.test(location)) failures.push(`${row.method} ${url}: redirected to ${location}, want ${row.location}`);
+				} else if (!location.startsWith('/sign-in')) failures.push(`${row.method} ${url}: redirected to ${location}, want /sign-in`);
 			}
 		}
 		expect(failures, failures.join('\n')).toEqual([]);

@@ -13,6 +13,9 @@ import { actions as flightActions, load as flightLoad } from '../../src/routes/o
 import { actions as liveActions, load as liveLoad } from '../../src/routes/o/[org]/flights/[id]/live/+page.server';
 import { actions as recorderActions } from '../../src/routes/o/[org]/recorders/+page.server';
 import { call } from './live-fixtures';
+import { actions as trashActions, load as trashLoad } from '../../src/routes/o/[org]/trash/+page.server';
+import { aircraft, flightFigures, uploads } from '$lib/server/db/schema';
+import { isRedirect } from '@sveltejs/kit';
 import { makeClub, makeUser, steadyFile, upload, type Club } from './upload-fixture';
 import type { AuthUser } from '$lib/server/auth';
 
@@ -189,5 +192,62 @@ describe('a recorder-opened flight gets its pilot', () => {
 		// Yesterday's assignment does not carry over: the next flight waits to be claimed.
 		await db.update(recorders).set({ flyingOn: '2000-01-01' }).where(eq(recorders.id, recorderId));
 		expect((await flightRow(await recorderOpens())).pilotId).toBeNull();
+	});
+});
+
+describe('the trash', () => {
+	const TRASH_ROUTE = '/o/[org]/trash';
+	let id = '';
+	let uploadId = '';
+	const lastOnBoard = async () => (await db.select({ l: aircraft.lastOnBoardL }).from(aircraft).where(eq(aircraft.id, club.diesel.id)))[0].l;
+	const trash = (user: AuthUser) => flightActions.trash(event(user, FLIGHT_ROUTE, { org: club.slug, id }, form({})) as never);
+	const restore = (user: AuthUser) => trashActions.restore(event(user, TRASH_ROUTE, { org: club.slug }, form({ id })) as never);
+	const empty = (user: AuthUser) => trashActions.empty(event(user, TRASH_ROUTE, { org: club.slug }, form({})) as never);
+
+	beforeAll(async () => {
+		// Two flights of the diesel: the later one sets the aircraft's last fuel on board.
+		const first = await upload(club.pilot, { aircraftId: club.diesel.id, file: steadyFile({ start: Date.UTC(2026, 3, 2, 9), seconds: 900, flowUsgph: 6 }), fileName: 'a.csv' });
+		const second = await upload(club.pilot, { aircraftId: club.diesel.id, file: steadyFile({ start: Date.UTC(2026, 3, 3, 9), seconds: 1800, flowUsgph: 6 }), fileName: 'b.csv' });
+		expect([first.status, second.status]).toEqual([201, 201]);
+		id = second.body.flightId;
+		uploadId = (await flightRow(id)).uploadId!;
+	});
+
+	it('refuses the viewer and other pilots; the pilot moves his flight there and it disappears', async () => {
+		const before = await lastOnBoard();
+		await expect(trash(club.viewer)).rejects.toSatisfy(refusedWith(403));
+		await expect(trash(otherPilot)).rejects.toSatisfy(refusedWith(403));
+		await expect(trash(club.pilot)).rejects.toSatisfy((e) => isRedirect(e));
+		const f = await flightRow(id);
+		expect(f.deletedAt).not.toBeNull();
+		expect(f.summary).toBeNull();
+		expect(await db.select().from(flightFigures).where(eq(flightFigures.flightId, id))).toEqual([]);
+		// The aircraft's last fuel on board is now the earlier flight's (more fuel: it burned less).
+		expect(await lastOnBoard()).toBeGreaterThan(before!);
+		await expect(flightLoad(event(admin, FLIGHT_ROUTE, { org: club.slug, id }) as never)).rejects.toSatisfy(refusedWith(404));
+		const list = await listFlights({ orgId: club.orgId, userId: admin.id, role: 'admin' }, flightListQuerySchema.parse({}));
+		expect(list.flights.map((r) => r.id)).not.toContain(id);
+		const seen = (await trashLoad(event(club.pilot, TRASH_ROUTE, { org: club.slug }) as never)) as { flights: { id: string }[]; mayEmpty: boolean };
+		expect(seen.flights.map((x) => x.id)).toEqual([id]);
+		expect(seen.mayEmpty).toBe(false);
+	});
+
+	it('is restored by its editors with its figures back', async () => {
+		const trashed = await lastOnBoard();
+		await expect(restore(otherPilot)).rejects.toSatisfy(refusedWith(403));
+		expect(await restore(instructor)).toEqual({ action: 'restore', restored: id });
+		const f = await flightRow(id);
+		expect(f.deletedAt).toBeNull();
+		expect(f.summary).not.toBeNull();
+		expect(await lastOnBoard()).toBeLessThan(trashed!);
+	});
+
+	it('is emptied by an admin only, which deletes the flight and its original upload', async () => {
+		await expect(trash(club.pilot)).rejects.toSatisfy((e) => isRedirect(e));
+		expect((await db.select().from(uploads).where(eq(uploads.id, uploadId))).length).toBe(1);
+		await expect(empty(instructor)).rejects.toSatisfy(refusedWith(403));
+		expect(await empty(admin)).toEqual({ action: 'empty', deleted: 1 });
+		expect(await db.select().from(flights).where(eq(flights.id, id))).toEqual([]);
+		expect(await db.select().from(uploads).where(eq(uploads.id, uploadId))).toEqual([]);
 	});
 });

@@ -367,7 +367,10 @@ export const flights = pgTable(
 		/** Cached flight summary for lists; recomputed whenever samples or fuel inputs change. */
 		summary: jsonb(),
 		createdAt: tstz().notNull().defaultNow(),
-		updatedAt: tstz().notNull().defaultNow()
+		updatedAt: tstz().notNull().defaultNow(),
+		/** In the trash since then: hidden everywhere, restorable, really deleted when the trash is emptied. */
+		deletedAt: tstz(),
+		deletedBy: text().references(() => users.id, { onDelete: 'set null' })
 	},
 	(t) => [
 		index().on(t.orgId, t.startedAt),

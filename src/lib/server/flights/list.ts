@@ -38,7 +38,8 @@ export interface ListViewer {
  * who fly) the recorder-opened flights nobody has claimed yet: mayOnFlight's 'view' in SQL.
  */
 export function visibleFlights(v: ListViewer): SQL {
-	const org = eq(flights.orgId, v.orgId);
+	// Flights in the trash are nobody's to see here (the trash page lists them).
+	const org = and(eq(flights.orgId, v.orgId), isNull(flights.deletedAt))!;
 	if (can(v.role, 'viewAllFlights')) return org;
 	const own = or(eq(flights.pilotId, v.userId), eq(flights.instructorId, v.userId))!;
 	const unclaimed = and(isNull(flights.pilotId), eq(flights.source, 'live'))!;

@@ -2,7 +2,7 @@
 // the lists read) and the aircraft's "last known on board", recomputed from the stored samples and
 // fuel inputs with the same engine the browser runs. Every write that changes an input (upload,
 // declaration, fuel event, close, aircraft fuel profile, meter factor) calls it in its transaction.
-import { and, asc, desc, eq, isNotNull, sql } from 'drizzle-orm';
+import { and, asc, desc, eq, gt, isNotNull, isNull, sql } from 'drizzle-orm';
 import { computeFlight, summarize, type FlightComputation, type FlightSummary } from '$lib/fuel';
 import { db } from '../db';
 import { aircraft, flights } from '../db/schema';
@@ -22,7 +22,8 @@ export function computeLoaded(f: LoadedFlight): { computation: FlightComputation
 export async function recomputeSummary(flightId: string, q: Queryable = db): Promise<FlightSummary | null> {
 	const loaded = await loadFlight(flightId, q);
 	if (!loaded) return null;
-	const computed = loaded.flight.status === 'closed' ? computeLoaded(loaded) : null;
+	// A flight in the trash keeps no figures: lists, history, baselines and the last fuel skip it.
+	const computed = loaded.flight.status === 'closed' && loaded.flight.deletedAt === null ? computeLoaded(loaded) : null;
 	const summary = computed?.summary ?? null;
 	await q.update(flights).set({ summary, updatedAt: new Date() }).where(eq(flights.id, flightId));
 	// The history's typed per-flight and per-phase figures, from this same computation.
@@ -60,9 +61,23 @@ async function refreshLastOnBoard(aircraftId: string, q: Queryable): Promise<voi
 	const [latest] = await q
 		.select({ onBoardL: sql<number | null>`(${flights.summary}->>'onBoardAtShutdownL')::float8` })
 		.from(flights)
-		.where(and(eq(flights.aircraftId, aircraftId), eq(flights.status, 'closed'), isNotNull(flights.summary)))
+		.where(and(eq(flights.aircraftId, aircraftId), eq(flights.status, 'closed'), isNotNull(flights.summary), isNull(flights.deletedAt)))
 		.orderBy(desc(flights.startedAt))
 		.limit(1);
 	if (!latest || latest.onBoardL === null) return;
 	await q.update(aircraft).set({ lastOnBoardL: latest.onBoardL, updatedAt: new Date() }).where(eq(aircraft.id, aircraftId));
+}
+
+/**
+ * After a flight of the aircraft went into the trash or came back: the flights after it, whose
+ * stored figures use the recent flights' cruise flow. Call lockAircraftFlights first.
+ */
+export async function recomputeFlightsAfter(aircraftId: string, startedAt: Date, q: Queryable): Promise<number> {
+	const ids = await q
+		.select({ id: flights.id })
+		.from(flights)
+		.where(and(eq(flights.aircraftId, aircraftId), gt(flights.startedAt, startedAt), isNull(flights.deletedAt)))
+		.orderBy(asc(flights.startedAt));
+	for (const { id } of ids) await recomputeSummary(id, q);
+	return ids.length;
 }

@@ -12,6 +12,8 @@ import { loadEvents } from '$lib/server/flights/load';
 import { can } from '$lib/permissions';
 import { declarationFormSchema, declarationFormValues, flightDetailsFormSchema, fuelEventFormSchema, idFormSchema, noteEditFormSchema, noteFormSchema, reasonFormSchema } from '$lib/schemas/flight';
 import { peopleChoices, saveDetails } from '$lib/server/flights/details';
+import { trashFlight } from '$lib/server/flights/trash';
+import { redirect } from '@sveltejs/kit';
 import { failForm, parseForm } from '$lib/schemas/form';
 import type { Declaration } from '$lib/fuel';
 import type { Actions, PageServerLoad } from './$types';
@@ -86,6 +88,13 @@ export const load = (async (event) => {
 }) satisfies PageServerLoad;
 
 export const actions = {
+	// Into the trash (the page asks first); its editors restore it from the trash page.
+	trash: async (event) => {
+		const { flight, user, org } = await requireFlight(event, event.params.org, event.params.id, 'edit');
+		const done = await trashFlight(flight, user.id);
+		if (!done.ok) return failForm(409, { [done.field]: done.message }, {}, 'trash');
+		redirect(303, `/o/${org.slug}/trash?moved=${flight.id}`);
+	},
 	details: async (event) => {
 		const ctx = await requireFlight(event, event.params.org, event.params.id, 'edit');
 		const form = parseForm(flightDetailsFormSchema, await event.request.formData());
