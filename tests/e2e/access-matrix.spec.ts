@@ -111,7 +111,7 @@ const MATRIX: Row[] = [
 	// A shared link is its own authorization: an unknown token is 404 for everyone, signed in or not.
 	{ route: '/share/[token]', method: 'GET', path: () => '/share/bds_not-a-real-token-000000000', expect: { ...anyone(404), anonymous: 404 } },
 	{ route: '/o/[org]/flights/[id]/live', method: 'POST', path: (i) => `${F(i)}/live?/declaration`, form: {}, expect: only(FLIGHT_EDITORS, 400) },
-	{ route: '/o/[org]/flights/[id]/live', method: 'POST', path: (i) => `${F(i)}/live?/ack`, form: { alarmId: '' }, expect: only(FLIGHT_VIEWERS, 400) },
+	{ route: '/o/[org]/flights/[id]/live', method: 'POST', path: (i) => `${F(i)}/live?/ack`, form: { alarmId: '' }, expect: only(FLIGHT_EDITORS, 400) },
 	{ route: '/o/[org]/flights/[id]/live', method: 'POST', path: (i) => `${F(i)}/live?/watch`, form: { on: 'maybe' }, expect: only(FLIGHT_VIEWERS, 400) },
 	// The fixture flight has its pilot: whoever sees it is told so (409); the student does not see it.
 	{ route: '/o/[org]/flights/[id]/live', method: 'POST', path: (i) => `${F(i)}/live?/claim`, form: {}, expect: only(FLIGHT_VIEWERS, 409) },

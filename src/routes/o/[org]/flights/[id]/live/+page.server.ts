@@ -60,7 +60,7 @@ export const load = (async (event) => {
 		unit,
 		declarationValues: declarationFormValues(flight.declaration as Declaration, flight.previousOnBoardL, unit, a.densityKgPerL),
 		unclaimed: isUnclaimed(flight),
-		may: { edit: mayOnFlight(ctx, flight, 'edit'), claim: mayOnFlight(ctx, flight, 'claim'), setPilot: mayOnFlight(ctx, flight, 'setPilot') },
+		may: { edit: mayOnFlight(ctx, flight, 'edit'), acknowledge: mayOnFlight(ctx, flight, 'acknowledge'), claim: mayOnFlight(ctx, flight, 'claim'), setPilot: mayOnFlight(ctx, flight, 'setPilot') },
 		pilots: mayOnFlight(ctx, flight, 'setPilot') ? (await peopleChoices(flight.orgId)).pilots : [],
 		acked,
 		watchingFlight,
@@ -85,9 +85,9 @@ export const actions = {
 		await setLiveDeclaration(flight.id, form.data.declaration, form.data.previousOnBoardL, { userId: user.id, reason: why.data.reason });
 		return { action: 'declaration', saved: true };
 	},
-	// Each viewer acknowledges for themselves; the alarm stays on the timeline for everyone.
+	// The flight's pilot, instructors and admins acknowledge (read-only viewers see alarms only); the alarm stays on the timeline for everyone.
 	ack: async (event) => {
-		const { flight, user } = await requireFlight(event, event.params.org, event.params.id, 'view');
+		const { flight, user } = await requireFlight(event, event.params.org, event.params.id, 'acknowledge');
 		const form = parseForm(alarmIdSchema, await event.request.formData());
 		if (!form.ok) return failForm(400, form.errors, form.values, 'ack');
 		const [alarm] = await db.select({ id: flightAlarms.id }).from(flightAlarms).where(and(eq(flightAlarms.id, form.data.alarmId), eq(flightAlarms.flightId, flight.id)));
