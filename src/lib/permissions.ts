@@ -14,10 +14,11 @@ export type Permission =
 	| 'manageRecorders'
 	| 'calibrate'
 	/** Read the aircraft's pump receipts, reconciliations and calibration history. */
-	| 'viewFuelRecords';
+	| 'viewFuelRecords'
+	| 'emptyTrash';
 
 const GRANTS: Record<Role, readonly Permission[]> = {
-	admin: ['viewFleet', 'viewAllFlights', 'upload', 'editAnyFlight', 'annotate', 'manageMembers', 'manageAircraft', 'manageRecorders', 'calibrate', 'viewFuelRecords'],
+	admin: ['viewFleet', 'viewAllFlights', 'upload', 'editAnyFlight', 'annotate', 'manageMembers', 'manageAircraft', 'manageRecorders', 'calibrate', 'viewFuelRecords', 'emptyTrash'],
 	instructor: ['viewFleet', 'viewAllFlights', 'upload', 'editAnyFlight', 'annotate', 'viewFuelRecords'],
 	pilot: ['viewFleet', 'upload'],
 	viewer: ['viewFleet', 'viewAllFlights', 'viewFuelRecords']
@@ -25,6 +26,46 @@ const GRANTS: Record<Role, readonly Permission[]> = {
 
 export function can(role: Role, permission: Permission): boolean {
 	return GRANTS[role].includes(permission);
+}
+
+/**
+ * What a member may do with one flight:
+ * - view: their own (as pilot or instructor), every flight with viewAllFlights, and, for members
+ *   who fly (upload), a recorder-opened flight nobody has claimed yet, so its pilot can claim it;
+ * - edit: fuel inputs and the flight's details (title, instructor, route): their own if they fly,
+ *   or any with editAnyFlight (instructors, admins); the same people move it to the trash and back;
+ * - annotate: notes and plans;
+ * - claim: a member who flies takes an unclaimed live flight as its pilot;
+ * - setPilot: choose any member as the pilot (instructors and admins);
+ * - acknowledge: an alarm, for everyone watching; read-only viewers see alarms but do not answer them.
+ */
+export type FlightAction = 'view' | 'edit' | 'annotate' | 'claim' | 'setPilot' | 'acknowledge';
+
+export interface FlightFacts {
+	pilotId: string | null;
+	instructorId: string | null;
+	source: 'upload' | 'live';
+}
+
+/** An unclaimed flight: opened by a recorder with no pilot assigned, nobody has taken it yet. */
+export const isUnclaimed = (flight: FlightFacts) => flight.pilotId === null && flight.source === 'live';
+
+export function mayOnFlight(ctx: { user: { id: string }; role: Role }, flight: FlightFacts, action: FlightAction): boolean {
+	const own = flight.pilotId === ctx.user.id || flight.instructorId === ctx.user.id;
+	const flies = can(ctx.role, 'upload');
+	switch (action) {
+		case 'view':
+			return own || can(ctx.role, 'viewAllFlights') || (flies && isUnclaimed(flight));
+		case 'edit':
+		case 'acknowledge':
+			return (own && flies) || can(ctx.role, 'editAnyFlight');
+		case 'annotate':
+			return (own && flies) || can(ctx.role, 'annotate');
+		case 'claim':
+			return flies && isUnclaimed(flight);
+		case 'setPilot':
+			return can(ctx.role, 'editAnyFlight');
+	}
 }
 
 export const ROLE_LABELS: Record<Role, string> = {

@@ -223,8 +223,12 @@ test('play back at 60×, pick a moment on a chart, and annotate it as the instru
 test('a viewer reads but cannot change; another organisation gets 404', async ({ page }) => {
 	await signIn(page, DEMO_USERS.viewer);
 	await openReplay(page);
-	await page.getByTestId('fuel-inputs').locator('summary').click();
-	await expect(page.getByText('Only the pilot of this flight, an instructor or an admin can change the declaration.')).toBeVisible();
+	// No write-looking control: the fuel inputs in words, no greyed form, no details, trash or note form.
+	await expect(page.getByTestId('fuel-inputs-readonly')).toBeVisible();
+	await expect(page.getByTestId('fuel-inputs')).toHaveCount(0);
+	await expect(page.locator('main form, main fieldset[disabled], main button[disabled]')).toHaveCount(0);
+	await expect(page.getByTestId('flight-details')).toHaveCount(0);
+	await expect(page.getByTestId('trash-flight')).toHaveCount(0);
 	await expect(page.getByTestId('decl-save')).toHaveCount(0);
 	await expect(page.getByTestId('note-form')).toHaveCount(0);
 

@@ -32,7 +32,8 @@ describe('alarm e-mails', () => {
 	it('sends one e-mail per crossing to each watcher who may see the flight', async () => {
 		// 12 US gal on board, low-fuel alarm below 10 US gal, 9 US gal/h: 2 US gal are burnt
 		// after 800 s, so the alarm is raised at the first sample after T0 + 800 s.
-		const open = await call('open', w.tokenA, { declaration: { kind: 'onBoard', amount: 12 } });
+		// Flown by the instructor: a flight with no pilot yet is open to every pilot of the club to claim.
+		const open = await call('open', w.tokenA, { declaration: { kind: 'onBoard', amount: 12 }, pilot: w.instructor.email });
 		const flightId = open.body.flightId;
 		await watch(w.admin.id, { aircraftId: w.aircraftA });
 		await watch(w.instructor.id, { flightId });

@@ -46,7 +46,8 @@ function routeFetch(user: Member | null): typeof fetch {
 const routeUrl = (flightId: string) => `http://127.0.0.1:4173/api/v1/flights/${flightId}/stream`;
 
 async function openFlight(): Promise<string> {
-	const r = await call('open', w.tokenA, { declaration: { kind: 'onBoard', amount: 30 } });
+	// Flown by the instructor: a flight with no pilot yet is open to every pilot of the club to claim.
+	const r = await call('open', w.tokenA, { declaration: { kind: 'onBoard', amount: 30 }, pilot: w.instructor.email });
 	expect(r.status).toBe(201);
 	return r.body.flightId;
 }

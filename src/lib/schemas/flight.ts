@@ -157,3 +157,29 @@ export const exportQuerySchema = z.object({
 export const samplesQuerySchema = z.object({
 	format: z.enum(['json', 'binary'], 'format must be json or binary.').default('json')
 });
+
+/** A member chosen in a select: a user id, or blank for nobody. */
+const memberChoice = z
+	.string()
+	.trim()
+	.max(200, 'Choose a member of this organisation.')
+	.optional()
+	.transform((v) => (v === undefined ? undefined : v === '' ? null : v));
+
+/**
+ * A flight's details: title, route as written, instructor and (for those who may set it) pilot.
+ * An absent pilot field leaves the pilot as it is; a blank one clears it.
+ */
+export const flightDetailsFormSchema = z.object({
+	title: plainText(200),
+	route: plainText(200),
+	pilotId: memberChoice,
+	instructorId: memberChoice
+});
+export type FlightDetailsInput = z.output<typeof flightDetailsFormSchema>;
+
+/** Choosing the pilot flying today on a recorder (blank: nobody assigned). */
+export const flyingTodayFormSchema = z.object({
+	id: z.uuid('That recorder is not in this organisation.'),
+	pilotId: memberChoice
+});

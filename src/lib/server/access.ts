@@ -3,8 +3,8 @@
 // revealed; a member without the permission → 403. Each records its decision on event.locals.access,
 // which the authorization guard checks on every answer of a non-public route.
 import { error, redirect, type RequestEvent } from '@sveltejs/kit';
-import { and, eq, gt, isNull } from 'drizzle-orm';
-import { can, type Permission, type Role } from '$lib/permissions';
+import { and, eq, gt, isNotNull, isNull } from 'drizzle-orm';
+import { can, mayOnFlight, type FlightAction, type Permission, type Role } from '$lib/permissions';
 import { SESSION_ABSOLUTE_MS, type AuthUser } from './auth';
 import { db } from './db';
 import { aircraft, apiTokens, flights, memberships, organisations, recorders, sessions, type Aircraft, type Flight, type Organisation, type Recorder } from './db/schema';
@@ -27,7 +27,8 @@ export interface OrgContext {
 	role: Role;
 }
 
-export type FlightAction = 'view' | 'edit' | 'annotate';
+// The per-flight rule lives in $lib/permissions (the UI shows what the server allows).
+export { mayOnFlight, type FlightAction };
 
 const isApi = (event: Event) => event.route.id?.startsWith('/api/') ?? event.url.pathname.startsWith('/api/');
 
@@ -75,28 +76,18 @@ export async function requireAircraft(
 	return { ...ctx, aircraft: found };
 }
 
-export function mayOnFlight(ctx: { user: Pick<AuthUser, 'id'> & Partial<AuthUser>; role: Role }, flight: Pick<Flight, 'pilotId' | 'instructorId'>, action: FlightAction): boolean {
-	const own = flight.pilotId === ctx.user.id || flight.instructorId === ctx.user.id;
-	switch (action) {
-		case 'view':
-			return own || can(ctx.role, 'viewAllFlights');
-		case 'edit':
-			return (own && can(ctx.role, 'upload')) || can(ctx.role, 'editAnyFlight');
-		case 'annotate':
-			return (own && can(ctx.role, 'upload')) || can(ctx.role, 'annotate');
-	}
-}
-
 /** A flight of the organisation that the member may view / edit / annotate. */
 export async function requireFlight(
 	event: Event,
 	slug: string,
 	flightId: string,
-	action: FlightAction = 'view'
+	action: FlightAction = 'view',
+	/** 'trashed' for restoring a flight from the trash; every other use sees only kept flights. */
+	state: 'kept' | 'trashed' = 'kept'
 ): Promise<OrgContext & { flight: Flight }> {
 	const ctx = await requireMember(event, slug);
 	const flight = isUuid(flightId)
-		? await db.query.flights.findFirst({ where: and(eq(flights.id, flightId), eq(flights.orgId, ctx.org.id)) })
+		? await db.query.flights.findFirst({ where: and(eq(flights.id, flightId), eq(flights.orgId, ctx.org.id), state === 'kept' ? isNull(flights.deletedAt) : isNotNull(flights.deletedAt)) })
 		: undefined;
 	if (!flight) refuse(event, () => error(404, 'Flight not found.'));
 	if (!mayOnFlight(ctx, flight, 'view')) refuse(event, () => error(403, 'This flight belongs to another pilot.'));
@@ -116,7 +107,7 @@ export async function requireFlightById(event: Event, flightId: string, action: 
 				.select({ slug: organisations.slug })
 				.from(flights)
 				.innerJoin(organisations, eq(organisations.id, flights.orgId))
-				.where(eq(flights.id, flightId))
+				.where(and(eq(flights.id, flightId), isNull(flights.deletedAt)))
 				.limit(1)
 		: [];
 	if (!row[0]) refuse(event, () => error(404, 'Flight not found.'));
@@ -197,7 +188,7 @@ export async function grantHolds(grant: FlightGrant): Promise<boolean> {
 		.select({ flight: flights, role: memberships.role })
 		.from(flights)
 		.innerJoin(memberships, and(eq(memberships.orgId, flights.orgId), eq(memberships.userId, grant.userId)))
-		.where(eq(flights.id, grant.flightId))
+		.where(and(eq(flights.id, grant.flightId), isNull(flights.deletedAt)))
 		.limit(1);
 	if (!row) return false;
 	return mayOnFlight({ user: { id: grant.userId }, role: row.role }, row.flight, 'view');

@@ -11,6 +11,7 @@ import {
 	boolean,
 	check,
 	customType,
+	date,
 	doublePrecision,
 	index,
 	integer,
@@ -369,7 +370,10 @@ export const recorders = pgTable(
 		tokenHint: text().notNull(),
 		createdAt: tstz().notNull().defaultNow(),
 		lastContactAt: tstz(),
-		revokedAt: tstz()
+		revokedAt: tstz(),
+		/** The pilot flying today: flights this recorder opens on flyingOn (a UTC day) are theirs. */
+		flyingPilotId: text().references(() => users.id, { onDelete: 'set null' }),
+		flyingOn: date({ mode: 'string' })
 	},
 	(t) => [index().on(t.aircraftId)]
 );
@@ -388,6 +392,8 @@ export const flights = pgTable(
 		pilotId: text().references(() => users.id, { onDelete: 'set null' }),
 		instructorId: text().references(() => users.id, { onDelete: 'set null' }),
 		title: text().notNull().default(''),
+		/** The route as the pilot writes it (e.g. "KSTR – FENNY – KSTR"); free text, not the plan. */
+		route: text().notNull().default(''),
 		source: flightSourceEnum().notNull(),
 		status: flightStatusEnum().notNull(),
 		uploadId: uuid().references(() => uploads.id, { onDelete: 'set null' }),
@@ -415,7 +421,10 @@ export const flights = pgTable(
 		 */
 		derivedVersion: integer().notNull().default(0),
 		createdAt: tstz().notNull().defaultNow(),
-		updatedAt: tstz().notNull().defaultNow()
+		updatedAt: tstz().notNull().defaultNow(),
+		/** In the trash since then: hidden everywhere, restorable, really deleted when the trash is emptied. */
+		deletedAt: tstz(),
+		deletedBy: text().references(() => users.id, { onDelete: 'set null' })
 	},
 	(t) => [
 		index().on(t.orgId, t.startedAt),

@@ -160,6 +160,8 @@ export async function flightOfShare(token: string): Promise<string | null> {
 	const [row] = await db
 		.select({ flightId: debriefShares.flightId })
 		.from(debriefShares)
+		// A flight in the trash is shown to nobody, through a shared link neither.
+		.innerJoin(flights, and(eq(flights.id, debriefShares.flightId), isNull(flights.deletedAt)))
 		.where(and(eq(debriefShares.tokenHash, hashToken(token)), isNull(debriefShares.revokedAt), gt(debriefShares.expiresAt, new Date())));
 	return row?.flightId ?? null;
 }

@@ -1,6 +1,6 @@
 // The instructor's students: each pilot of a flight the instructor is named on, with those
 // flights, whether the reserve was kept, and the state of each debrief.
-import { and, desc, eq } from 'drizzle-orm';
+import { and, desc, eq, isNull } from 'drizzle-orm';
 import type { FlightSummary } from '$lib/fuel';
 import type { DebriefStatus } from '$lib/wire/plan';
 import { db } from '../db';
@@ -53,7 +53,7 @@ export async function studentsOf(orgId: string, instructorId: string): Promise<S
 		.leftJoin(users, eq(users.id, flights.pilotId))
 		.leftJoin(debriefs, eq(debriefs.flightId, flights.id))
 		.leftJoin(fuelPlans, eq(fuelPlans.flightId, flights.id))
-		.where(and(eq(flights.orgId, orgId), eq(flights.instructorId, instructorId)))
+		.where(and(eq(flights.orgId, orgId), eq(flights.instructorId, instructorId), isNull(flights.deletedAt)))
 		.orderBy(desc(flights.startedAt));
 	const byPilot = new Map<string, Student>();
 	for (const r of rows) {

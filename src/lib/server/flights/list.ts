@@ -1,7 +1,7 @@
 // The flights list: an organisation's flights (or only the member's own, by role) with the figures
 // from the cached summary, filtered by aircraft, pilot, date range and reserve verdict, sorted and
 // paged in SQL.
-import { and, asc, count, desc, eq, gte, lt, or, sql, type SQL } from 'drizzle-orm';
+import { and, asc, count, desc, eq, gte, isNull, lt, or, sql, type SQL } from 'drizzle-orm';
 import type { FlightSummary } from '$lib/fuel';
 import { can, type Role } from '$lib/permissions';
 import { FLIGHTS_PER_PAGE, type FlightListQuery, type FlightSort } from '$lib/schemas/flight';
@@ -33,11 +33,17 @@ export interface ListViewer {
 	role: Role;
 }
 
-/** What the member may see at all: every flight of the organisation, or their own. */
+/**
+ * What the member may see at all: every flight of the organisation, or their own and (for members
+ * who fly) the recorder-opened flights nobody has claimed yet: mayOnFlight's 'view' in SQL.
+ */
 export function visibleFlights(v: ListViewer): SQL {
-	const org = eq(flights.orgId, v.orgId);
+	// Flights in the trash are nobody's to see here (the trash page lists them).
+	const org = and(eq(flights.orgId, v.orgId), isNull(flights.deletedAt))!;
 	if (can(v.role, 'viewAllFlights')) return org;
-	return and(org, or(eq(flights.pilotId, v.userId), eq(flights.instructorId, v.userId)))!;
+	const own = or(eq(flights.pilotId, v.userId), eq(flights.instructorId, v.userId))!;
+	const unclaimed = and(isNull(flights.pilotId), eq(flights.source, 'live'))!;
+	return and(org, can(v.role, 'upload') ? or(own, unclaimed) : own)!;
 }
 
 export async function listFlights(v: ListViewer, q: FlightListQuery) {

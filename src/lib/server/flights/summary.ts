@@ -2,7 +2,7 @@
 // the lists read) and the aircraft's "last known on board", recomputed from the stored samples and
 // fuel inputs with the same engine the browser runs. Every write that changes an input (upload,
 // declaration, fuel event, close, aircraft fuel profile, meter factor) calls it in its transaction.
-import { asc, eq } from 'drizzle-orm';
+import { and, asc, eq, gt, isNull } from 'drizzle-orm';
 import { computeFlight, summarize, type FlightComputation, type FlightInput, type FlightSummary } from '$lib/fuel';
 import { db, type Db } from '../db';
 import { aircraft, flights, type Flight } from '../db/schema';
@@ -56,7 +56,8 @@ export async function storeDerived(flight: Pick<Flight, 'id' | 'aircraftId'>, in
 export async function recomputeSummary(flightId: string, q: Queryable = db): Promise<FlightSummary | null> {
 	const loaded = await loadFlight(flightId, q);
 	if (!loaded) return null;
-	const computed = loaded.flight.status === 'closed' ? computeLoaded(loaded) : null;
+	// A flight in the trash keeps no figures: lists, history, baselines and the last fuel skip it.
+	const computed = loaded.flight.status === 'closed' && loaded.flight.deletedAt === null ? computeLoaded(loaded) : null;
 	await storeDerived(loaded.flight, loaded.input, computed, q);
 	return computed?.summary ?? null;
 }
@@ -91,4 +92,18 @@ async function refreshLastOnBoard(aircraftId: string, q: Writer): Promise<void> 
 	const onBoardL = await newestShutdownOnBoard(q, aircraftId);
 	if (onBoardL === null) return;
 	await q.update(aircraft).set({ lastOnBoardL: onBoardL, updatedAt: new Date() }).where(eq(aircraft.id, aircraftId));
+}
+
+/**
+ * After a flight of the aircraft went into the trash or came back: the flights after it, whose
+ * stored figures use the recent flights' cruise flow. Call lockAircraftFlights first.
+ */
+export async function recomputeFlightsAfter(aircraftId: string, startedAt: Date, q: Queryable): Promise<number> {
+	const ids = await q
+		.select({ id: flights.id })
+		.from(flights)
+		.where(and(eq(flights.aircraftId, aircraftId), gt(flights.startedAt, startedAt), isNull(flights.deletedAt)))
+		.orderBy(asc(flights.startedAt));
+	for (const { id } of ids) await recomputeSummary(id, q);
+	return ids.length;
 }

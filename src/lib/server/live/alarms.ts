@@ -162,7 +162,7 @@ export async function watchersOf(flight: Flight): Promise<{ id: string; email: s
 		.innerJoin(users, eq(users.id, watches.userId))
 		.innerJoin(memberships, and(eq(memberships.userId, users.id), eq(memberships.orgId, flight.orgId)))
 		.where(or(eq(watches.flightId, flight.id), eq(watches.aircraftId, flight.aircraftId)));
-	return rows.filter((r) => mayOnFlight({ user: { id: r.id, email: r.email, name: r.name, prefFuelUnit: r.prefFuelUnit }, role: r.role }, flight, 'view'));
+	return rows.filter((r) => mayOnFlight({ user: { id: r.id }, role: r.role }, flight, 'view'));
 }
 
 /**

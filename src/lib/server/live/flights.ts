@@ -5,6 +5,7 @@
 import { and, eq, sql } from 'drizzle-orm';
 import type { Declaration } from '$lib/fuel';
 import { UNCHANGED_DECLARATION } from '$lib/schemas/declaration';
+import { can } from '$lib/permissions';
 import { db, type Tx } from '../db';
 import { aircraft, flights, memberships, recorders, users, type Aircraft, type Flight, type Recorder } from '../db/schema';
 import { findAircraftOf } from '../aircraft/lookup';
@@ -83,6 +84,7 @@ export interface NewFlight {
 }
 
 export async function createFlight(tx: Tx, recorder: Recorder, a: Aircraft, o: NewFlight): Promise<Flight> {
+	const pilotId = o.pilotId ?? (await pilotFlyingToday(tx, recorder));
 	const [f] = await tx
 		.insert(flights)
 		.values({
@@ -92,7 +94,7 @@ export async function createFlight(tx: Tx, recorder: Recorder, a: Aircraft, o: N
 			source: 'live',
 			status: 'open',
 			title: o.title ?? '',
-			pilotId: o.pilotId ?? null,
+			pilotId,
 			startedAt: o.startedAt,
 			declaration: o.declaration ?? UNCHANGED_DECLARATION,
 			previousOnBoardL: a.lastOnBoardL,
@@ -105,6 +107,22 @@ export async function createFlight(tx: Tx, recorder: Recorder, a: Aircraft, o: N
 	// may name the pilot and instructor: read the row back if so).
 	if (await attachWaitingPlan(tx, f)) return (await tx.select().from(flights).where(eq(flights.id, f.id)).limit(1))[0];
 	return f;
+}
+
+/** The UTC day of a moment, as the recorders' flying_on column holds it. */
+export const utcDay = (d: Date) => d.toISOString().slice(0, 10);
+
+/**
+ * The pilot assigned to the recorder for today (UTC), if still a member of its organisation who
+ * flies; otherwise null and the flight waits to be claimed.
+ */
+async function pilotFlyingToday(q: Queryable, recorder: Recorder): Promise<string | null> {
+	if (!recorder.flyingPilotId || recorder.flyingOn !== utcDay(new Date())) return null;
+	const [m] = await q
+		.select({ role: memberships.role })
+		.from(memberships)
+		.where(and(eq(memberships.orgId, recorder.orgId), eq(memberships.userId, recorder.flyingPilotId)));
+	return m && can(m.role, 'upload') ? recorder.flyingPilotId : null;
 }
 
 /** The member with this e-mail in the recorder's organisation, for "who is flying". */

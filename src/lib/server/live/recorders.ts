@@ -1,11 +1,13 @@
 // Recorders of an organisation for the admin page: registering one for an aircraft (its token
 // shown once, stored as a SHA-256 hash), revoking, rotating (a new token, the old one refused
-// from then on) and the list with each recorder's last contact.
+// from then on), the pilot flying today, and the list with each recorder's last contact.
 import { and, asc, eq, isNull } from 'drizzle-orm';
+import { can } from '$lib/permissions';
 import { db } from '../db';
-import { aircraft, recorders } from '../db/schema';
+import { aircraft, memberships, recorders } from '../db/schema';
 import { hashToken, newToken } from '../tokens';
 import { RECORDER_TOKEN_PREFIX } from './api';
+import { utcDay } from './flights';
 
 /** Enough of the token to tell two apart on screen, far too little to use. */
 const hintOf = (token: string) => token.slice(0, RECORDER_TOKEN_PREFIX.length + 6);
@@ -19,6 +21,8 @@ export async function listRecorders(orgId: string) {
 			createdAt: recorders.createdAt,
 			lastContactAt: recorders.lastContactAt,
 			revokedAt: recorders.revokedAt,
+			flyingPilotId: recorders.flyingPilotId,
+			flyingOn: recorders.flyingOn,
 			aircraftId: aircraft.id,
 			registration: aircraft.registration
 		})
@@ -58,4 +62,22 @@ export async function rotateRecorder(orgId: string, recorderId: string): Promise
 		.where(and(eq(recorders.id, recorderId), eq(recorders.orgId, orgId), isNull(recorders.revokedAt)))
 		.returning({ id: recorders.id });
 	return done.length > 0 ? token : null;
+}
+
+/**
+ * Assigns the pilot flying today (UTC) to a recorder, or clears it (null): the flights it opens
+ * today are theirs from the start. The pilot must be a member who flies.
+ */
+export async function setFlyingToday(orgId: string, recorderId: string, pilotId: string | null): Promise<{ ok: true } | { ok: false; field: string; error: string }> {
+	if (pilotId !== null) {
+		const [m] = await db.select({ role: memberships.role }).from(memberships).where(and(eq(memberships.orgId, orgId), eq(memberships.userId, pilotId)));
+		if (!m || !can(m.role, 'upload')) return { ok: false, field: 'pilotId', error: 'Choose a member of this organisation who flies (a pilot, instructor or admin).' };
+	}
+	const [r] = await db
+		.update(recorders)
+		.set({ flyingPilotId: pilotId, flyingOn: pilotId === null ? null : utcDay(new Date()) })
+		.where(and(eq(recorders.id, recorderId), eq(recorders.orgId, orgId), isNull(recorders.revokedAt)))
+		.returning({ id: recorders.id });
+	if (!r) return { ok: false, field: 'id', error: 'That recorder is revoked or not in this organisation.' };
+	return { ok: true };
 }

@@ -1,7 +1,10 @@
 import { z } from 'zod';
 import { requireMember } from '$lib/server/access';
 import { listAircraft } from '$lib/server/services/aircraft';
-import { listRecorders, registerRecorder, revokeRecorder, rotateRecorder } from '$lib/server/live/recorders';
+import { listRecorders, registerRecorder, revokeRecorder, rotateRecorder, setFlyingToday } from '$lib/server/live/recorders';
+import { utcDay } from '$lib/server/live/flights';
+import { peopleChoices } from '$lib/server/flights/details';
+import { flyingTodayFormSchema } from '$lib/schemas/flight';
 import { idleCloseMinutes } from '$lib/server/live/config';
 import { failForm, parseForm } from '$lib/schemas/form';
 import { plainText } from '$lib/schemas/text';
@@ -16,11 +19,12 @@ const idSchema = z.object({ id: z.uuid('That recorder is not in this organisatio
 // The organisation's recorders with their last contact, and the aircraft a new one can go to.
 export const load = (async (event) => {
 	const { org } = await requireMember(event, event.params.org, 'manageRecorders');
-	const [list, fleet] = await Promise.all([
+	const [list, people, fleet] = await Promise.all([
 		listRecorders(org.id),
+		peopleChoices(org.id),
 		listAircraft(org.id)
 	]);
-	return { recorders: list, fleet: fleet.map((a) => ({ id: a.id, registration: a.registration })), idleCloseMinutes: idleCloseMinutes() };
+	return { recorders: list, pilots: people.pilots, today: utcDay(new Date()), fleet: fleet.map((a) => ({ id: a.id, registration: a.registration })), idleCloseMinutes: idleCloseMinutes() };
 }) satisfies PageServerLoad;
 
 // The new token is in the action's answer only: it is never stored and never shown again.
@@ -40,6 +44,14 @@ export const actions = {
 		const token = await rotateRecorder(org.id, form.data.id);
 		if (!token) return failForm(400, { id: 'That recorder is revoked or not in this organisation.' }, form.values, 'rotate');
 		return { action: 'rotate', recorderId: form.data.id, token };
+	},
+	flyingToday: async (event) => {
+		const { org } = await requireMember(event, event.params.org, 'manageRecorders');
+		const form = parseForm(flyingTodayFormSchema, await event.request.formData());
+		if (!form.ok) return failForm(400, form.errors, form.values, 'flyingToday');
+		const done = await setFlyingToday(org.id, form.data.id, form.data.pilotId ?? null);
+		if (!done.ok) return failForm(400, { [done.field]: done.error }, form.values, 'flyingToday');
+		return { action: 'flyingToday', recorderId: form.data.id };
 	},
 	revoke: async (event) => {
 		const { org } = await requireMember(event, event.params.org, 'manageRecorders');

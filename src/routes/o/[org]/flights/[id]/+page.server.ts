@@ -10,7 +10,10 @@ import { loadEvents } from '$lib/server/flights/load';
 import { listNotes } from '$lib/server/flights/notes';
 import { flightPeople } from '$lib/server/flights/people';
 import { can } from '$lib/permissions';
-import { declarationFormSchema, declarationFormValues, fuelEventFormSchema, idFormSchema, noteEditFormSchema, noteFormSchema, reasonFormSchema } from '$lib/schemas/flight';
+import { declarationFormSchema, declarationFormValues, flightDetailsFormSchema, fuelEventFormSchema, idFormSchema, noteEditFormSchema, noteFormSchema, reasonFormSchema } from '$lib/schemas/flight';
+import { peopleChoices, saveDetails } from '$lib/server/flights/details';
+import { trashFlight } from '$lib/server/flights/trash';
+import { redirect } from '@sveltejs/kit';
 import { failForm, parseForm } from '$lib/schemas/form';
 import type { Declaration } from '$lib/fuel';
 import type { Actions, PageServerLoad } from './$types';
@@ -28,6 +31,7 @@ export const load = (async (event) => {
 		debriefOf(flight.id),
 		flightPeople(flight)
 	]);
+	const mayEdit = mayOnFlight(ctx, flight, 'edit');
 	const unit = user.prefFuelUnit ?? a.displayUnit;
 	return {
 		flight: {
@@ -42,6 +46,9 @@ export const load = (async (event) => {
 			declarationConfirmed: flight.declarationConfirmed,
 			sampleCount: flight.sampleCount,
 			notes: flight.notes,
+			route: flight.route,
+			pilotId: flight.pilotId,
+			instructorId: flight.instructorId,
 			pilot: people.pilot,
 			instructor: people.instructor
 		},
@@ -54,8 +61,11 @@ export const load = (async (event) => {
 		debriefStatus: debrief.status,
 		declarationValues: declarationFormValues(flight.declaration as Declaration, flight.previousOnBoardL, unit, a.densityKgPerL),
 		unit,
+		// Who can be chosen, only for those who may change the details.
+		people: mayEdit ? await peopleChoices(flight.orgId) : null,
 		may: {
-			edit: mayOnFlight(ctx, flight, 'edit'),
+			edit: mayEdit,
+			setPilot: mayOnFlight(ctx, flight, 'setPilot'),
 			annotate: mayOnFlight(ctx, flight, 'annotate'),
 			removeAnyNote: can(role, 'editAnyFlight')
 		},
@@ -64,6 +74,21 @@ export const load = (async (event) => {
 }) satisfies PageServerLoad;
 
 export const actions = {
+	// Into the trash (the page asks first); its editors restore it from the trash page.
+	trash: async (event) => {
+		const { flight, user, org } = await requireFlight(event, event.params.org, event.params.id, 'edit');
+		const done = await trashFlight(flight, user.id);
+		if (!done.ok) return failForm(409, { [done.field]: done.message }, {}, 'trash');
+		redirect(303, `/o/${org.slug}/trash?moved=${flight.id}`);
+	},
+	details: async (event) => {
+		const ctx = await requireFlight(event, event.params.org, event.params.id, 'edit');
+		const form = parseForm(flightDetailsFormSchema, await event.request.formData());
+		if (!form.ok) return failForm(400, form.errors, form.values, 'details');
+		const done = await saveDetails(ctx.flight, form.data, mayOnFlight(ctx, ctx.flight, 'setPilot'));
+		if (!done.ok) return failForm(400, { [done.field]: done.message }, form.values, 'details');
+		return { action: 'details', saved: true };
+	},
 	declaration: async (event) => {
 		const { flight, user } = await requireFlight(event, event.params.org, event.params.id, 'edit');
 		const a = await aircraftOf(flight);

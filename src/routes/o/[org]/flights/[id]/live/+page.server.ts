@@ -1,3 +1,6 @@
+import { error } from '@sveltejs/kit';
+import { isUnclaimed } from '$lib/permissions';
+import { claimFlight, peopleChoices, setPilot } from '$lib/server/flights/details';
 import { z } from 'zod';
 import { fuelSetupOf } from '$lib/flight-inputs';
 import { recentCruiseFlowLph } from '$lib/server/flights/recent-cruise';
@@ -41,7 +44,9 @@ export const load = (async (event) => {
 		setup: fuelSetupOf(a, await recentCruiseFlowLph(a.id, flight)),
 		unit,
 		declarationValues: declarationFormValues(flight.declaration as Declaration, flight.previousOnBoardL, unit, a.densityKgPerL),
-		may: { edit: mayOnFlight(ctx, flight, 'edit') },
+		unclaimed: isUnclaimed(flight),
+		may: { edit: mayOnFlight(ctx, flight, 'edit'), acknowledge: mayOnFlight(ctx, flight, 'acknowledge'), claim: mayOnFlight(ctx, flight, 'claim'), setPilot: mayOnFlight(ctx, flight, 'setPilot') },
+		pilots: mayOnFlight(ctx, flight, 'setPilot') ? (await peopleChoices(flight.orgId)).pilots : [],
 		// The plan (made ahead, or added since): the legs passed so far set against it.
 		plan,
 		acked,
@@ -54,6 +59,7 @@ export const load = (async (event) => {
 
 const alarmIdSchema = z.object({ alarmId: z.uuid('That alarm is not on this flight.') });
 const watchSchema = z.object({ on: z.enum(['1', '0']) });
+const pilotSchema = z.object({ pilotId: z.string().trim().max(200).transform((v) => (v === '' ? null : v)) });
 
 export const actions = {
 	declaration: async (event) => {
@@ -66,13 +72,31 @@ export const actions = {
 		await setLiveDeclaration(flight.id, form.data.declaration, form.data.previousOnBoardL, { userId: user.id, reason: why.data.reason });
 		return { action: 'declaration', saved: true };
 	},
-	// Each viewer acknowledges for themselves; the alarm stays on the timeline for everyone.
+	// The flight's pilot, instructors and admins acknowledge (read-only viewers see alarms only); the alarm stays on the timeline for everyone.
 	ack: async (event) => {
-		const { flight, user } = await requireFlight(event, event.params.org, event.params.id, 'view');
+		const { flight, user } = await requireFlight(event, event.params.org, event.params.id, 'acknowledge');
 		const form = parseForm(alarmIdSchema, await event.request.formData());
 		if (!form.ok) return failForm(400, form.errors, form.values, 'ack');
 		if (!(await acknowledgeAlarm(flight.id, form.data.alarmId, user.id))) return failForm(404, { alarmId: 'That alarm is not on this flight.' }, form.values, 'ack');
 		return { action: 'ack', alarmId: form.data.alarmId };
+	},
+	// The pilot of a recorder-opened flight takes it: from then on it is theirs like an upload.
+	claim: async (event) => {
+		const ctx = await requireFlight(event, event.params.org, event.params.id, 'view');
+		if (!mayOnFlight(ctx, ctx.flight, 'claim')) {
+			if (!isUnclaimed(ctx.flight)) return failForm(409, { form: 'This flight already has its pilot.' }, {}, 'claim');
+			error(403, 'Only a member who flies can claim a flight.');
+		}
+		if (!(await claimFlight(ctx.flight.id, ctx.user.id))) return failForm(409, { form: 'Someone claimed this flight a moment ago.' }, {}, 'claim');
+		return { action: 'claim', claimed: true };
+	},
+	setPilot: async (event) => {
+		const { flight } = await requireFlight(event, event.params.org, event.params.id, 'setPilot');
+		const form = parseForm(pilotSchema, await event.request.formData());
+		if (!form.ok) return failForm(400, form.errors, form.values, 'setPilot');
+		const done = await setPilot(flight, form.data.pilotId);
+		if (!done.ok) return failForm(400, { [done.field]: done.message }, form.values, 'setPilot');
+		return { action: 'setPilot', saved: true };
 	},
 	watch: async (event) => {
 		const { flight, user } = await requireFlight(event, event.params.org, event.params.id, 'view');
