@@ -20,12 +20,27 @@ async function flightPath(page: Page, title: string): Promise<string> {
 
 const CROSS_COUNTRY = 'Solo cross-country';
 const LEANED = 'Merrow and back, leaned in cruise';
+const LONG = 'The long way round against a headwind';
 
 /** The pages each role uses (paths with a {flight} are resolved from the flights list). */
 const PAGES: Record<DemoRole | 'anonymous', string[]> = {
 	anonymous: ['/', '/sign-in', '/sign-up', '/reset-password', '/caution'],
-	admin: [o, `${o}/flights`, `{xc}`, `${o}/aircraft`, `${o}/aircraft/${DEMO_AIRCRAFT.trainer}`, `${o}/aircraft/${DEMO_AIRCRAFT.trainer}/history`, `${o}/members`, `${o}/recorders`, `${o}/flights/upload`, '/account', '/orgs'],
-	instructor: [o, `${o}/students`, `{xc}/plan`, `{xc}/debrief`],
+	admin: [
+		o,
+		`${o}/flights`,
+		`{xc}`,
+		`${o}/aircraft`,
+		`${o}/aircraft/${DEMO_AIRCRAFT.trainer}`,
+		`${o}/aircraft/${DEMO_AIRCRAFT.trainer}/history`,
+		`${o}/aircraft/${DEMO_AIRCRAFT.trainer}/reconciliation`,
+		`${o}/members`,
+		`${o}/recorders`,
+		`${o}/flights/upload`,
+		`${o}/trash`,
+		'/account',
+		'/orgs'
+	],
+	instructor: [o, `${o}/students`, `${o}/plans/new`, `{xc}/plan`, `{xc}/debrief`, `{long}/live`],
 	pilot: [o, `${o}/flights`, `{leaned}`],
 	student: [o, `{xc}/debrief`],
 	viewer: [o, `${o}/flights`, `{leaned}`, `${o}/aircraft/${DEMO_AIRCRAFT.trainer}/history`],
@@ -42,6 +57,7 @@ for (const [role, paths] of Object.entries(PAGES) as [DemoRole | 'anonymous', st
 		for (const p of paths) {
 			if (p.startsWith('{xc}')) resolved.push((await flightPath(page, CROSS_COUNTRY)) + p.slice(4));
 			else if (p.startsWith('{leaned}')) resolved.push((await flightPath(page, LEANED)) + p.slice(8));
+			else if (p.startsWith('{long}')) resolved.push((await flightPath(page, LONG)) + p.slice(6));
 			else resolved.push(p);
 		}
 		const findings: string[] = [];

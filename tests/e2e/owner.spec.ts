@@ -78,6 +78,7 @@ test('the owner records two fills, reconciles, applies the factor and sees the f
 
 	await newest.getByRole('button', { name: 'Preview' }).click();
 	await expect(newest.getByTestId('apply-preview')).toContainText(/Would apply: meter factor 1\.0000 → [\d.]+, .* to the \d+ flights? started from 2026-07-11 08:00/);
+	const proposed = /1\.0000 → ([\d.]+)/.exec((await newest.getByTestId('apply-preview').innerText()) ?? '')![1];
 	await newest.getByTestId('apply-confirm').click();
 	await expect(page.getByTestId('reconciliation-window').first().getByTestId('apply-preview')).toContainText('Applied');
 	await expect(page.getByTestId('calibration-row').first()).toHaveAttribute('data-source', 'reconciliation');
@@ -87,6 +88,15 @@ test('the owner records two fills, reconciles, applies the factor and sees the f
 	expect(after).not.toBe(before);
 	// Pumped 30.0 US gal against what was computed: after the factor the flight's fuel used is the pumped amount.
 	expect(after).toBe('30.0 US gal');
+	// The replay computes each flight with the factor in force at its engine start, and says which:
+	// the new one for the flight in the window, the old one for a flight before it.
+	const factorOf = async (title: string) => {
+		await page.goto(`/o/${DEMO_ORG}/flights`);
+		await page.getByTestId('flight-row').filter({ hasText: title }).getByRole('link').first().click();
+		return (await page.getByTestId('meter-factor').locator('strong').innerText()).trim();
+	};
+	expect(Number(await factorOf(LONG))).toBeCloseTo(Number(proposed), 4);
+	expect(await factorOf('Merrow and back, leaned in cruise')).toBe('1.0000');
 
 	// Back by hand, dated from the same time: the history keeps both, the figures return.
 	await page.goto(`/o/${DEMO_ORG}/aircraft/${DEMO_AIRCRAFT.trainer}/reconciliation`);

@@ -2,6 +2,7 @@ import { fuelSetupOf } from '$lib/flight-inputs';
 import { recentCruiseFlowLph } from '$lib/server/flights/recent-cruise';
 import { mayOnFlight, requireFlight } from '$lib/server/access';
 import { aircraftOf } from '$lib/server/aircraft/lookup';
+import { aircraftAt } from '$lib/server/calibration/in-force';
 import { addFuelEvent, addNote, editNote, removeFuelEvent, removeNote, saveDeclaration } from '$lib/server/flights/edit';
 import { planOfFlight } from '$lib/server/plans';
 import { debriefOf } from '$lib/server/debriefs';
@@ -53,7 +54,8 @@ export const load = (async (event) => {
 			instructor: people.instructor
 		},
 		aircraft: { id: a.id, registration: a.registration, type: a.type, displayUnit: a.displayUnit, densityKgPerL: a.densityKgPerL, fuelType: a.fuelType },
-		setup: fuelSetupOf(a, await recentCruiseFlowLph(a.id, flight)),
+		// With the meter factor and K-factor in force at the flight's engine start, as its stored figures.
+		setup: fuelSetupOf(await aircraftAt(a, flight.startedAt), await recentCruiseFlowLph(a.id, flight)),
 		events: events.map((e) => ({ id: e.id, t: e.t.getTime() / 1000, kind: e.kind, amountL: e.amountL, note: e.note })),
 		notes,
 		corrections,

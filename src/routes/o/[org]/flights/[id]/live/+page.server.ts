@@ -7,6 +7,7 @@ import { recentCruiseFlowLph } from '$lib/server/flights/recent-cruise';
 import type { Declaration } from '$lib/fuel';
 import { mayOnFlight, requireFlight } from '$lib/server/access';
 import { aircraftOf } from '$lib/server/aircraft/lookup';
+import { aircraftAt } from '$lib/server/calibration/in-force';
 import { flightPeople } from '$lib/server/flights/people';
 import { acknowledgeAlarm, alarmsAckedBy } from '$lib/server/live/acks';
 import { idleCloseMinutes } from '$lib/server/live/config';
@@ -41,7 +42,8 @@ export const load = (async (event) => {
 			instructor: people.instructor
 		},
 		aircraft: { id: a.id, registration: a.registration, type: a.type, displayUnit: a.displayUnit, densityKgPerL: a.densityKgPerL, lastOnBoardL: a.lastOnBoardL },
-		setup: fuelSetupOf(a, await recentCruiseFlowLph(a.id, flight)),
+		// With the meter factor and K-factor in force at the flight's engine start, as its stored figures.
+		setup: fuelSetupOf(await aircraftAt(a, flight.startedAt), await recentCruiseFlowLph(a.id, flight)),
 		unit,
 		declarationValues: declarationFormValues(flight.declaration as Declaration, flight.previousOnBoardL, unit, a.densityKgPerL),
 		unclaimed: isUnclaimed(flight),
