@@ -3,7 +3,7 @@
 // plan against actual from the stored samples, editing notes, sign-off and publishing (the
 // student's e-mail), and share links (hash only, expiry, revocation).
 import { beforeAll, describe, expect, it } from 'vitest';
-import { isHttpError, type RequestEvent } from '@sveltejs/kit';
+import { isHttpError } from '@sveltejs/kit';
 import { count, eq } from 'drizzle-orm';
 import { db } from '$lib/server/db';
 import { debriefShares, flightFigures, flightNotes, flights, fuelPlans, memberships } from '$lib/server/db/schema';
@@ -19,23 +19,14 @@ import { makeClub, makeUser, sample, upload, type Club } from './upload-fixture'
 import { waitForMail } from '../helpers/mailbox';
 import { DEMO } from '../../scripts/demo-scenario';
 import type { AuthUser } from '$lib/server/auth';
+import { routeEvent } from './route-event';
 
 const GAL = LITRES_PER_US_GALLON; // NIST Handbook 44, Appendix C
 let club: Club;
 let instructor: AuthUser;
 let flightId = '';
 
-function event(user: AuthUser | null, route: string, params: Record<string, string>, body?: FormData) {
-	const url = new URL('http://127.0.0.1:4173/');
-	return {
-		locals: { user, session: null, authVia: user ? 'session' : null },
-		params,
-		url,
-		route: { id: route },
-		request: new Request(url, { method: body ? 'POST' : 'GET', body }),
-		setHeaders: () => {}
-	} as unknown as RequestEvent;
-}
+const event = routeEvent;
 const form = (v: Record<string, string | Blob>, name?: string) => {
 	const fd = new FormData();
 	for (const [k, x] of Object.entries(v)) (x instanceof Blob ? fd.set(k, x, name ?? 'file') : fd.set(k, x));

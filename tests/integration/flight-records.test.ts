@@ -2,7 +2,7 @@
 // flight's details (who may, field errors keep the input and store nothing), claiming a
 // recorder-opened flight and setting its pilot, the recorder's pilot flying today, and the trash.
 import { beforeAll, describe, expect, it } from 'vitest';
-import { isHttpError, type RequestEvent } from '@sveltejs/kit';
+import { isHttpError } from '@sveltejs/kit';
 import { eq } from 'drizzle-orm';
 import { db } from '$lib/server/db';
 import { flights, memberships, recorders, type Flight } from '$lib/server/db/schema';
@@ -18,6 +18,7 @@ import { aircraft, flightFigures, uploads } from '$lib/server/db/schema';
 import { isRedirect } from '@sveltejs/kit';
 import { makeClub, makeUser, steadyFile, upload, type Club } from './upload-fixture';
 import type { AuthUser } from '$lib/server/auth';
+import { formOf, routeEvent } from './route-event';
 
 const FLIGHT_ROUTE = '/o/[org]/flights/[id]';
 const LIVE_ROUTE = '/o/[org]/flights/[id]/live';
@@ -30,22 +31,8 @@ let admin: AuthUser;
 let otherPilot: AuthUser;
 let flightId = '';
 
-function event(user: AuthUser | null, route: string, params: Record<string, string>, body?: FormData) {
-	const url = new URL('http://127.0.0.1:4173/');
-	return {
-		locals: { user, session: null, authVia: user ? 'session' : null },
-		params,
-		url,
-		route: { id: route },
-		request: new Request(url, { method: body ? 'POST' : 'GET', body }),
-		setHeaders: () => {}
-	} as unknown as RequestEvent;
-}
-const form = (v: Record<string, string>) => {
-	const fd = new FormData();
-	for (const [k, x] of Object.entries(v)) fd.set(k, x);
-	return fd;
-};
+const event = routeEvent;
+const form = formOf;
 type Failure = { status: number; data: { errors: Record<string, string>; values: Record<string, string> } };
 const refusedWith = (status: number) => (e: unknown) => isHttpError(e) && e.status === status;
 const flightRow = async (id: string): Promise<Flight> => (await db.select().from(flights).where(eq(flights.id, id)))[0];

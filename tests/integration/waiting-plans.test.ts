@@ -4,7 +4,7 @@
 // window it keeps waiting. The form that makes one refuses bad input field by field and stores
 // nothing; the instructor's list shows it and removes it.
 import { describe, expect, it } from 'vitest';
-import { isHttpError, type RequestEvent } from '@sveltejs/kit';
+import { isHttpError } from '@sveltejs/kit';
 import { and, count, eq, isNull } from 'drizzle-orm';
 import { db } from '$lib/server/db';
 import { flights, fuelPlans, memberships } from '$lib/server/db/schema';
@@ -16,6 +16,7 @@ import { makeClub, makeUser, sample, upload, type Club } from './upload-fixture'
 import { call, liveWorld, samples, T0 } from './live-fixtures';
 import { actions as newPlanActions, load as newPlanLoad } from '../../src/routes/o/[org]/plans/new/+page.server';
 import { actions as studentsActions, load as studentsLoad } from '../../src/routes/o/[org]/students/+page.server';
+import { formOf, routeEvent } from './route-event';
 
 const GAL = 3.785411784; // NIST Handbook 44, Appendix C
 /** The cross-country sample's first row is at 08:42:00 UTC on 20 June 2026. */
@@ -48,22 +49,8 @@ const uploadXc = (club: Club, user: AuthUser = club.pilot) =>
 
 const planOf = (id: string) => db.query.fuelPlans.findFirst({ where: eq(fuelPlans.id, id) });
 
-function event(user: AuthUser | null, route: string, params: Record<string, string>, body?: FormData, search = '') {
-	const url = new URL(`http://127.0.0.1:4173/${search}`);
-	return {
-		locals: { user, session: null, authVia: user ? 'session' : null },
-		params,
-		url,
-		route: { id: route },
-		request: new Request(url, { method: body ? 'POST' : 'GET', body }),
-		setHeaders: () => {}
-	} as unknown as RequestEvent;
-}
-const form = (v: Record<string, string>) => {
-	const fd = new FormData();
-	for (const [k, x] of Object.entries(v)) fd.set(k, x);
-	return fd;
-};
+const event = routeEvent;
+const form = formOf;
 
 describe('an upload takes a waiting plan', () => {
 	it('inside the window: the plan becomes the flight’s, with its pilot and instructor', async () => {

@@ -75,10 +75,13 @@ export async function lockAircraftFlights(aircraftId: string, q: Queryable): Pro
 /**
  * After a change to the aircraft's fuel profile (capacity, fill levels, baseline flow, density,
  * meter factor, reserve rule): every flight of the aircraft, one at a time so only one flight's
- * samples are in memory. Call lockAircraftFlights first. Returns how many flights were recomputed.
+ * samples are in memory. With `after`: only the flights out of the trash that started after it —
+ * those whose figures use the recent flights' cruise flow, after a flight went into the trash or
+ * came back. Call lockAircraftFlights first. Returns how many flights were recomputed.
  */
-export async function recomputeAircraftFlights(aircraftId: string, q: Queryable): Promise<number> {
-	const ids = await q.select({ id: flights.id }).from(flights).where(eq(flights.aircraftId, aircraftId)).orderBy(asc(flights.startedAt));
+export async function recomputeAircraftFlights(aircraftId: string, q: Queryable, after?: Date): Promise<number> {
+	const which = after ? and(eq(flights.aircraftId, aircraftId), gt(flights.startedAt, after), isNull(flights.deletedAt)) : eq(flights.aircraftId, aircraftId);
+	const ids = await q.select({ id: flights.id }).from(flights).where(which).orderBy(asc(flights.startedAt));
 	for (const { id } of ids) await recomputeSummary(id, q);
 	return ids.length;
 }
@@ -92,18 +95,4 @@ async function refreshLastOnBoard(aircraftId: string, q: Writer): Promise<void> 
 	const onBoardL = await newestShutdownOnBoard(q, aircraftId);
 	if (onBoardL === null) return;
 	await q.update(aircraft).set({ lastOnBoardL: onBoardL, updatedAt: new Date() }).where(eq(aircraft.id, aircraftId));
-}
-
-/**
- * After a flight of the aircraft went into the trash or came back: the flights after it, whose
- * stored figures use the recent flights' cruise flow. Call lockAircraftFlights first.
- */
-export async function recomputeFlightsAfter(aircraftId: string, startedAt: Date, q: Queryable): Promise<number> {
-	const ids = await q
-		.select({ id: flights.id })
-		.from(flights)
-		.where(and(eq(flights.aircraftId, aircraftId), gt(flights.startedAt, startedAt), isNull(flights.deletedAt)))
-		.orderBy(asc(flights.startedAt));
-	for (const { id } of ids) await recomputeSummary(id, q);
-	return ids.length;
 }

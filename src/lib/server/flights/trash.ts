@@ -5,7 +5,7 @@
 import { and, eq, inArray, isNotNull, isNull, desc } from 'drizzle-orm';
 import { db } from '../db';
 import { flights, uploads, users, type Flight } from '../db/schema';
-import { lockAircraftFlights, recomputeFlightsAfter, recomputeSummary } from './summary';
+import { lockAircraftFlights, recomputeAircraftFlights, recomputeSummary } from './summary';
 import type { EditResult } from './edit';
 
 async function move(flight: Pick<Flight, 'id' | 'aircraftId' | 'startedAt'>, deleted: { at: Date; by: string } | null): Promise<void> {
@@ -16,7 +16,7 @@ async function move(flight: Pick<Flight, 'id' | 'aircraftId' | 'startedAt'>, del
 			.set({ deletedAt: deleted?.at ?? null, deletedBy: deleted?.by ?? null, updatedAt: new Date() })
 			.where(eq(flights.id, flight.id));
 		await recomputeSummary(flight.id, tx);
-		await recomputeFlightsAfter(flight.aircraftId, flight.startedAt, tx);
+		await recomputeAircraftFlights(flight.aircraftId, tx, flight.startedAt);
 	});
 }
 
