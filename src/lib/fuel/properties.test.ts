@@ -6,7 +6,7 @@ import { firstDifference, profile, slice, T0 } from './test-fixtures';
 import type { FlightInput, FuelEvent, SampleColumns } from './types';
 import { FLAG_REJECTED } from './types';
 import { enduranceJudgeFlow } from './alarms';
-import { arrivalCode } from './engine';
+import { arrivalCode } from './stages/arrival';
 import { PHASE_CLIMB } from './phases';
 
 // Random flights: mostly regular intervals with dropouts, repeated and backward times now and
