@@ -81,6 +81,7 @@ export {
 	type CruiseBasis,
 	reserveRule,
 	reserveRules,
+	RESERVE_RULE_IDS,
 	type ReserveAmount,
 	type ReserveRule,
 	type ReserveRuleId,
