@@ -149,7 +149,7 @@ export function prepare(input: EngineInputs): EngineSetup {
 }
 
 
-const FLOAT_OUTPUTS = [
+export const FLOAT_OUTPUTS = [
 	'flow',
 	'used',
 	'onBoard',
@@ -162,7 +162,7 @@ const FLOAT_OUTPUTS = [
 	'reserveL',
 	'cruiseFlow'
 ] as const;
-const BYTE_OUTPUTS = ['phase', 'alarmState', 'flags', 'arrivalState', 'reserveBasis'] as const;
+export const BYTE_OUTPUTS = ['phase', 'alarmState', 'flags', 'arrivalState', 'reserveBasis'] as const;
 
 /** The per-sample result arrays; live mode allocates them with spare room and grows them. */
 export type Outputs = Pick<FlightComputation, (typeof FLOAT_OUTPUTS)[number] | (typeof BYTE_OUTPUTS)[number]>;

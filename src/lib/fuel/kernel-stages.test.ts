@@ -7,7 +7,7 @@ import * as before from './engine-before-stages';
 import { computeFlight } from './compute';
 import { KERNEL_BLOCK } from './engine';
 import { createLiveComputation } from './live';
-import { firstDifference, profile, slice, T0 } from './test-fixtures';
+import { buildRandomFlight, firstDifference, profile, randomFlight, rng, slice, T0 } from './test-fixtures';
 import type { FlightComputation, FlightInput, FuelEvent, SampleColumns } from './types';
 
 function computeBefore(input: FlightInput): FlightComputation {
@@ -32,16 +32,6 @@ function live(input: FlightInput, sizes: number[]): FlightComputation {
 
 function same(a: FlightComputation, b: FlightComputation): string | null {
 	return firstDifference(a, b) ?? (JSON.stringify(a.warnings) === JSON.stringify(b.warnings) ? null : 'warnings differ');
-}
-
-function rng(seed: number): () => number {
-	let s = seed >>> 0;
-	return () => {
-		s = (s + 0x6d2b79f5) >>> 0;
-		let x = Math.imul(s ^ (s >>> 15), 1 | s);
-		x = (x + Math.imul(x ^ (x >>> 7), 61 | x)) ^ x;
-		return ((x ^ (x >>> 14)) >>> 0) / 4294967296;
-	};
 }
 
 /**
@@ -120,48 +110,9 @@ describe('staged kernel equals the single-loop kernel it replaced', () => {
 	}
 
 	it('short random flights (fast-check), batch and live', () => {
-		const sample = fc.record({
-			dt: fc.oneof(
-				{ weight: 12, arbitrary: fc.double({ min: 0.2, max: 5, noNaN: true }) },
-				{ weight: 2, arbitrary: fc.double({ min: 5, max: 900, noNaN: true }) },
-				{ weight: 1, arbitrary: fc.constant(0) },
-				{ weight: 1, arbitrary: fc.double({ min: -30, max: -0.1, noNaN: true }) }
-			),
-			flow: fc.oneof({ weight: 4, arbitrary: fc.double({ min: 0, max: 150, noNaN: true }) }, { weight: 1, arbitrary: fc.constant(NaN) }),
-			gs: fc.oneof({ weight: 9, arbitrary: fc.double({ min: 0, max: 160, noNaN: true }) }, { weight: 1, arbitrary: fc.constant(NaN) }),
-			dtg: fc.oneof({ weight: 9, arbitrary: fc.double({ min: 0, max: 300, noNaN: true }) }, { weight: 1, arbitrary: fc.constant(NaN) }),
-			alt: fc.double({ min: 0, max: 12_000, noNaN: true })
-		});
-		const flight = fc.record({
-			samples: fc.array(sample, { maxLength: 300 }),
-			events: fc.array(fc.record({ at: fc.double({ min: -0.1, max: 1.1, noNaN: true }), kind: fc.constantFrom<FuelEvent['kind']>('added', 'removed', 'toFull', 'toLower', 'resetUsed'), amountL: fc.double({ min: 0, max: 120, noNaN: true }) }), { maxLength: 5 }),
-			declaredL: fc.double({ min: 0, max: 200, noNaN: true }),
-			withAlt: fc.boolean()
-		});
 		fc.assert(
-			fc.property(flight, fc.array(fc.integer({ min: 1, max: 40 }), { minLength: 1, maxLength: 6 }), (f, sizes) => {
-				const n = f.samples.length;
-				const cols: SampleColumns = { t: new Float64Array(n), flow: new Float64Array(n), gs: new Float64Array(n), dtg: new Float64Array(n) };
-				if (f.withAlt) cols.alt = new Float64Array(n);
-				let t = T0;
-				f.samples.forEach((s, i) => {
-					t += s.dt;
-					cols.t[i] = t;
-					cols.flow[i] = s.flow;
-					cols.gs[i] = s.gs;
-					cols.dtg[i] = s.dtg;
-					if (cols.alt) cols.alt[i] = s.alt;
-				});
-				const span = Math.max(1, t - T0);
-				const input: FlightInput = {
-					columns: cols,
-					profile: profile(),
-					declaration: { kind: 'onBoard', amountL: f.declaredL },
-					events: f.events.map((e) => ({ t: T0 + e.at * span, kind: e.kind, amountL: e.amountL })),
-					thresholds: { lowFuelL: 30, lowEnduranceMin: 45 },
-					reserve: { ruleId: 'faa-91.151-vfr-day' },
-					recentCruiseFlowLph: 28
-				};
+			fc.property(randomFlight({ resetUsed: true }), fc.array(fc.integer({ min: 1, max: 40 }), { minLength: 1, maxLength: 6 }), (f, sizes) => {
+				const input = buildRandomFlight(f);
 				const reference = computeBefore(input);
 				expect(same(computeFlight(input), reference)).toBeNull();
 				expect(same(live(input, sizes), reference)).toBeNull();
