@@ -135,3 +135,11 @@ export const calibrationSourceLabels = {
 	hand: 'Set by hand',
 	initial: 'Factors before dated history'
 } as const;
+
+/** The time-zone preference on the account page. */
+export const timeZoneWords = {
+	field: 'Local time beside UTC',
+	hint: 'UTC stays the main clock; this zone’s time follows it in brackets.',
+	browser: "This browser's zone",
+	example: 'Now:'
+} as const;

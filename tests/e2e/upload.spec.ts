@@ -12,7 +12,7 @@ import { computeFlight, WPT_NONE, type FlightComputation, type SampleColumns } f
 import { engineInputsOf, fuelSetupOf, type AircraftFuelSetup } from '../../src/lib/flight-inputs';
 import { nearestIndex } from '../../src/lib/components/replay/series';
 import { phaseLabels } from '../../src/lib/labels';
-import { formatDuration } from '../../src/lib/units';
+import { formatDuration } from '../../src/lib/format';
 import { DEMO_AIRCRAFT, DEMO_ORG, DEMO_USERS, signIn } from './support';
 
 const DIESEL_FILE = path.resolve('samples/kestrel-diesel-panel-log.csv');
