@@ -17,7 +17,7 @@ import { generateFlight, insertFlight } from './replay-fixture';
 
 const stamp = Date.now().toString(36);
 const admin = { id: `rr-admin-${stamp}`, email: `rr-admin-${stamp}@kestrel-test.example`, name: 'Rule Admin' };
-const user = { ...admin, prefFuelUnit: null };
+const user = { ...admin, prefFuelUnit: null, timeZone: null };
 let orgId = '';
 let slug = '';
 let aircraftId = '';
