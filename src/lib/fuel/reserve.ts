@@ -138,7 +138,7 @@ export function reserveMinutesOf(setting: ReserveSetting | null | undefined): nu
 
 /**
  * The normal-cruise flow and its basis. The engine runs the same precedence inline per sample
- * (engine.ts, without allocating); tests check that the two agree.
+ * (stages/burn.ts, without allocating); tests check that the two agree.
  */
 export function normalCruiseFlow(
 	baselineCruiseFlowLph: number | null | undefined,
