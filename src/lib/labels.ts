@@ -20,6 +20,12 @@ import {
 	type VerdictState
 } from '$lib/fuel';
 import type { DebriefStatus, PlanImportFormat } from '$lib/wire/plan';
+import type { ApiTokenScope } from '$lib/permissions';
+
+export const apiTokenScopeLabels: Record<ApiTokenScope, string> = {
+	read: 'Read only',
+	upload: 'Read and upload'
+};
 
 export const debriefStatusLabels: Record<DebriefStatus, string> = {
 	draft: 'Draft — not yet shown to the student',

@@ -10,8 +10,8 @@ test('an unknown API path answers a JSON 404 naming it, signed in or not, for an
 		for (const method of ['GET', 'POST', 'DELETE'] as const) {
 			const res = await api.fetch('/api/v1/no-such-thing?x=1', { method, headers: { accept: 'text/html' } });
 			expect(res.status(), `${role} ${method}`).toBe(404);
-			expect(res.headers()['content-type']).toMatch(/^application\/json/);
-			expect(await res.json()).toMatchObject({ path: '/api/v1/no-such-thing' });
+			expect(res.headers()['content-type']).toMatch(/^application\/problem\+json/);
+			expect(await res.json()).toMatchObject({ status: 404, instance: '/api/v1/no-such-thing', path: '/api/v1/no-such-thing' });
 		}
 		await api.dispose();
 	}

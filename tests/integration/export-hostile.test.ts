@@ -100,7 +100,7 @@ describe('heavy exports', () => {
 		const second = await exportAs(pilot, '');
 		expect(second.status).toBe(429);
 		expect(second.headers.get('retry-after')).toBe('15');
-		expect((await second.json()).error).toMatch(/exporting 1 long flights already/);
+		expect((await second.json()).detail).toMatch(/exporting 1 long flights already/);
 		// The summary of a heavy flight computes it all too: it is limited the same way.
 		expect((await exportAs(pilot, '?what=summary')).status).toBe(429);
 		await first.text();

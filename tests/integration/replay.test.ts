@@ -195,7 +195,7 @@ describe('samples API', () => {
 	it('answers 400 naming the parameter for an unknown format', async () => {
 		const res = await samplesAs(U.pilot, flightId, '?format=xml');
 		expect(res.status).toBe(400);
-		expect(await res.json()).toMatchObject({ field: 'format' });
+		expect(await res.json()).toMatchObject({ status: 400, errors: [{ field: 'format' }] });
 	});
 });
 
@@ -250,7 +250,7 @@ describe('export', () => {
 	it('refuses an unknown unit with 400', async () => {
 		const res = await exportAs(U.pilot, '?unit=barrels');
 		expect(res.status).toBe(400);
-		expect((await res.json()).field).toBe('unit');
+		expect((await res.json()).errors[0].field).toBe('unit');
 	});
 });
 

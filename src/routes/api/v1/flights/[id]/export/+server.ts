@@ -5,6 +5,7 @@
 // only a few of those run at once (the rest answer 429 with a wait), so a crowd of viewers cannot
 // exhaust the server's memory.
 import { error, json } from '@sveltejs/kit';
+import { apiHandler, problem } from '$lib/server/problem';
 import { exportQuerySchema } from '$lib/schemas/flight';
 import { requireFlightById } from '$lib/server/access';
 import { fuelLogChunks, summaryCsv } from '$lib/server/flights/fuel-log';
@@ -20,7 +21,7 @@ function fileName(registration: string, startedAt: Date, what: string, ext: stri
 	return `burndown-${registration.replace(/[^A-Za-z0-9-]/g, '')}-${stamp}-${what}.${ext}`;
 }
 
-export const GET: RequestHandler = async (event) => {
+export const GET: RequestHandler = apiHandler('read', async (event) => {
 	const { flight } = await requireFlightById(event, event.params.id, 'view');
 	const query = parseQuery(exportQuerySchema, event.url);
 	if (!query.ok) return query.response;
@@ -31,10 +32,11 @@ export const GET: RequestHandler = async (event) => {
 		const place = heavyExports.tryAcquire();
 		if (!place) {
 			const retryAfterS = 15;
-			return json(
-				{ error: `The server is exporting ${limits.heavyConcurrent} long flights already; try again in ${retryAfterS} s.`, retryAfterS },
-				{ status: 429, headers: { 'retry-after': String(retryAfterS), 'cache-control': 'no-store' } }
-			);
+			return problem(429, `The server is exporting ${limits.heavyConcurrent} long flights already; try again in ${retryAfterS} s.`, {
+				instance: event.url.pathname,
+				extra: { retryAfterS },
+				headers: { 'retry-after': String(retryAfterS) }
+			});
 		}
 		release = place;
 	}
@@ -78,4 +80,4 @@ export const GET: RequestHandler = async (event) => {
 	} finally {
 		if (!streaming) release();
 	}
-};
+});
