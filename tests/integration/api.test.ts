@@ -21,6 +21,8 @@ import * as liveOpen from '../../src/routes/api/v1/live/open/+server';
 import * as liveSamples from '../../src/routes/api/v1/live/samples/+server';
 import * as liveClose from '../../src/routes/api/v1/live/close/+server';
 import * as fallbackRoute from '../../src/routes/api/[...rest]/+server';
+import { actions as accountActions } from '../../src/routes/account/+page.server';
+import { formOf, routeEvent } from './route-event';
 import { makeClub, makeUser, steadyFile, upload, type Club } from './upload-fixture';
 
 const ORIGIN = 'http://127.0.0.1:4173';
@@ -177,6 +179,28 @@ describe('personal API tokens: scope and expiry', () => {
 		const res = await call(samplesRoute.GET, route, path, { token, params: { id: flightId } });
 		expect(res.headers.get('www-authenticate')).toBe('Bearer realm="burndown"');
 		expect((await expectProblem(res, 401, path)).detail).toMatch(/expired at \d{4}-\d{2}-\d{2}T/);
+	});
+
+	it('the account page creates a token with the chosen scope and expiry, and refuses an unknown choice', async () => {
+		const user = await makeUser('Tess Token');
+		const create = (values: Record<string, string>) => accountActions.createToken(routeEvent(user, '/account', {}, formOf(values)) as never) as Promise<Record<string, unknown>>;
+		const made = await create({ name: 'nightly export', scope: 'read', expiresInDays: '30' });
+		expect(made.token).toMatch(/^bdk_/);
+		const [row] = await db.select().from(apiTokens).where(eq(apiTokens.userId, user.id));
+		expect(row.scope).toBe('read');
+		expect(row.expiresAt!.getTime() - row.createdAt.getTime()).toBeGreaterThan(30 * 86_400_000 - 60_000);
+		expect(row.expiresAt!.getTime() - row.createdAt.getTime()).toBeLessThan(30 * 86_400_000 + 60_000);
+		const never = await create({ name: 'uploader', scope: 'upload', expiresInDays: '' });
+		expect(never.token).toMatch(/^bdk_/);
+		const refused = (await create({ name: 'odd', scope: 'admin', expiresInDays: '3' })) as unknown as { status: number; data: { errors: Record<string, string> } };
+		expect(refused.status).toBe(400);
+		expect(Object.keys(refused.data.errors).sort()).toEqual(['expiresInDays', 'scope']);
+		expect((await db.select().from(apiTokens).where(eq(apiTokens.userId, user.id))).map((t) => [t.scope, t.expiresAt === null])).toEqual(
+			expect.arrayContaining([
+				['read', false],
+				['upload', true]
+			])
+		);
 	});
 
 	it('a token is a credential of the API only: on a page it signs nobody in', async () => {
