@@ -4,6 +4,8 @@
 import { z } from 'zod';
 import { fuelTypes, fuelUnits } from '$lib/units';
 
+export { problemSchema } from '$lib/wire/problem';
+
 /** Rows per page of a list: `limit` between 1 and this; 50 when not given. */
 export const API_LIST_MAX = 200;
 export const API_LIST_DEFAULT = 50;
@@ -73,23 +75,3 @@ export const flightItemSchema = z.object({
 });
 export const flightPageSchema = z.object({ items: z.array(flightItemSchema), next });
 
-/** Every error of the API (RFC 9457); the extension members a case adds are listed beside it. */
-export const problemSchema = z
-	.looseObject({
-		type: z.string().describe('The kind of problem: a link to its description on the API page.'),
-		title: z.string().describe('The same for every problem of the kind.'),
-		status: z.number().int().min(400).max(599).describe("The answer's HTTP status."),
-		detail: z.string().describe('What went wrong with this request, and what to do.'),
-		instance: z.string().optional().describe('The path asked for.'),
-		errors: z
-			.array(
-				z.object({
-					field: z.string().optional().describe('A query parameter or form field.'),
-					pointer: z.string().optional().describe('A JSON Pointer into the body (RFC 6901).'),
-					detail: z.string()
-				})
-			)
-			.optional()
-			.describe('What is wrong in each field.')
-	})
-	.meta({ id: 'Problem' });

@@ -7,15 +7,42 @@
 // 'error' (anything else). With Accept: application/x-ndjson the answer is NDJSON lines:
 // progress, then one result line holding the HTTP status and that answer.
 import type { RowProblem } from '$lib/csv/row';
-import type { Problem } from './problem';
+import { z } from 'zod';
+import { problemSchema, type Problem } from './problem';
 
 /** Server-side progress: reading (bytes of the file read, rows accepted) and the storing steps. */
 export type UploadProgress =
 	| { phase: 'reading'; bytes: number; rows: number }
 	| { phase: 'storing'; step: 'checks' | 'summary' | 'original' | 'flight' | 'commit'; rows: number };
 
-export type UploadStored = { outcome: 'stored'; flightId: string; uploadId: string; url: string; rows: number; report: unknown; summary: unknown };
-export type UploadDuplicate = { outcome: 'duplicate'; flightId: string; uploadId: string; url: string; message: string };
+const answerOfFlight = {
+	flightId: z.uuid(),
+	uploadId: z.uuid(),
+	url: z.string().describe("The flight's page.")
+};
+
+export const uploadStoredSchema = z.object({
+	outcome: z.literal('stored'),
+	...answerOfFlight,
+	rows: z.number().int().describe('Samples stored.'),
+	report: z.unknown().describe('What the reader found: layout, columns, gaps, times.'),
+	summary: z.unknown().describe("The flight's computed figures, canonical units (litres, seconds).")
+});
+export type UploadStored = z.infer<typeof uploadStoredSchema>;
+
+export const uploadDuplicateSchema = z.object({ outcome: z.literal('duplicate'), ...answerOfFlight, message: z.string() });
+export type UploadDuplicate = z.infer<typeof uploadDuplicateSchema>;
+
+const rowProblemSchema = z.object({ line: z.number().int(), column: z.string(), value: z.string(), message: z.string() }) satisfies z.ZodType<RowProblem>;
+
+export const uploadRefusalSchema = problemSchema.extend({
+	outcome: z.enum(['rejected', 'invalid', 'tooLarge', 'timeout', 'busy', 'error']),
+	field: z.string().nullable().optional().describe('The form field or query parameter at fault.'),
+	problems: z.array(rowProblemSchema).optional().describe("rejected: the file's problems by line (the first ones)."),
+	problemCount: z.number().int().optional().describe('rejected: how many problems in all.'),
+	limitBytes: z.number().int().optional().describe('tooLarge: the size limit.'),
+	retryAfterS: z.number().int().optional().describe('busy: seconds to wait (also in Retry-After).')
+});
 export type UploadRefusal = Problem &
 	(
 		| { outcome: 'rejected'; problems: RowProblem[]; problemCount: number }
