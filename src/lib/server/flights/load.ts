@@ -39,10 +39,13 @@ const PAGE_ROWS = 20_000;
 export async function loadSampleColumns(flightId: string, q: Queryable = db, o: LoadOptions = {}): Promise<FlightSamples> {
 	const counted = await q.execute<{ n: number }>(sql`select count(*)::int as n from samples where flight_id = ${flightId}`);
 	// A live flight may grow after the count: the builder grows with it.
-	const builder = new ColumnBuilder(Math.max(1, Number(counted.rows[0]?.n ?? 0)));
+	const expected = Math.max(1, Number(counted.rows[0]?.n ?? 0));
+	const builder = new ColumnBuilder(expected);
 	let after = -2147483648;
-	const lat: number[] = [];
-	const lon: number[] = [];
+	// Positions straight into typed columns (grown like the builder's when a live flight grew).
+	let lat = new Float64Array(o.positions ? expected : 0);
+	let lon = new Float64Array(o.positions ? expected : 0);
+	let n = 0;
 	let hasPosition = false;
 	const positions = o.positions ? sql`, lat, lon` : sql``;
 	for (;;) {
@@ -55,16 +58,23 @@ export async function loadSampleColumns(flightId: string, q: Queryable = db, o: 
 		for (const r of rows) builder.push(Number(r.seq), Number(r.ms), r.flow, r.gs, r.dtg, r.alt, r.wpt);
 		if (o.positions)
 			for (const r of rows) {
+				if (n === lat.length) {
+					const grown = [new Float64Array(lat.length * 2), new Float64Array(lat.length * 2)];
+					grown[0].set(lat);
+					grown[1].set(lon);
+					[lat, lon] = grown;
+				}
 				const has = r.lat !== null && r.lat !== undefined && r.lon !== null && r.lon !== undefined;
 				hasPosition ||= has;
-				lat.push(has ? Number(r.lat) : NaN);
-				lon.push(has ? Number(r.lon) : NaN);
+				lat[n] = has ? Number(r.lat) : NaN;
+				lon[n] = has ? Number(r.lon) : NaN;
+				n++;
 			}
 		if (rows.length < PAGE_ROWS) break;
 		after = Number(rows[rows.length - 1].seq);
 	}
 	const out: FlightSamples = { columns: builder.columns(), seq: builder.seq(), waypoints: builder.waypoints(), hasAlt: builder.hasAlt, hasWpt: builder.hasWpt };
-	if (o.positions) out.positions = hasPosition ? { lat: Float64Array.from(lat), lon: Float64Array.from(lon) } : null;
+	if (o.positions) out.positions = hasPosition ? { lat: lat.subarray(0, n), lon: lon.subarray(0, n) } : null;
 	return out;
 }
 
