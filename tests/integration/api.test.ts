@@ -8,6 +8,8 @@ import { eq } from 'drizzle-orm';
 import { db } from '$lib/server/db';
 import { aircraft, apiTokens, flights, memberships } from '$lib/server/db/schema';
 import { createApiToken } from '$lib/server/accounts/api-tokens';
+import { grantHolds } from '$lib/server/access';
+import { hashToken } from '$lib/server/tokens';
 import { apiConventions } from '$lib/server/hooks/api-conventions';
 import { authenticate } from '$lib/server/hooks/authenticate';
 import { aircraftPageSchema, flightPageSchema, problemSchema } from '$lib/schemas/api';
@@ -203,6 +205,14 @@ describe('personal API tokens: scope and expiry', () => {
 				['upload', true]
 			])
 		);
+	});
+
+	it('a live stream opened with a token stops holding once the token expires', async () => {
+		const token = await createApiToken(club.pilot.id, { name: 'stream', scope: 'read', expiresInDays: 7 });
+		const grant = { userId: club.pilot.id, flightId, credential: { kind: 'token' as const, tokenHash: hashToken(token) } };
+		expect(await grantHolds(grant)).toBe(true);
+		await db.update(apiTokens).set({ expiresAt: new Date(Date.now() - 1) }).where(eq(apiTokens.tokenHash, hashToken(token)));
+		expect(await grantHolds(grant)).toBe(false);
 	});
 
 	it('a token is a credential of the API only: on a page it signs nobody in', async () => {

@@ -88,7 +88,7 @@ describe('a multipart upload cut off anywhere', () => {
 		);
 		const lines = (await ndjson.text()).trim().split('\n').map((l) => JSON.parse(l));
 		expect(lines.at(-1)).toMatchObject({ kind: 'result', httpStatus: 400, answer: { outcome: 'invalid', status: 400, field: 'file' } });
-		expect(lines.at(-1).error).toMatch(/cut off/);
+		expect(lines.at(-1).answer.detail).toMatch(/cut off/);
 		expect(await tableCounts()).toEqual(before);
 		// The whole body is stored: the server (and its pool) still work.
 		const ok = await send(body, contentType);
