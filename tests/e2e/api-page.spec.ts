@@ -22,7 +22,7 @@ test('a read-only token from the account page lists flights and may not upload',
 	await signIn(page, DEMO_USERS.pilot);
 	await page.goto('/account');
 	await page.getByLabel('New token name').fill(`e2e reader ${Date.now()}`);
-	await page.getByLabel('May').selectOption('read');
+	await page.getByLabel('Scope').selectOption('read');
 	await page.getByLabel('Expires').selectOption('7');
 	await page.getByRole('button', { name: 'Create' }).click();
 	const token = (await page.getByTestId('new-token').textContent())!.trim();
