@@ -29,8 +29,8 @@ export const authenticate: Handle = async ({ event, resolve }) => {
 		if (row?.expiresAt && row.expiresAt.getTime() <= Date.now()) {
 			event.locals.authProblem = `This API token expired at ${row.expiresAt.toISOString()}; create a new one on the account page.`;
 		} else if (row) {
-			const { id, email, name, prefFuelUnit } = row.user;
-			event.locals.user = { id, email, name, prefFuelUnit };
+			const { id, email, name, prefFuelUnit, timeZone } = row.user;
+			event.locals.user = { id, email, name, prefFuelUnit, timeZone };
 			event.locals.authVia = 'token';
 			event.locals.apiToken = { id: row.tokenId, scope: row.scope };
 			await db.update(apiTokens).set({ lastUsedAt: new Date() }).where(eq(apiTokens.id, row.tokenId));
