@@ -226,3 +226,6 @@ export const cautionWords = {
 	more: 'More about these figures and the reserve rule',
 	long: 'They are only as good as the sensor and the declaration, and Burndown is not a certified instrument.'
 } as const;
+
+/** The replay's column of figures at the scrubbed moment (it scrolls on its own at desk sizes). */
+export const figuresColumnLabel = 'Figures at the scrubber';
