@@ -175,6 +175,15 @@ export function summaryCsv(
 		rows.push([`phase_${p.name}_fuel`, fuel(p.fuelL), u]);
 		rows.push([`phase_${p.name}_average_flow`, fuel(p.averageFlowLph), `${u}/h`]);
 	}
+	(s.legs ?? []).forEach((leg, k) => {
+		const n = k + 1;
+		rows.push([`leg_${n}_start_utc`, when(leg.start), '']);
+		rows.push([`leg_${n}_end_utc`, when(leg.end), '']);
+		rows.push([`leg_${n}_block_time_min`, num(leg.blockTimeS / 60, 1), `min (${leg.blockTimeBasis})`]);
+		rows.push([`leg_${n}_engine_time_min`, num(leg.engineTimeS / 60, 1), 'min']);
+		rows.push([`leg_${n}_fuel_used`, fuel(leg.fuelUsedL), u]);
+		rows.push([`leg_${n}_average_flow`, fuel(leg.averageFlowLph), `${u}/h over the leg's engine time`]);
+	});
 	// Field names and units are ours; they go through textCell too, as every text cell does.
 	return ['field,value,unit', ...rows.map(([field, value, unit]) => csvLine([textCell(field), value, textCell(unit)]))].join('\r\n') + '\r\n';
 }
