@@ -10,7 +10,8 @@ export type UploadProgress =
 
 export type UploadAnswer =
 	| { status: 'stored'; flightId: string; uploadId: string; url: string; rows: number; report: unknown; summary: unknown }
-	| { status: 'duplicate'; flightId: string; uploadId: string; url: string; error: string }
+	/** inTrash: the earlier flight is in the trash; url then is the trash page. */
+	| { status: 'duplicate'; flightId: string; uploadId: string; url: string; inTrash: boolean; error: string }
 	| { status: 'rejected'; error: string; problems: RowProblem[]; problemCount: number }
 	| { status: 'invalid' | 'tooLarge' | 'timeout' | 'busy' | 'error'; error: string; field: string | null; errors?: Record<string, string>; limitBytes?: number; retryAfterS?: number };
 

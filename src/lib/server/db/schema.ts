@@ -7,6 +7,7 @@ import type { FlightSummary } from '../../fuel/summary';
 import type { Declaration } from '../../fuel/types';
 import { DEBRIEF_STATUSES } from '../../wire/plan';
 import {
+	type AnyPgColumn,
 	bigint,
 	boolean,
 	check,
@@ -313,7 +314,12 @@ export const uploads = pgTable(
 		sha256: text().notNull(),
 		/** The parse report: rows read, gaps, the mapping used, warnings. */
 		report: jsonb().notNull(),
-		createdAt: tstz().notNull().defaultNow()
+		createdAt: tstz().notNull().defaultNow(),
+		/**
+		 * The flight this upload's samples went into when its own flight was merged into an earlier
+		 * one (flights/split.ts); null otherwise (the flight names its upload in flights.upload_id).
+		 */
+		mergedIntoFlightId: uuid().references((): AnyPgColumn => flights.id, { onDelete: 'set null' })
 	},
 	(t) => [uniqueIndex().on(t.aircraftId, t.sha256)]
 );

@@ -83,7 +83,7 @@ export interface UploadReport {
 
 export type IngestResult =
 	| { status: 'stored'; flightId: string; uploadId: string; report: UploadReport; summary: FlightSummary }
-	| { status: 'duplicate'; flightId: string; uploadId: string; message: string }
+	| { status: 'duplicate'; flightId: string; uploadId: string; inTrash: boolean; message: string }
 	| { status: 'rejected'; problems: RowProblem[]; problemCount: number; message: string }
 	| { status: 'invalid'; field: string; message: string }
 	| { status: 'tooLarge'; limitBytes: number; message: string };
@@ -201,7 +201,15 @@ async function store(
 	const last = new Date(summary.lastTMs!);
 	const place = await placeUpload(db, req.aircraft, { flightId, sha256: p.sha256, first, last });
 	if (place.kind === 'duplicate')
-		return { status: 'duplicate', flightId: place.flightId, uploadId: place.uploadId, message: 'This file was uploaded for this aircraft before; here is that flight.' };
+		return {
+			status: 'duplicate',
+			flightId: place.flightId,
+			uploadId: place.uploadId,
+			inTrash: place.inTrash,
+			message: place.inTrash
+				? 'This file was uploaded for this aircraft before, and that flight is in the trash: restore it from the trash to see it again.'
+				: 'This file was uploaded for this aircraft before; here is that flight.'
+		};
 	if (place.kind === 'overlap')
 		return {
 			status: 'invalid',

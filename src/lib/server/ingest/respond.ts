@@ -25,7 +25,11 @@ function answerOf(result: IngestResult, slug: string): { httpStatus: number; bod
 				body: { status: 'stored', flightId: result.flightId, uploadId: result.uploadId, url: url(result.flightId), rows: result.report.rows, report: result.report, summary: result.summary }
 			};
 		case 'duplicate':
-			return { httpStatus: 200, body: { status: 'duplicate', flightId: result.flightId, uploadId: result.uploadId, url: url(result.flightId), error: result.message } };
+			// A flight in the trash has no page of its own: the answer points to the trash.
+			return {
+				httpStatus: 200,
+				body: { status: 'duplicate', flightId: result.flightId, uploadId: result.uploadId, url: result.inTrash ? `/o/${slug}/trash` : url(result.flightId), inTrash: result.inTrash, error: result.message }
+			};
 		case 'rejected':
 			return { httpStatus: 400, body: { status: 'rejected', error: result.message, problems: result.problems, problemCount: result.problemCount } };
 		case 'invalid':

@@ -11,7 +11,8 @@ import { loadEvents } from '$lib/server/flights/load';
 import { listNotes } from '$lib/server/flights/notes';
 import { flightPeople } from '$lib/server/flights/people';
 import { can } from '$lib/permissions';
-import { declarationFormSchema, declarationFormValues, flightDetailsFormSchema, fuelEventFormSchema, idFormSchema, noteEditFormSchema, noteFormSchema, reasonFormSchema } from '$lib/schemas/flight';
+import { declarationFormSchema, declarationFormValues, flightDetailsFormSchema, fuelEventFormSchema, idFormSchema, mergeFormSchema, noteEditFormSchema, noteFormSchema, reasonFormSchema, splitFormSchema } from '$lib/schemas/flight';
+import { mergeFlights, mergeNeighbours, splitFlight } from '$lib/server/flights/split';
 import { peopleChoices, saveDetails } from '$lib/server/flights/details';
 import { trashFlight } from '$lib/server/flights/trash';
 import { redirect } from '@sveltejs/kit';
@@ -65,6 +66,8 @@ export const load = (async (event) => {
 		unit,
 		// Who can be chosen, only for those who may change the details.
 		people: mayEdit ? await peopleChoices(flight.orgId) : null,
+		// The aircraft's flights just before and after, to merge with (for those who may edit).
+		neighbours: mayEdit && flight.status === 'closed' ? await mergeNeighbours(flight) : null,
 		may: {
 			edit: mayEdit,
 			setPilot: mayOnFlight(ctx, flight, 'setPilot'),
@@ -82,6 +85,26 @@ export const actions = {
 		const done = await trashFlight(flight, user.id);
 		if (!done.ok) return failForm(409, { [done.field]: done.message }, {}, 'trash');
 		redirect(303, `/o/${org.slug}/trash?moved=${flight.id}`);
+	},
+	// Cuts the flight at one of its stops into two flights (the page asks first).
+	split: async (event) => {
+		const { flight, org } = await requireFlight(event, event.params.org, event.params.id, 'edit');
+		const form = parseForm(splitFormSchema, await event.request.formData());
+		if (!form.ok) return failForm(400, form.errors, form.values, 'split');
+		const done = await splitFlight(flight, form.data.stop);
+		if (!done.ok) return failForm(done.status, { stop: done.message }, form.values, 'split');
+		redirect(303, `/o/${org.slug}/flights/${done.flightIds[0]}?split=${done.flightIds[1]}`);
+	},
+	// Joins this flight and another of the same aircraft into the earlier one (the page asks first).
+	merge: async (event) => {
+		const { flight, org } = await requireFlight(event, event.params.org, event.params.id, 'edit');
+		const form = parseForm(mergeFormSchema, await event.request.formData());
+		if (!form.ok) return failForm(400, form.errors, form.values, 'merge');
+		// The other flight needs the same right: it disappears into this one (or this one into it).
+		const other = await requireFlight(event, event.params.org, form.data.otherId, 'edit');
+		const done = await mergeFlights(flight, other.flight);
+		if (!done.ok) return failForm(done.status, { otherId: done.message }, form.values, 'merge');
+		redirect(303, `/o/${org.slug}/flights/${done.flightId}?merged=1`);
 	},
 	details: async (event) => {
 		const ctx = await requireFlight(event, event.params.org, event.params.id, 'edit');

@@ -226,7 +226,7 @@ export class UploadFlow {
 			this.outcome = outcome;
 			this.phase = 'finished';
 			if (outcome.body.status === 'stored') await goto(outcome.body.url);
-			else if (outcome.body.status === 'duplicate') await goto(`${outcome.body.url}?duplicate=1`);
+			else if (outcome.body.status === 'duplicate' && !outcome.body.inTrash) await goto(`${outcome.body.url}?duplicate=1`);
 		} catch (e) {
 			this.failure = (e as Error).message;
 			this.phase = 'finished';
