@@ -11,6 +11,8 @@ import { LITRES_PER_US_GALLON } from '$lib/units';
 import { actions as flightActions } from '../../src/routes/o/[org]/flights/[id]/+page.server';
 import { actions as trashActions } from '../../src/routes/o/[org]/trash/+page.server';
 import { makeClub, makeUser, steadyFile, upload, type Club } from './upload-fixture';
+import { loadFlight } from '$lib/server/flights/load';
+import { computeLoaded } from '$lib/server/flights/summary';
 import type { AuthUser } from '$lib/server/auth';
 import { formOf, routeEvent } from './route-event';
 
@@ -33,6 +35,11 @@ const redirectTo = async (p: Promise<unknown>): Promise<string> => {
 };
 const split = (user: AuthUser, id: string, stop: string) => flightActions.split(routeEvent(user, FLIGHT_ROUTE, { org: club.slug, id }, formOf({ stop })) as never);
 const merge = (user: AuthUser, id: string, otherId: string) => flightActions.merge(routeEvent(user, FLIGHT_ROUTE, { org: club.slug, id }, formOf({ otherId })) as never);
+/** Every kept closed flight of the club: its stored summary equals a fresh computation (stored figures are derived). */
+async function expectDerived(what: string) {
+	const rows = await db.select({ id: flights.id, summary: flights.summary }).from(flights).where(sql`${flights.orgId} = ${club.orgId} and ${flights.status} = 'closed' and ${flights.deletedAt} is null`);
+	for (const r of rows) expect(JSON.parse(JSON.stringify(r.summary)), `${what}: flight ${r.id}`).toEqual(JSON.parse(JSON.stringify(computeLoaded((await loadFlight(r.id))!).summary)));
+}
 const uploadCount = async () => Number((await db.execute<{ n: number }>(sql`select count(*)::int as n from uploads where org_id = ${club.orgId}`)).rows[0].n);
 
 /**
@@ -114,6 +121,7 @@ describe('legs, split and merge', () => {
 		// The second part starts with the first one's fuel at shutdown, and lands as the original did.
 		expect(b!.previousOnBoardL).toBeCloseTo(sa.onBoardAtShutdownL!, 9);
 		expect(sb.onBoardAtShutdownL).toBeCloseTo(original.onBoardAtShutdownL!, 9);
+		await expectDerived('after the split');
 	});
 
 	it('merges the two parts back (an instructor may), with the original figures', async () => {
@@ -128,6 +136,7 @@ describe('legs, split and merge', () => {
 		expect(s.engineTimeS).toBe(original.engineTimeS);
 		expect(s.onBoardAtShutdownL).toBeCloseTo(original.onBoardAtShutdownL!, 9);
 		expect(s.legs).toHaveLength(2);
+		await expectDerived('after the merge');
 	});
 
 	it('merges two flights a recorder restart cut in two; both uploads are kept and a re-upload finds the merged flight', async () => {
@@ -148,6 +157,7 @@ describe('legs, split and merge', () => {
 		const again = await upload(club.pilot, { aircraftId: club.trainer.id, file: laterFile, fileName: 'b.csv' });
 		expect(again.status).toBe(200);
 		expect(again.body).toMatchObject({ status: 'duplicate', flightId: first.body.flightId, inTrash: false });
+		await expectDerived('after merging two uploads');
 	});
 
 	it('refuses to merge flights of different aircraft, or flights that overlap, with a clear 409', async () => {
