@@ -12,7 +12,8 @@ export type UploadAnswer =
 	| { status: 'stored'; flightId: string; uploadId: string; url: string; rows: number; report: unknown; summary: unknown }
 	/** inTrash: the earlier flight is in the trash; url then is the trash page. */
 	| { status: 'duplicate'; flightId: string; uploadId: string; url: string; inTrash: boolean; error: string }
-	| { status: 'rejected'; error: string; problems: RowProblem[]; problemCount: number }
+	/** droppable: every problem is a line of its own and few enough to leave out (send dropBadLines=1). */
+	| { status: 'rejected'; error: string; problems: RowProblem[]; problemCount: number; droppable: boolean }
 	| { status: 'invalid' | 'tooLarge' | 'timeout' | 'busy' | 'error'; error: string; field: string | null; errors?: Record<string, string>; limitBytes?: number; retryAfterS?: number };
 
 export type UploadLine = ({ type: 'progress' } & UploadProgress) | ({ type: 'result'; httpStatus: number } & UploadAnswer);

@@ -55,6 +55,8 @@ export interface IngestRequest extends MappingRequest {
 	declaration: DeclarationInput;
 	title?: string;
 	notes?: string;
+	/** The uploader chose to store the file without its bad lines (see MAX_DROPPED_LINES). */
+	dropBadLines?: boolean;
 	onProgress?: (progress: IngestProgress) => void;
 }
 
@@ -77,6 +79,11 @@ export interface UploadReport {
 	gapCount: number;
 	gapTimeS: number;
 	warnings: string[];
+	/**
+	 * Lines left out at the uploader's choice, each with its problem; absent or empty when none.
+	 * The time between the good samples around them is bridged as any stretch without samples.
+	 */
+	droppedLines?: RowProblem[];
 	parseMs: number;
 	storeMs: number;
 }
@@ -84,7 +91,8 @@ export interface UploadReport {
 export type IngestResult =
 	| { status: 'stored'; flightId: string; uploadId: string; report: UploadReport; summary: FlightSummary }
 	| { status: 'duplicate'; flightId: string; uploadId: string; inTrash: boolean; message: string }
-	| { status: 'rejected'; problems: RowProblem[]; problemCount: number; message: string }
+	/** droppable: the file could be stored by leaving its bad lines out, if the uploader chooses to. */
+	| { status: 'rejected'; problems: RowProblem[]; problemCount: number; droppable: boolean; message: string }
 	| { status: 'invalid'; field: string; message: string }
 	| { status: 'tooLarge'; limitBytes: number; message: string };
 
@@ -142,6 +150,7 @@ async function receive(req: IngestRequest, profiles: ProfileForMatching[], bodyS
 	try {
 		summary = await parseRecorderCsv(body.chunks(), mappingResolver(req, profiles), {
 			densityKgPerL: req.aircraft.densityKgPerL,
+			dropBadLines: req.dropBadLines === true,
 			onRows: async (batch) => {
 				for (const r of batch) {
 					if (!encoder.hasRoom()) await copySpool.append(encoder.take()!);
@@ -174,7 +183,10 @@ async function receive(req: IngestRequest, profiles: ProfileForMatching[], bodyS
 			status: 'rejected',
 			problems: summary.problems,
 			problemCount: summary.problemCount,
-			message: `The file was not stored: ${summary.problemCount} ${summary.problemCount === 1 ? 'problem' : 'problems'} found.`
+			droppable: summary.droppable,
+			message:
+				`The file was not stored: ${summary.problemCount} ${summary.problemCount === 1 ? 'problem' : 'problems'} found.` +
+				(summary.droppable ? ` ${summary.problemCount === 1 ? 'It is a line of its own' : 'Each is a line of its own'}: you may store the file without ${summary.problemCount === 1 ? 'it' : 'them'}.` : '')
 		};
 	}
 	return { flightId, summary, columns, sha256: body.sha256(), bytes: body.bytes, rows, lastSeq, parseMs: performance.now() - startedAt };
@@ -285,6 +297,7 @@ function reportOf(req: IngestRequest, p: Received, computed: Computed, first: Da
 		gapCount: summary.gapCount,
 		gapTimeS: summary.gapTimeS,
 		warnings: [...computation.warnings.map((w) => w.message), ...computation.problems.slice(0, 10).map((x) => x.message)],
+		droppedLines: s.dropped,
 		parseMs: Math.round(p.parseMs),
 		storeMs: 0
 	};

@@ -31,7 +31,7 @@ function answerOf(result: IngestResult, slug: string): { httpStatus: number; bod
 				body: { status: 'duplicate', flightId: result.flightId, uploadId: result.uploadId, url: result.inTrash ? `/o/${slug}/trash` : url(result.flightId), inTrash: result.inTrash, error: result.message }
 			};
 		case 'rejected':
-			return { httpStatus: 400, body: { status: 'rejected', error: result.message, problems: result.problems, problemCount: result.problemCount } };
+			return { httpStatus: 400, body: { status: 'rejected', error: result.message, problems: result.problems, problemCount: result.problemCount, droppable: result.droppable } };
 		case 'invalid':
 			return { httpStatus: result.field === 'file' ? 409 : 400, body: { status: 'invalid', error: result.message, field: result.field } };
 		case 'tooLarge':
@@ -111,6 +111,7 @@ export async function handleUpload(event: Pick<RequestEvent, 'request' | 'url' |
 				timeBase: fields.timeBase,
 				title: fields.title,
 				notes: fields.notes,
+				dropBadLines: fields.dropBadLines,
 				onProgress
 			}).finally(finish);
 

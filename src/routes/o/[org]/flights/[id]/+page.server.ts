@@ -13,6 +13,7 @@ import { flightPeople } from '$lib/server/flights/people';
 import { can } from '$lib/permissions';
 import { declarationFormSchema, declarationFormValues, flightDetailsFormSchema, fuelEventFormSchema, idFormSchema, mergeFormSchema, noteEditFormSchema, noteFormSchema, reasonFormSchema, splitFormSchema } from '$lib/schemas/flight';
 import { mergeFlights, mergeNeighbours, splitFlight } from '$lib/server/flights/split';
+import { droppedLinesOf } from '$lib/server/flights/upload-report';
 import { peopleChoices, saveDetails } from '$lib/server/flights/details';
 import { trashFlight } from '$lib/server/flights/trash';
 import { redirect } from '@sveltejs/kit';
@@ -24,14 +25,15 @@ import type { Actions, PageServerLoad } from './$types';
 export const load = (async (event) => {
 	const ctx = await requireFlight(event, event.params.org, event.params.id, 'view');
 	const { flight, user, role } = ctx;
-	const [a, events, corrections, notes, plan, debrief, people] = await Promise.all([
+	const [a, events, corrections, notes, plan, debrief, people, droppedLines] = await Promise.all([
 		aircraftOf(flight),
 		loadEvents(flight.id),
 		listCorrections(flight.id),
 		listNotes(flight.id),
 		planOfFlight(flight.id),
 		debriefOf(flight.id),
-		flightPeople(flight)
+		flightPeople(flight),
+		droppedLinesOf(flight)
 	]);
 	const mayEdit = mayOnFlight(ctx, flight, 'edit');
 	const unit = user.prefFuelUnit ?? a.displayUnit;
@@ -60,6 +62,7 @@ export const load = (async (event) => {
 		events: events.map((e) => ({ id: e.id, t: e.t.getTime() / 1000, kind: e.kind, amountL: e.amountL, note: e.note })),
 		notes,
 		corrections,
+		droppedLines,
 		plan,
 		debriefStatus: debrief.status,
 		declarationValues: declarationFormValues(flight.declaration as Declaration, flight.previousOnBoardL, unit, a.densityKgPerL),

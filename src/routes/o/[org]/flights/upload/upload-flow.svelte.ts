@@ -193,7 +193,8 @@ export class UploadFlow {
 		this.total = 0;
 	}
 
-	upload = async (): Promise<void> => {
+	/** Sends the file; with dropBadLines only after the uploader chose to leave its bad lines out. */
+	upload = async (opts: { dropBadLines?: boolean } = {}): Promise<void> => {
 		const { file, ac, chosen, profile } = this;
 		if (!file || !ac || !chosen || !('mapping' in chosen)) return;
 		this.reset();
@@ -211,6 +212,7 @@ export class UploadFlow {
 		}
 		if (this.title.trim()) fd.set('title', this.title.trim());
 		if (this.notes.trim()) fd.set('notes', this.notes.trim());
+		if (opts.dropBadLines === true) fd.set('dropBadLines', '1');
 		// The fields go first: the server reads them before the file streams in.
 		fd.set('file', file, file.name);
 		const req = sendUpload('/api/v1/flights', fd, {
