@@ -4,6 +4,7 @@
 // flights' and the aircraft's last fuel are recomputed in the same transaction.
 import { and, asc, eq, gt, gte, isNull, lt, max, min, ne, sql } from 'drizzle-orm';
 import type { FuelEventKind } from '$lib/fuel';
+import { utcDateTime } from '$lib/format';
 import { db } from '../db';
 import { debriefs, flightNotes, flights, fuelEvents, fuelPlans, samples, uploads, type Flight } from '../db/schema';
 import { loadFlight } from './load';
@@ -90,8 +91,7 @@ export async function mergeFlights(a: Pick<Flight, 'id' | 'aircraftId' | 'orgId'
 		const range = async (id: string) => (await tx.select({ first: min(samples.t), last: max(samples.t), lo: min(samples.seq), hi: max(samples.seq) }).from(samples).where(eq(samples.flightId, id)))[0];
 		const [ra, rb] = [await range(early.id), await range(late.id)];
 		if (ra.last && rb.first && rb.first.getTime() <= ra.last.getTime()) {
-			const fmt = (d: Date) => d.toISOString().slice(0, 16).replace('T', ' ');
-			return { ok: false, status: 409, message: `These flights overlap: the later one starts at ${fmt(rb.first)} UTC, before the earlier one's last sample at ${fmt(ra.last)} UTC.` };
+			return { ok: false, status: 409, message: `These flights overlap: the later one starts at ${utcDateTime(rb.first)} UTC, before the earlier one's last sample at ${utcDateTime(ra.last)} UTC.` };
 		}
 		const [plan] = await tx.select({ id: fuelPlans.id }).from(fuelPlans).where(eq(fuelPlans.flightId, late.id)).limit(1);
 		const [debrief] = await tx.select({ id: debriefs.flightId }).from(debriefs).where(eq(debriefs.flightId, late.id)).limit(1);

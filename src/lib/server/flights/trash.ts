@@ -8,6 +8,7 @@ import { flights, uploads, users, type Flight } from '../db/schema';
 import { lockAircraftFlights, recomputeAircraftFlights, recomputeSummary } from './summary';
 import type { EditResult } from './edit';
 import { overlappingFlight } from '../ingest/placement';
+import { utcDateTime } from '$lib/format';
 
 async function move(flight: Pick<Flight, 'id' | 'aircraftId' | 'startedAt'>, deleted: { at: Date; by: string } | null): Promise<void> {
 	await db.transaction(async (tx) => {
@@ -36,8 +37,7 @@ export async function restoreFlight(flight: Pick<Flight, 'id' | 'aircraftId' | '
 	const end = flight.endedAt ?? flight.lastSampleAt ?? flight.startedAt;
 	const other = await overlappingFlight(db, flight.aircraftId, flight.id, flight.startedAt, end);
 	if (other) {
-		const at = other.startedAt.toISOString().slice(0, 16).replace('T', ' ');
-		return { ok: false, field: 'form', message: `A flight of this aircraft stored since (started ${at} UTC) covers the same time; put that one in the trash first to restore this one.` };
+		return { ok: false, field: 'form', message: `A flight of this aircraft stored since (started ${utcDateTime(other.startedAt)} UTC) covers the same time; put that one in the trash first to restore this one.` };
 	}
 	await move(flight, null);
 	return { ok: true };
