@@ -17,6 +17,7 @@ import {
 	type CruiseBasis,
 	type FuelEventKind,
 	type HighBurnCause,
+	type StopKind,
 	type VerdictState
 } from '$lib/fuel';
 import type { DebriefStatus, PlanImportFormat } from '$lib/wire/plan';
@@ -65,7 +66,8 @@ export const figureLabels = {
 	startFuel: 'Fuel on board at engine start',
 	fuelEvent: 'Fuel event',
 	notes: 'Notes',
-	note: 'Note'
+	note: 'Note',
+	leg: 'Leg'
 } as const;
 
 export const apiTokenScopeLabels: Record<ApiTokenScope, string> = {
@@ -181,6 +183,18 @@ export function gapTitle(g: { kind: 'time' | 'flow'; start: number; end: number;
 	if (!(g.filledFlowLph > 0)) return `No samples for ${length}, engine stopped (a stop with the recorder off)`;
 	return `Recorder dropout, ${length}`;
 }
+/** How a stop between two logbook legs was seen (the rule in $lib/fuel/legs.ts). */
+export const stopKindLabels: Record<StopKind, string> = {
+	engineOff: 'engine stopped on the ground',
+	recorderGap: 'recorder off on the ground'
+};
+
+/** A logbook leg's name, counted from 1. */
+export const legName = (k: number): string => `Leg ${k + 1}`;
+
+/** Beside an average flow: the engine time it was divided by. */
+export const flowOverEngineTime = (engineTime: string): string => `over ${engineTime} engine time`;
+
 /** Where a calibration entry's factors came from. */
 export const calibrationSourceLabels = {
 	reconciliation: 'From a reconciliation with fuel pumped',

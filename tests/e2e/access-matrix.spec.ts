@@ -100,6 +100,9 @@ const MATRIX: Row[] = [
 	{ route: '/o/[org]/flights/[id]', method: 'POST', path: (i) => `${F(i)}?/editNote`, form: { id: '' }, expect: only(FLIGHT_EDITORS, 400) },
 	// Details: the flight's pilot, instructors and admins; a title too long is refused with its field.
 	{ route: '/o/[org]/flights/[id]', method: 'POST', path: (i) => `${F(i)}?/details`, form: { title: 'x'.repeat(201), route: '' }, expect: only(FLIGHT_EDITORS, 400) },
+	// Split at a stop the flight does not have, merge with itself: its editors are told why (409), nothing changes.
+	{ route: '/o/[org]/flights/[id]', method: 'POST', path: (i) => `${F(i)}?/split`, form: { stop: '999' }, expect: only(FLIGHT_EDITORS, 409) },
+	{ route: '/o/[org]/flights/[id]', method: 'POST', path: (i) => `${F(i)}?/merge`, form: (i) => ({ otherId: i.pilotFlight }), expect: only(FLIGHT_EDITORS, 409) },
 	{ route: '/o/[org]/flights/[id]/plan', method: 'GET', path: (i) => `${F(i)}/plan`, expect: only(FLIGHT_VIEWERS, 200) },
 	{ route: '/o/[org]/flights/[id]/plan', method: 'POST', path: (i) => `${F(i)}/plan?/save`, form: {}, expect: only(FLIGHT_EDITORS, 400) },
 	{ route: '/o/[org]/flights/[id]/plan', method: 'POST', path: (i) => `${F(i)}/plan?/import`, form: {}, expect: only(FLIGHT_EDITORS, 400) },

@@ -316,7 +316,9 @@ test('the same file again goes to its flight; a broken file lists its problems a
 	await page.getByTestId('upload-submit').click();
 	const report = page.getByTestId('upload-problems');
 	await expect(report).toBeVisible({ timeout: 20_000 });
-	await expect(page.getByTestId('upload-error')).toHaveText('The file was not stored: 7 problems found.');
+	// Each problem is a line of its own, so the page offers (never applies) storing the file without them.
+	await expect(page.getByTestId('upload-error')).toHaveText('The file was not stored: 7 problems found. Each is a line of its own: you may store the file without them.');
+	await expect(page.getByTestId('drop-lines-submit')).toHaveText('Store it without these 7 lines');
 	await expect(report).toContainText('Nothing was stored. 7 problems:');
 	const shown = report.locator('tbody tr');
 	await expect(shown).toHaveCount(lines.length);

@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { LITRES_PER_US_GALLON, LITRES_PER_IMPERIAL_GALLON, KG_PER_POUND } from '$lib/units';
 import { columnMappingSchema, type ColumnMapping } from './mapping';
-import { parseRecorderCsv, parseRecorderText, splitCsvLines, type MappingResolver } from './parse';
+import { MAX_DROPPED_LINES, parseRecorderCsv, parseRecorderText, splitCsvLines, type MappingResolver } from './parse';
 import { MAX_FLOW_LPH } from './format';
 
 const HEADER = 'time_utc,fuel_flow_usgph,ground_speed_kt,distance_to_go_nm,waypoint,latitude,longitude,altitude_ft';
@@ -368,5 +368,66 @@ describe('a spreadsheet export with a sep= first line', () => {
 		expect(res.ok).toBe(false);
 		expect(res.problems[0]).toMatchObject({ line: 1, value: 'sep=;' });
 		expect(res.problems[0].message).toMatch(/semicolon.*comma|comma.*semicolon/);
+	});
+});
+
+describe('leaving bad lines out, by the uploader’s choice', () => {
+	/** A good file whose lines `bad` (1-based file lines) are spoiled: a letter in the flow cell. */
+	function spoiled(n: number, bad: number[]): string {
+		const lines = burndownFile(n).split('\n');
+		for (const l of bad) lines[l - 1] = lines[l - 1].replace(',9.5,', ',9.x,');
+		return lines.join('\n');
+	}
+
+	it('refuses by default, listing each bad line, and says the file could be stored without them', async () => {
+		const res = await parseRecorderText(spoiled(30, [5, 9]), null);
+		expect(res.ok).toBe(false);
+		expect(res.problems.map((p) => p.line)).toEqual([5, 9]);
+		expect(res.droppable).toBe(true);
+		expect(res.dropped).toEqual([]);
+	});
+
+	it('with the choice, keeps every other row and lists the lines left out', async () => {
+		const res = await parseRecorderText(spoiled(30, [5, 9]), null, { dropBadLines: true });
+		expect(res.ok).toBe(true);
+		expect(res.rowCount).toBe(28);
+		expect(res.dropped.map((p) => p.line)).toEqual([5, 9]);
+		expect(res.rows.map((r) => r.line)).not.toContain(5);
+	});
+
+	it('a last line cut off at shutdown is named as such and can be left out', async () => {
+		const whole = burndownFile(10);
+		const cut = whole.slice(0, whole.length - 30);
+		const refused = await parseRecorderText(cut, null);
+		expect(refused.ok).toBe(false);
+		expect(refused.problems).toHaveLength(1);
+		expect(refused.problems[0].line).toBe(11);
+		expect(refused.problems[0].message).toMatch(/cut off when the recorder lost power/);
+		const kept = await parseRecorderText(cut, null, { dropBadLines: true });
+		expect(kept.ok).toBe(true);
+		expect(kept.rowCount).toBe(9);
+	});
+
+	it('more bad lines than the limit: refused even with the choice, every one listed', async () => {
+		const bad = Array.from({ length: MAX_DROPPED_LINES + 1 }, (_, k) => 3 + k);
+		const res = await parseRecorderText(spoiled(60, bad), null, { dropBadLines: true });
+		expect(res.ok).toBe(false);
+		expect(res.problemCount).toBe(MAX_DROPPED_LINES + 1);
+		expect(res.droppable).toBe(false);
+		expect(res.dropped).toEqual([]);
+	});
+
+	it('a header problem is never left out', async () => {
+		const res = await parseRecorderText('a,b\n1,2\n3,4\n', null, { dropBadLines: true });
+		expect(res.ok).toBe(false);
+		expect(res.droppable).toBe(false);
+	});
+
+	it('a decimal comma in a comma-separated file is named as the likely cause', async () => {
+		const lines = burndownFile(5).split('\n');
+		lines[3] = lines[3].replace(',9.5,', ',9,5,');
+		const res = await parseRecorderText(lines.join('\n'), null);
+		expect(res.problems[0].line).toBe(4);
+		expect(res.problems[0].message).toMatch(/decimal comma in a comma-separated file/);
 	});
 });

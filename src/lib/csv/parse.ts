@@ -45,7 +45,19 @@ export interface ParseOptions extends RowReaderOptions {
 	onProgress?: (progress: { lines: number; rows: number }) => void;
 	/** Fewer good samples than this is a problem. Default 2 (a flight); a live batch may take 1. */
 	minSamples?: number;
+	/**
+	 * The uploader chose to store the file without its bad lines: up to MAX_DROPPED_LINES lines
+	 * whose only problem is their own content (not the header, the mapping or the encoding) are
+	 * left out and listed in `dropped` instead of refusing the file. Off unless asked for.
+	 */
+	dropBadLines?: boolean;
 }
+
+/** Said of a bad last line that ends without a line break. */
+export const CUT_OFF_HINT = ' The file ends inside this line: it was probably cut off when the recorder lost power at shutdown.';
+
+/** The most bad lines a file may lose when its uploader chose to leave them out. */
+export const MAX_DROPPED_LINES = 20;
 
 export interface ParseSummary {
 	/** True when every row was good and there are at least two samples. */
@@ -65,6 +77,13 @@ export interface ParseSummary {
 	ignoredColumns: string[];
 	problems: RowProblem[];
 	problemCount: number;
+	/** Lines left out at the uploader's choice (dropBadLines), each with its problem. */
+	dropped: RowProblem[];
+	/**
+	 * Whether a refused file could be stored by leaving out its bad lines: every problem is a line
+	 * of its own (no header, mapping or encoding problem) and there are at most MAX_DROPPED_LINES.
+	 */
+	droppable: boolean;
 }
 
 /** A line longer than this is not a recorder row: the file is not a CSV (or has no line breaks). */
@@ -138,9 +157,14 @@ export async function parseRecorderCsv(
 		blankCells: { flow: 0, gs: 0, dtg: 0, alt: 0 },
 		ignoredColumns: [],
 		problems: [],
-		problemCount: 0
+		problemCount: 0,
+		dropped: [],
+		droppable: false
 	};
-	const report = (p: RowProblem) => {
+	// Problems of the file as a whole (header, mapping, encoding, too few samples) are never dropped.
+	let wholeFileProblem = false;
+	const report = (p: RowProblem, ofLine = false) => {
+		if (!ofLine) wholeFileProblem = true;
 		summary.problemCount++;
 		if (summary.problems.length < maxProblems) summary.problems.push(p);
 	};
@@ -211,7 +235,7 @@ export async function parseRecorderCsv(
 		summary.origin = chosen.origin;
 		const built = createRowReader(chosen.mapping, names, headerLine, options);
 		if ('problems' in built) {
-			built.problems.forEach(report);
+			built.problems.forEach((p) => report(p));
 			fatal = true;
 			return true;
 		}
@@ -223,8 +247,24 @@ export async function parseRecorderCsv(
 		return true;
 	};
 
+	// A line's own problem: left out when the uploader chose so (up to the limit), else reported.
+	// Past the limit every line left out so far is reported too, and the file is refused.
+	const lineProblem = (p: RowProblem) => {
+		if (options.dropBadLines && summary.problemCount === 0) {
+			if (summary.dropped.length < MAX_DROPPED_LINES) {
+				summary.dropped.push(p);
+				return;
+			}
+			for (const d of summary.dropped) report(d, true);
+			summary.dropped = [];
+		}
+		report(p, true);
+	};
+
 	const parseBuffered = async (final: boolean) => {
 		const r = reader!;
+		// A file that ends inside its last line: that line was probably cut off at shutdown.
+		const cutOff = final && buf.length > 0 && !buf.endsWith(newline);
 		// The final line break ends the last row; it does not start an empty one.
 		if (final && buf.endsWith(newline)) buf = buf.slice(0, -newline.length);
 		const res = parser!.parse(buf, 0, !final) as Papa.ParseResult<string[]>;
@@ -238,9 +278,10 @@ export async function parseRecorderCsv(
 			const at = line;
 			if (quoted) for (const cell of cells) for (let k = cell.indexOf('\n'); k !== -1; k = cell.indexOf('\n', k + 1)) line++;
 			line++;
+			const lastCut = cutOff && i === rows.length - 1 ? CUT_OFF_HINT : '';
 			const qe = quoteErrors.get(i);
 			if (qe !== undefined) {
-				report({ line: at, column: '', value: cells.join(summary.mapping!.delimiter).slice(0, 80), message: `Malformed quoting: ${qe}.` });
+				lineProblem({ line: at, column: '', value: cells.join(summary.mapping!.delimiter).slice(0, 80), message: `Malformed quoting: ${qe}.${lastCut}` });
 				continue;
 			}
 			const result = r.read(cells, at);
@@ -249,7 +290,7 @@ export async function parseRecorderCsv(
 				continue;
 			}
 			if ('problem' in result) {
-				report(result.problem);
+				lineProblem(lastCut ? { ...result.problem, message: result.problem.message + lastCut } : result.problem);
 				continue;
 			}
 			if (summary.problemCount > 0) continue;
@@ -303,6 +344,7 @@ export async function parseRecorderCsv(
 			message: summary.rowCount === 0 ? 'The file has a header but no samples.' : 'The file has only one sample; a flight needs at least two.'
 		});
 	summary.ok = summary.problemCount === 0;
+	summary.droppable = !summary.ok && !wholeFileProblem && summary.problemCount <= MAX_DROPPED_LINES;
 	return summary;
 }
 

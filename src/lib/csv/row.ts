@@ -289,6 +289,16 @@ class Reader implements RowReader {
 		return this.baseMs + v * 1000;
 	}
 
+	/**
+	 * Why a comma-separated line may have more fields than its header: numbers written with a
+	 * decimal comma split in two ("8,5" reads as two cells).
+	 */
+	private extraFieldsHint(cells: readonly string[]): string {
+		if (this.mapping.delimiter !== ',' || cells.length <= this.width) return '';
+		const digits = cells.filter((x) => /^\s*-?\d+\s*$/.test(x)).length;
+		return digits >= 2 ? ' Numbers with a decimal comma in a comma-separated file split into two fields: export the file with decimal points, or with semicolons between the cells.' : '';
+	}
+
 	read(cells: readonly string[], line: number): RowResult | null {
 		const c = this.c;
 		if (cells.length !== this.width) {
@@ -297,7 +307,7 @@ class Reader implements RowReader {
 				line,
 				null,
 				cells.join(this.mapping.delimiter).slice(0, 80),
-				`The line has ${cells.length} ${cells.length === 1 ? 'field' : 'fields'}; the header has ${this.width}.`
+				`The line has ${cells.length} ${cells.length === 1 ? 'field' : 'fields'}; the header has ${this.width}.${this.extraFieldsHint(cells)}`
 			);
 		}
 		const tCell = cells[this.iTime];

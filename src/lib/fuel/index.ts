@@ -28,6 +28,7 @@
 //   alarms.ts       low fuel, low endurance, arrival below the reserve: persistence, hysteresis
 //   reserve.ts      legal reserve rules as data, the normal-cruise flow and the reserve amount
 //   summary.ts      summarize(): the flight summary for the debrief
+//   legs.ts         logbook legs: the flight cut at engine-off stops, block and engine time per leg
 //   calibration.ts  meter factor and K-factor from a fill-up
 //   reconcile.ts    fill-up-to-fill-up windows: fuel computed over the flights in between against fuel pumped
 //   plan.ts         a fuel plan worked out: time and fuel per leg, on board at each waypoint, reserve
@@ -87,6 +88,7 @@ export {
 	type ReserveRuleId,
 	type ReserveSetting
 } from './reserve';
+export { LEG_STOP_MIN_S, findLegs, type EngineStop, type FlightLeg, type StopKind } from './legs';
 export { summarize, verdictStates, type FlightSummary, type FlightVerdict, type PhaseSummary, type VerdictState } from './summary';
 export {
 	MIN_RELIABLE_INDICATED_L,

@@ -4,8 +4,10 @@
 // Built from the running totals; no second pass over the samples.
 
 import { PHASE_CLIMB, PHASE_CRUISE, PHASE_DESCENT, PHASE_STOPPED, PHASE_TAXI, phaseNames, type PhaseName } from './phases';
+import { DEFAULT_OPTIONS } from './engine';
+import { findLegs, type EngineStop, type FlightLeg } from './legs';
 import type { ReserveAmount } from './reserve';
-import type { FlightComputation } from './types';
+import type { EngineOptions, FlightComputation, SampleColumns } from './types';
 
 export interface PhaseSummary {
 	phase: number;
@@ -65,6 +67,13 @@ export interface FlightSummary {
 	gapCount: number;
 	gapTimeS: number;
 	alarmCount: number;
+	/**
+	 * Logbook legs, cut at engine-off stops (legs.ts); empty when summarize was not given the
+	 * columns. One leg for a flight without a stop.
+	 */
+	legs: FlightLeg[];
+	/** The engine-off stops between the legs, in order (one fewer than the legs). */
+	stops: EngineStop[];
 }
 
 /**
@@ -90,7 +99,11 @@ const ORDER = [PHASE_TAXI, PHASE_CLIMB, PHASE_CRUISE, PHASE_DESCENT, PHASE_STOPP
 
 const orNull = (x: number): number | null => (Number.isFinite(x) ? x : null);
 
-export function summarize(c: FlightComputation): FlightSummary {
+/**
+ * The summary of a computation. With the columns it was computed from (and the engine options, if
+ * any were given) it also lists the legs.
+ */
+export function summarize(c: FlightComputation, columns?: SampleColumns, options?: EngineOptions): FlightSummary {
 	const st = c.stats;
 	const has = st.acceptedCount > 0;
 
@@ -144,6 +157,13 @@ export function summarize(c: FlightComputation): FlightSummary {
 		};
 	}
 
+	const cut = columns
+		? findLegs(columns, c, {
+				minFlowLph: options?.minFlowLph ?? DEFAULT_OPTIONS.minFlowLph,
+				minGsKt: options?.minGsKt ?? DEFAULT_OPTIONS.minGsKt
+			})
+		: { legs: [], stops: [] };
+
 	let gapTimeS = 0;
 	for (const g of c.gaps) gapTimeS += g.end - g.start;
 
@@ -180,6 +200,8 @@ export function summarize(c: FlightComputation): FlightSummary {
 		verdict,
 		gapCount: c.gaps.length,
 		gapTimeS,
-		alarmCount: c.alarms.length
+		alarmCount: c.alarms.length,
+		legs: cut.legs,
+		stops: cut.stops
 	};
 }

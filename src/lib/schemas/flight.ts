@@ -91,6 +91,12 @@ export const fuelEventFormSchema = (densityKgPerL: number) =>
 
 export const idFormSchema = z.object({ id: z.uuid('That item is not on this flight.') });
 
+/** Splitting a flight at one of its stops (numbered from 0 in the summary's order). */
+export const splitFormSchema = z.object({ stop: z.coerce.number('Choose the stop to split at.').int('Choose the stop to split at.').min(0, 'Choose the stop to split at.').max(10_000, 'Choose the stop to split at.') });
+
+/** Merging with another flight of the same aircraft. */
+export const mergeFormSchema = z.object({ otherId: z.uuid('Choose the flight to merge with.') });
+
 /** The optional "why" beside a correction of the declaration or a fuel event (the audit trail). */
 export const reasonFormSchema = z.object({
 	reason: z.string().trim().max(REASON_MAX, `Use at most ${REASON_MAX} characters.`).default('')

@@ -30,7 +30,12 @@ export const uploadStoredSchema = z.object({
 });
 export type UploadStored = z.infer<typeof uploadStoredSchema>;
 
-export const uploadDuplicateSchema = z.object({ outcome: z.literal('duplicate'), ...answerOfFlight, message: z.string() });
+export const uploadDuplicateSchema = z.object({
+	outcome: z.literal('duplicate'),
+	...answerOfFlight,
+	inTrash: z.boolean().describe('The earlier flight is in the trash; url is then the trash page.'),
+	message: z.string()
+});
 export type UploadDuplicate = z.infer<typeof uploadDuplicateSchema>;
 
 const rowProblemSchema = z.object({ line: z.number().int(), column: z.string(), value: z.string(), message: z.string() }) satisfies z.ZodType<RowProblem>;
@@ -40,12 +45,13 @@ export const uploadRefusalSchema = problemSchema.extend({
 	field: z.string().nullable().optional().describe('The form field or query parameter at fault.'),
 	problems: z.array(rowProblemSchema).optional().describe("rejected: the file's problems by line (the first ones)."),
 	problemCount: z.number().int().optional().describe('rejected: how many problems in all.'),
+	droppable: z.boolean().optional().describe('rejected: every problem is a line of its own and few enough to leave out (send dropBadLines=1).'),
 	limitBytes: z.number().int().optional().describe('tooLarge: the size limit.'),
 	retryAfterS: z.number().int().optional().describe('busy: seconds to wait (also in Retry-After).')
 });
 export type UploadRefusal = Problem &
 	(
-		| { outcome: 'rejected'; problems: RowProblem[]; problemCount: number }
+		| { outcome: 'rejected'; problems: RowProblem[]; problemCount: number; droppable: boolean }
 		| { outcome: 'invalid' | 'tooLarge' | 'timeout' | 'busy' | 'error'; field: string | null; limitBytes?: number; retryAfterS?: number }
 	);
 

@@ -10,6 +10,7 @@ import { CORRECTION_KINDS, type CorrectionSnapshot } from '../../wire/correction
 import type { ReserveRuleId } from '../../fuel/reserve';
 import { reserveRuleIdSchema, storedReserveRule } from '../../schemas/reserve';
 import {
+	type AnyPgColumn,
 	bigint,
 	boolean,
 	check,
@@ -337,7 +338,12 @@ export const uploads = pgTable(
 		sha256: text().notNull(),
 		/** The parse report: rows read, gaps, the mapping used, warnings. */
 		report: jsonb().notNull(),
-		createdAt: tstz().notNull().defaultNow()
+		createdAt: tstz().notNull().defaultNow(),
+		/**
+		 * The flight this upload's samples went into when its own flight was merged into an earlier
+		 * one (flights/split.ts); null otherwise (the flight names its upload in flights.upload_id).
+		 */
+		mergedIntoFlightId: uuid().references((): AnyPgColumn => flights.id, { onDelete: 'set null' })
 	},
 	(t) => [uniqueIndex().on(t.aircraftId, t.sha256)]
 );

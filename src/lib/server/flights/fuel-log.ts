@@ -220,6 +220,15 @@ export function summaryRows(x: SummaryInput): SummaryRow[] {
 		row(`phase.${p.name}.fuel`, `${L.phase} ${p.name}: fuel`, fuel(p.fuelL), u);
 		row(`phase.${p.name}.averageFlow`, `${L.phase} ${p.name}: ${L.averageFlow.toLowerCase()}`, fuel(p.averageFlowLph), `${u}/h`);
 	}
+	(s.legs ?? []).forEach((leg, k) => {
+		const n = k + 1;
+		row(`leg.${n}.start`, `${L.leg} ${n}: start`, when(leg.start), 'UTC');
+		row(`leg.${n}.end`, `${L.leg} ${n}: end`, when(leg.end), 'UTC');
+		row(`leg.${n}.blockTime`, `${L.leg} ${n}: ${L.blockTime.toLowerCase()}`, num(leg.blockTimeS / 60, 1), `min (${leg.blockTimeBasis})`);
+		row(`leg.${n}.engineTime`, `${L.leg} ${n}: ${L.engineTime.toLowerCase()}`, num(leg.engineTimeS / 60, 1), 'min');
+		row(`leg.${n}.fuelUsed`, `${L.leg} ${n}: ${L.used.toLowerCase()}`, fuel(leg.fuelUsedL), u);
+		row(`leg.${n}.averageFlow`, `${L.leg} ${n}: ${L.averageFlow.toLowerCase()}`, fuel(leg.averageFlowLph), `${u}/h over the leg's engine time`);
+	});
 	const d = x.declaration;
 	row('declaration', L.declaration, declarationKindLabels[d.kind]);
 	if ('amountL' in d) row('declaredAmount', L.declaredAmount, fuel(d.amountL), u);

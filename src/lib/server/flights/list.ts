@@ -110,3 +110,18 @@ export async function listFilterOptions(v: ListViewer) {
 	]);
 	return { fleet, pilots };
 }
+
+/**
+ * The pilot's usual aircraft, for preselecting it on the upload page: the aircraft of their latest
+ * flight (as pilot, out of the trash) that is still in the fleet; null without one.
+ */
+export async function usualAircraftOf(orgId: string, userId: string): Promise<string | null> {
+	const [row] = await db
+		.select({ id: flights.aircraftId })
+		.from(flights)
+		.innerJoin(aircraft, eq(aircraft.id, flights.aircraftId))
+		.where(and(eq(flights.orgId, orgId), eq(flights.pilotId, userId), isNull(flights.deletedAt), isNull(aircraft.archivedAt)))
+		.orderBy(desc(flights.startedAt))
+		.limit(1);
+	return row?.id ?? null;
+}

@@ -16,7 +16,7 @@ import { loadFlight, type LoadedFlight, type Queryable } from './load';
  * recomputed once at start (refreshStaleFlights in ./refresh.ts), so no list, history or export
  * keeps figures the replay would no longer show.
  */
-export const DERIVED_VERSION = 1;
+export const DERIVED_VERSION = 2;
 
 export interface Computed {
 	computation: FlightComputation;
@@ -26,7 +26,7 @@ export interface Computed {
 /** The one derivation of a flight's figures from its engine input. */
 export function computeInput(input: FlightInput): Computed {
 	const computation = computeFlight(input);
-	return { computation, summary: summarize(computation) };
+	return { computation, summary: summarize(computation, input.columns, input.options) };
 }
 
 export function computeLoaded(f: LoadedFlight): Computed {

@@ -2,11 +2,13 @@
 // its samples and original upload, and can be restored by its editors; an admin empties the trash,
 // which really deletes. Moving in or out recomputes what depends on the flight in one transaction
 // (its own stored figures, the later flights' that use its cruise flow, the aircraft's last fuel).
-import { and, eq, inArray, isNotNull, isNull, desc } from 'drizzle-orm';
+import { and, eq, inArray, isNotNull, isNull, desc, or, sql } from 'drizzle-orm';
 import { db } from '../db';
 import { flights, uploads, users, type Flight } from '../db/schema';
 import { lockAircraftFlights, recomputeAircraftFlights, recomputeSummary } from './summary';
 import type { EditResult } from './edit';
+import { overlappingFlight } from '../ingest/placement';
+import { utcDateTime } from '$lib/format';
 
 async function move(flight: Pick<Flight, 'id' | 'aircraftId' | 'startedAt'>, deleted: { at: Date; by: string } | null): Promise<void> {
 	await db.transaction(async (tx) => {
@@ -27,8 +29,18 @@ export async function trashFlight(flight: Pick<Flight, 'id' | 'aircraftId' | 'st
 	return { ok: true };
 }
 
-export async function restoreFlight(flight: Pick<Flight, 'id' | 'aircraftId' | 'startedAt'>): Promise<void> {
+/**
+ * Takes a flight out of the trash, unless a flight stored meanwhile covers the same time (flights in
+ * the trash overlap nothing, so an upload may have taken its place).
+ */
+export async function restoreFlight(flight: Pick<Flight, 'id' | 'aircraftId' | 'startedAt' | 'endedAt' | 'lastSampleAt'>): Promise<EditResult> {
+	const end = flight.endedAt ?? flight.lastSampleAt ?? flight.startedAt;
+	const other = await overlappingFlight(db, flight.aircraftId, flight.id, flight.startedAt, end);
+	if (other) {
+		return { ok: false, field: 'form', message: `A flight of this aircraft stored since (started ${utcDateTime(other.startedAt)} UTC) covers the same time; put that one in the trash first to restore this one.` };
+	}
 	await move(flight, null);
+	return { ok: true };
 }
 
 /** The organisation's flights in the trash, newest deletion first. */
@@ -50,9 +62,16 @@ export async function emptyTrash(orgId: string): Promise<number> {
 		const gone = await tx
 			.delete(flights)
 			.where(and(eq(flights.orgId, orgId), isNotNull(flights.deletedAt)))
-			.returning({ uploadId: flights.uploadId });
+			.returning({ id: flights.id, uploadId: flights.uploadId });
 		const uploadIds = gone.map((g) => g.uploadId).filter((x): x is string => x !== null);
-		if (uploadIds.length) await tx.delete(uploads).where(and(inArray(uploads.id, uploadIds), eq(uploads.orgId, orgId)));
+		// With the uploads merged into these flights (flights/split.ts); an upload that a split's other
+		// part, out of the trash, still refers to stays.
+		const ids = gone.map((g) => g.id);
+		const which = uploadIds.length ? or(inArray(uploads.id, uploadIds), inArray(uploads.mergedIntoFlightId, ids)) : inArray(uploads.mergedIntoFlightId, ids);
+		if (ids.length)
+			await tx
+				.delete(uploads)
+				.where(and(eq(uploads.orgId, orgId), which, sql`not exists (select 1 from ${flights} where ${flights.uploadId} = ${uploads.id})`));
 		return gone.length;
 	});
 }

@@ -56,6 +56,8 @@ export interface IngestRequest extends MappingRequest {
 	declaration: DeclarationInput;
 	title?: string;
 	notes?: string;
+	/** The uploader chose to store the file without its bad lines (see MAX_DROPPED_LINES). */
+	dropBadLines?: boolean;
 	onProgress?: (progress: IngestProgress) => void;
 }
 
@@ -78,14 +80,20 @@ export interface UploadReport {
 	gapCount: number;
 	gapTimeS: number;
 	warnings: string[];
+	/**
+	 * Lines left out at the uploader's choice, each with its problem; absent or empty when none.
+	 * The time between the good samples around them is bridged as any stretch without samples.
+	 */
+	droppedLines?: RowProblem[];
 	parseMs: number;
 	storeMs: number;
 }
 
 export type IngestResult =
 	| { status: 'stored'; flightId: string; uploadId: string; report: UploadReport; summary: FlightSummary }
-	| { status: 'duplicate'; flightId: string; uploadId: string; message: string }
-	| { status: 'rejected'; problems: RowProblem[]; problemCount: number; message: string }
+	| { status: 'duplicate'; flightId: string; uploadId: string; inTrash: boolean; message: string }
+	/** droppable: the file could be stored by leaving its bad lines out, if the uploader chooses to. */
+	| { status: 'rejected'; problems: RowProblem[]; problemCount: number; droppable: boolean; message: string }
 	| { status: 'invalid'; field: string; message: string }
 	| { status: 'tooLarge'; limitBytes: number; message: string };
 
@@ -143,6 +151,7 @@ async function receive(req: IngestRequest, profiles: ProfileForMatching[], bodyS
 	try {
 		summary = await parseRecorderCsv(body.chunks(), mappingResolver(req, profiles), {
 			densityKgPerL: req.aircraft.densityKgPerL,
+			dropBadLines: req.dropBadLines === true,
 			onRows: async (batch) => {
 				for (const r of batch) {
 					if (!encoder.hasRoom()) await copySpool.append(encoder.take()!);
@@ -175,7 +184,10 @@ async function receive(req: IngestRequest, profiles: ProfileForMatching[], bodyS
 			status: 'rejected',
 			problems: summary.problems,
 			problemCount: summary.problemCount,
-			message: `The file was not stored: ${summary.problemCount} ${summary.problemCount === 1 ? 'problem' : 'problems'} found.`
+			droppable: summary.droppable,
+			message:
+				`The file was not stored: ${summary.problemCount} ${summary.problemCount === 1 ? 'problem' : 'problems'} found.` +
+				(summary.droppable ? ` ${summary.problemCount === 1 ? 'It is a line of its own' : 'Each is a line of its own'}: you may store the file without ${summary.problemCount === 1 ? 'it' : 'them'}.` : '')
 		};
 	}
 	return { flightId, summary, columns, sha256: body.sha256(), bytes: body.bytes, rows, lastSeq, parseMs: performance.now() - startedAt };
@@ -202,7 +214,15 @@ async function store(
 	const last = new Date(summary.lastTMs!);
 	const place = await placeUpload(db, req.aircraft, { flightId, sha256: p.sha256, first, last });
 	if (place.kind === 'duplicate')
-		return { status: 'duplicate', flightId: place.flightId, uploadId: place.uploadId, message: 'This file was uploaded for this aircraft before; here is that flight.' };
+		return {
+			status: 'duplicate',
+			flightId: place.flightId,
+			uploadId: place.uploadId,
+			inTrash: place.inTrash,
+			message: place.inTrash
+				? 'This file was uploaded for this aircraft before, and that flight is in the trash: restore it from the trash to see it again.'
+				: 'This file was uploaded for this aircraft before; here is that flight.'
+		};
 	if (place.kind === 'overlap')
 		return {
 			status: 'invalid',
@@ -278,6 +298,7 @@ function reportOf(req: IngestRequest, p: Received, computed: Computed, first: Da
 		gapCount: summary.gapCount,
 		gapTimeS: summary.gapTimeS,
 		warnings: [...computation.warnings.map((w) => w.message), ...computation.problems.slice(0, 10).map((x) => x.message)],
+		droppedLines: s.dropped,
 		parseMs: Math.round(p.parseMs),
 		storeMs: 0
 	};

@@ -2,7 +2,7 @@
 // before it is stored (the same file twice, two flights at once) and the one rule for which
 // flight is the aircraft's newest, whose shutdown fuel is the aircraft's last known fuel on board
 // (flights/summary.ts refreshes that figure with the same rule after every change).
-import { and, desc, eq, gt, isNotNull, lt, lte, ne, sql, type SQL } from 'drizzle-orm';
+import { and, desc, eq, gt, isNotNull, isNull, lt, lte, ne, or, sql, type SQL } from 'drizzle-orm';
 import type { Db } from '../db';
 import { aircraft, flights, uploads, type Aircraft } from '../db/schema';
 
@@ -53,7 +53,8 @@ export async function wouldBeNewest(q: Pick<Db, 'select'>, aircraftId: string, s
 }
 
 export type Placement =
-	| { kind: 'duplicate'; flightId: string; uploadId: string }
+	/** inTrash: that flight is in the trash (restore it there; it is not shown elsewhere). */
+	| { kind: 'duplicate'; flightId: string; uploadId: string; inTrash: boolean }
 	| { kind: 'overlap'; startedAt: Date }
 	/** `aircraft` as it is now (another upload may have moved its figures while this one waited). */
 	| { kind: 'placed'; aircraft: Aircraft; previousOnBoardL: number | null };
@@ -61,7 +62,10 @@ export type Placement =
 /**
  * Checks a new flight (row `flightId`, samples from `first` to `last`, file hash `sha256`) against
  * the aircraft's others. Call lockAircraftUploads first. A file uploaded before whose flight was
- * deleted since is no duplicate: its old upload row goes, the new one takes its place.
+ * deleted since is no duplicate: its old upload row goes, the new one takes its place. A file whose
+ * flight is in the trash is a duplicate of that flight (said so: restoring it is the way back). A
+ * file merged into another flight is a duplicate of that flight. Flights in the trash overlap
+ * nothing (restoring one checks again).
  */
 export async function placeUpload(
 	q: PlacementHandle,
@@ -69,41 +73,53 @@ export async function placeUpload(
 	upload: { flightId: string; sha256: string; first: Date; last: Date }
 ): Promise<Placement> {
 	const [dup] = await q
-		.select({ uploadId: uploads.id, flightId: flights.id })
+		.select({ uploadId: uploads.id, flightId: flights.id, deletedAt: flights.deletedAt })
 		.from(uploads)
-		.leftJoin(flights, eq(flights.uploadId, uploads.id))
+		.leftJoin(flights, or(eq(flights.uploadId, uploads.id), eq(flights.id, uploads.mergedIntoFlightId)))
 		.where(and(eq(uploads.aircraftId, a.id), eq(uploads.sha256, upload.sha256)))
+		// A kept flight first, when a split left two flights on one upload and one is in the trash.
+		.orderBy(sql`${flights.deletedAt} is not null`)
 		.limit(1);
-	if (dup?.flightId) return { kind: 'duplicate', flightId: dup.flightId, uploadId: dup.uploadId };
+	if (dup?.flightId) return { kind: 'duplicate', flightId: dup.flightId, uploadId: dup.uploadId, inTrash: dup.deletedAt !== null };
 	if (dup) await q.delete(uploads).where(eq(uploads.id, dup.uploadId));
 
 	// An aircraft flies one flight at a time.
-	const [overlap] = await q
-		.select({ startedAt: flights.startedAt })
-		.from(flights)
-		.where(
-			and(
-				eq(flights.aircraftId, a.id),
-				ne(flights.id, upload.flightId),
-				lte(flights.startedAt, upload.last),
-				sql`coalesce(${flights.endedAt}, ${flights.lastSampleAt}, ${flights.startedAt}) >= ${upload.first}`
-			)
-		)
-		.limit(1);
+	const overlap = await overlappingFlight(q, a.id, upload.flightId, upload.first, upload.last);
 	if (overlap) return { kind: 'overlap', startedAt: overlap.startedAt };
 
 	const [current] = await q.select().from(aircraft).where(eq(aircraft.id, a.id)).limit(1);
 	const ac = current ?? a;
 	const newest = await wouldBeNewest(q, a.id, upload.first, upload.flightId);
-	// The flight just before this one, whatever its state.
+	// The flight just before this one, open or closed (not one in the trash, which keeps no figures).
 	const before = await q
 		.select({ onBoardL: sql<number | null>`(${flights.summary}->>'onBoardAtShutdownL')::float8` })
 		.from(flights)
-		.where(and(eq(flights.aircraftId, a.id), ne(flights.id, upload.flightId), lt(flights.startedAt, upload.first)))
+		.where(and(eq(flights.aircraftId, a.id), ne(flights.id, upload.flightId), isNull(flights.deletedAt), lt(flights.startedAt, upload.first)))
 		.orderBy(desc(flights.startedAt))
 		.limit(1);
 	const previousFlightL = before[0]?.onBoardL ?? null;
 	// The aircraft's own figure is "after its newest flight": it describes the time before this one
 	// only when this one becomes the newest.
 	return { kind: 'placed', aircraft: ac, previousOnBoardL: newest ? (ac.lastOnBoardL ?? previousFlightL) : previousFlightL };
+}
+
+/**
+ * A flight of the aircraft, out of the trash and other than `except`, whose time overlaps
+ * [first, last]: an aircraft flies one flight at a time. Upload and restoring from the trash ask.
+ */
+export async function overlappingFlight(q: Pick<Db, 'select'>, aircraftId: string, except: string, first: Date, last: Date): Promise<{ id: string; startedAt: Date } | null> {
+	const [overlap] = await q
+		.select({ id: flights.id, startedAt: flights.startedAt })
+		.from(flights)
+		.where(
+			and(
+				eq(flights.aircraftId, aircraftId),
+				ne(flights.id, except),
+				isNull(flights.deletedAt),
+				lte(flights.startedAt, last),
+				sql`coalesce(${flights.endedAt}, ${flights.lastSampleAt}, ${flights.startedAt}) >= ${first}`
+			)
+		)
+		.limit(1);
+	return overlap ?? null;
 }

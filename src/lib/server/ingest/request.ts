@@ -59,6 +59,8 @@ export const uploadFieldsSchema = z.object({
 	timeDate: optionalText(10),
 	timeStart: optionalText(40),
 	title: optionalText(120),
+	/** "1": store the file without its bad lines (up to MAX_DROPPED_LINES), never by default. */
+	dropBadLines: z.enum(['', '0', '1'], 'Send dropBadLines as 1 (leave bad lines out) or 0.').optional(),
 	notes: optionalText(4000),
 	fileName: optionalText(255)
 });
@@ -71,6 +73,7 @@ export interface UploadFields {
 	timeBase: { date?: string; start?: string };
 	title?: string;
 	notes?: string;
+	dropBadLines: boolean;
 }
 
 /** Checks the fields; an UploadRequestError names every field that is wrong. */
@@ -92,7 +95,8 @@ export function checkFields(raw: Record<string, string>): UploadFields {
 		profileId: f.profileId ?? null,
 		timeBase: { date: f.timeDate || undefined, start: f.timeStart || undefined },
 		title: f.title,
-		notes: f.notes
+		notes: f.notes,
+		dropBadLines: f.dropBadLines === '1'
 	};
 }
 

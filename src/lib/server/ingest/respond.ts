@@ -35,9 +35,13 @@ function answerOf(result: IngestResult, slug: string): { httpStatus: number; bod
 				body: { outcome: 'stored', flightId: result.flightId, uploadId: result.uploadId, url: url(result.flightId), rows: result.report.rows, report: result.report, summary: result.summary }
 			};
 		case 'duplicate':
-			return { httpStatus: 200, body: { outcome: 'duplicate', flightId: result.flightId, uploadId: result.uploadId, url: url(result.flightId), message: result.message } };
+			// A flight in the trash has no page of its own: the answer points to the trash.
+			return {
+				httpStatus: 200,
+				body: { outcome: 'duplicate', flightId: result.flightId, uploadId: result.uploadId, url: result.inTrash ? `/o/${slug}/trash` : url(result.flightId), inTrash: result.inTrash, message: result.message }
+			};
 		case 'rejected':
-			return refusal(400, 'rejected', result.message, { problems: result.problems, problemCount: result.problemCount });
+			return refusal(400, 'rejected', result.message, { problems: result.problems, problemCount: result.problemCount, droppable: result.droppable });
 		case 'invalid':
 			return refusal(result.field === 'file' ? 409 : 400, 'invalid', result.message, { field: result.field }, { [result.field]: result.message });
 		case 'tooLarge':
@@ -110,6 +114,7 @@ export async function handleUpload(event: Pick<RequestEvent, 'request' | 'url' |
 				timeBase: fields.timeBase,
 				title: fields.title,
 				notes: fields.notes,
+				dropBadLines: fields.dropBadLines,
 				onProgress
 			}).finally(finish);
 

@@ -1,6 +1,7 @@
 import { can, mayOnFlight } from '$lib/permissions';
 import { requireFlight, requireMember } from '$lib/server/access';
 import { emptyTrash, restoreFlight, trashedFlights } from '$lib/server/flights/trash';
+import { failForm } from '$lib/schemas/form';
 import type { Actions, PageServerLoad } from './$types';
 
 // The flights in the trash that this member may restore (those they could edit), and for an
@@ -20,7 +21,8 @@ export const actions = {
 	restore: async (event) => {
 		const id = String((await event.request.formData()).get('id') ?? '');
 		const { flight } = await requireFlight(event, event.params.org, id, 'edit', 'trashed');
-		await restoreFlight(flight);
+		const done = await restoreFlight(flight);
+		if (!done.ok) return failForm(409, { [done.field]: done.message }, { id }, 'restore');
 		return { action: 'restore', restored: flight.id };
 	},
 	empty: async (event) => {

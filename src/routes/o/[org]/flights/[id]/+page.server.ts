@@ -11,7 +11,9 @@ import { loadEvents } from '$lib/server/flights/load';
 import { listNotes } from '$lib/server/flights/notes';
 import { flightPeople } from '$lib/server/flights/people';
 import { can } from '$lib/permissions';
-import { declarationFormSchema, declarationFormValues, flightDetailsFormSchema, fuelEventFormSchema, idFormSchema, noteEditFormSchema, noteFormSchema, reasonFormSchema } from '$lib/schemas/flight';
+import { declarationFormSchema, declarationFormValues, flightDetailsFormSchema, fuelEventFormSchema, idFormSchema, mergeFormSchema, noteEditFormSchema, noteFormSchema, reasonFormSchema, splitFormSchema } from '$lib/schemas/flight';
+import { mergeFlights, mergeNeighbours, splitFlight } from '$lib/server/flights/split';
+import { droppedLinesOf } from '$lib/server/flights/upload-report';
 import { peopleChoices, saveDetails } from '$lib/server/flights/details';
 import { trashFlight } from '$lib/server/flights/trash';
 import { redirect } from '@sveltejs/kit';
@@ -23,14 +25,15 @@ import type { Actions, PageServerLoad } from './$types';
 export const load = (async (event) => {
 	const ctx = await requireFlight(event, event.params.org, event.params.id, 'view');
 	const { flight, user, role } = ctx;
-	const [a, events, corrections, notes, plan, debrief, people] = await Promise.all([
+	const [a, events, corrections, notes, plan, debrief, people, droppedLines] = await Promise.all([
 		aircraftOf(flight),
 		loadEvents(flight.id),
 		listCorrections(flight.id),
 		listNotes(flight.id),
 		planOfFlight(flight.id),
 		debriefOf(flight.id),
-		flightPeople(flight)
+		flightPeople(flight),
+		droppedLinesOf(flight)
 	]);
 	const mayEdit = mayOnFlight(ctx, flight, 'edit');
 	const unit = user.prefFuelUnit ?? a.displayUnit;
@@ -59,12 +62,15 @@ export const load = (async (event) => {
 		events: events.map((e) => ({ id: e.id, t: e.t.getTime() / 1000, kind: e.kind, amountL: e.amountL, note: e.note })),
 		notes,
 		corrections,
+		droppedLines,
 		plan,
 		debriefStatus: debrief.status,
 		declarationValues: declarationFormValues(flight.declaration as Declaration, flight.previousOnBoardL, unit, a.densityKgPerL),
 		unit,
 		// Who can be chosen, only for those who may change the details.
 		people: mayEdit ? await peopleChoices(flight.orgId) : null,
+		// The aircraft's flights just before and after, to merge with (for those who may edit).
+		neighbours: mayEdit && flight.status === 'closed' ? await mergeNeighbours(flight) : null,
 		may: {
 			edit: mayEdit,
 			setPilot: mayOnFlight(ctx, flight, 'setPilot'),
@@ -82,6 +88,26 @@ export const actions = {
 		const done = await trashFlight(flight, user.id);
 		if (!done.ok) return failForm(409, { [done.field]: done.message }, {}, 'trash');
 		redirect(303, `/o/${org.slug}/trash?moved=${flight.id}`);
+	},
+	// Cuts the flight at one of its stops into two flights (the page asks first).
+	split: async (event) => {
+		const { flight, org } = await requireFlight(event, event.params.org, event.params.id, 'edit');
+		const form = parseForm(splitFormSchema, await event.request.formData());
+		if (!form.ok) return failForm(400, form.errors, form.values, 'split');
+		const done = await splitFlight(flight, form.data.stop);
+		if (!done.ok) return failForm(done.status, { stop: done.message }, form.values, 'split');
+		redirect(303, `/o/${org.slug}/flights/${done.flightIds[0]}?split=${done.flightIds[1]}`);
+	},
+	// Joins this flight and another of the same aircraft into the earlier one (the page asks first).
+	merge: async (event) => {
+		const { flight, org } = await requireFlight(event, event.params.org, event.params.id, 'edit');
+		const form = parseForm(mergeFormSchema, await event.request.formData());
+		if (!form.ok) return failForm(400, form.errors, form.values, 'merge');
+		// The other flight needs the same right: it disappears into this one (or this one into it).
+		const other = await requireFlight(event, event.params.org, form.data.otherId, 'edit');
+		const done = await mergeFlights(flight, other.flight);
+		if (!done.ok) return failForm(done.status, { otherId: done.message }, form.values, 'merge');
+		redirect(303, `/o/${org.slug}/flights/${done.flightId}?merged=1`);
 	},
 	details: async (event) => {
 		const ctx = await requireFlight(event, event.params.org, event.params.id, 'edit');

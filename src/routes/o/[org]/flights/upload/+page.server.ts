@@ -4,6 +4,7 @@ import { z } from 'zod';
 import { requireMember } from '$lib/server/access';
 import { listImportProfiles, saveImportProfile } from '$lib/server/ingest/profiles';
 import { listAircraft } from '$lib/server/services/aircraft';
+import { usualAircraftOf } from '$lib/server/flights/list';
 import { failForm, parseForm } from '$lib/schemas/form';
 import { plainText } from '$lib/schemas/text';
 import { MAX_UPLOAD_BYTES, MAX_UPLOAD_LABEL, columnMappingSchema } from '$lib/csv';
@@ -11,8 +12,8 @@ import type { Actions, PageServerLoad } from './$types';
 
 // Aircraft with what the declaration needs; profiles with what matching needs.
 export const load = (async (event) => {
-	const { org } = await requireMember(event, event.params.org, 'upload');
-	const [fleet, profiles] = await Promise.all([listAircraft(org.id), listImportProfiles(org.id)]);
+	const { org, user } = await requireMember(event, event.params.org, 'upload');
+	const [fleet, profiles, usual] = await Promise.all([listAircraft(org.id), listImportProfiles(org.id), usualAircraftOf(org.id, user.id)]);
 	return {
 		fleet: fleet.map((a) => ({
 			id: a.id,
@@ -26,7 +27,8 @@ export const load = (async (event) => {
 			lastOnBoardL: a.lastOnBoardL
 		})),
 		profiles,
-		preselect: event.url.searchParams.get('aircraft'),
+		// The aircraft asked for in the address, else the one of the member's latest flight.
+		preselect: event.url.searchParams.get('aircraft') ?? usual,
 		maxBytes: MAX_UPLOAD_BYTES,
 		maxLabel: MAX_UPLOAD_LABEL
 	};

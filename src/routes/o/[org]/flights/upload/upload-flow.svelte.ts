@@ -59,6 +59,12 @@ export class UploadFlow {
 	server = $state<ServerProgress | null>(null);
 	outcome = $state<UploadOutcome | null>(null);
 	failure = $state('');
+	/** Files chosen together, after the one in the steps; sent one after another. */
+	queue = $state.raw<File[]>([]);
+	/** The answer for each file sent so far when several were chosen, in order. */
+	reports = $state.raw<{ name: string; outcome: UploadOutcome | null; failure: string }[]>([]);
+	/** Why the queue stopped before its end (a file whose columns need choosing). */
+	queueNote = $state('');
 	private abortUpload: (() => void) | null = null;
 
 	readonly preview = $derived(this.sample ? previewCsv(this.sample, { whole: this.whole, delimiter: this.mode === 'manual' && this.draft ? this.draft.delimiter : undefined }) : null);
@@ -94,9 +100,18 @@ export class UploadFlow {
 		return `${count(n)} ${n === 1 ? 'problem' : 'problems'} ${this.whole ? 'in this file' : 'in its first part'}${listed}. Burndown stores nothing of a file with problems: correct the file or the column mapping first.`;
 	});
 
-	readonly ready = $derived(
-		!!this.file && !this.fileError && !!this.ac && !!this.chosen && 'mapping' in this.chosen && this.phase !== 'sending' && (!needsAmount(this.kind) || this.amount.trim() !== '')
-	);
+	/** Why the upload button is disabled, said beside it; null when it is enabled. */
+	readonly notReady = $derived.by((): string | null => {
+		if (this.phase === 'sending') return 'Sending: wait for the answer, or cancel.';
+		if (!this.ac) return 'Choose the aircraft in step 1.';
+		if (!this.file) return 'Choose a recorder file in step 1.';
+		if (this.fileError) return this.fileError;
+		if (!this.chosen) return 'Set how the columns are read in step 2.';
+		if ('error' in this.chosen) return `Step 2: ${this.chosen.error}`;
+		if (needsAmount(this.kind) && this.amount.trim() === '') return 'Enter the amount of fuel in step 3.';
+		return null;
+	});
+	readonly ready = $derived(this.notReady === null);
 
 	readonly serverPercent = $derived.by(() => {
 		if (this.outcome) return 100;
@@ -150,7 +165,16 @@ export class UploadFlow {
 
 	chooseFile = async (e: Event): Promise<void> => {
 		const input = e.currentTarget as HTMLInputElement;
-		const f = input.files?.[0] ?? null;
+		const all = Array.from(input.files ?? []);
+		this.queue = all.slice(1);
+		this.reports = [];
+		this.queueNote = '';
+		this.title = '';
+		await this.loadFile(all[0] ?? null);
+	};
+
+	/** Puts one file into the steps: its preview, and how its columns are read. */
+	private async loadFile(f: File | null): Promise<void> {
 		const { maxBytes, maxLabel } = this.data();
 		this.reset();
 		this.file = f;
@@ -174,7 +198,12 @@ export class UploadFlow {
 		} else this.mode = 'manual';
 		this.draft = match ? draftFromMapping(match.mapping) : draftFromPreview(p);
 		if (!this.title) this.title = f.name.replace(/\.(csv|txt|log)$/i, '');
-	};
+	}
+
+	/** How many files were chosen together (1 for a single file). */
+	get fileCount(): number {
+		return this.reports.length + (this.file ? 1 : 0) + this.queue.length;
+	}
 
 	/** A profile the page saved: listed A to Z, chosen, and applied. */
 	profileSaved(saved: Profile): void {
@@ -192,7 +221,8 @@ export class UploadFlow {
 		this.total = 0;
 	}
 
-	upload = async (): Promise<void> => {
+	/** Sends the file; with dropBadLines only after the uploader chose to leave its bad lines out. */
+	upload = async (opts: { dropBadLines?: boolean } = {}): Promise<void> => {
 		const { file, ac, chosen, profile } = this;
 		if (!file || !ac || !chosen || !('mapping' in chosen)) return;
 		this.reset();
@@ -210,6 +240,7 @@ export class UploadFlow {
 		}
 		if (this.title.trim()) fd.set('title', this.title.trim());
 		if (this.notes.trim()) fd.set('notes', this.notes.trim());
+		if (opts.dropBadLines === true) fd.set('dropBadLines', '1');
 		// The fields go first: the server reads them before the file streams in.
 		fd.set('file', file, file.name);
 		const req = sendUpload('/api/v1/flights', fd, {
@@ -220,19 +251,44 @@ export class UploadFlow {
 			onServer: (p) => (this.server = p)
 		});
 		this.abortUpload = req.abort;
+		let outcome: UploadOutcome | null = null;
 		try {
-			const outcome = await req.done;
+			outcome = await req.done;
 			this.outcome = outcome;
 			this.phase = 'finished';
-			if (outcome.body.outcome === 'stored') await goto(outcome.body.url);
-			else if (outcome.body.outcome === 'duplicate') await goto(`${outcome.body.url}?duplicate=1`);
 		} catch (e) {
 			this.failure = (e as Error).message;
 			this.phase = 'finished';
 		} finally {
 			this.abortUpload = null;
 		}
+		const several = this.queue.length > 0 || this.reports.length > 0;
+		if (!several) {
+			// One file: straight to its flight.
+			if (outcome?.body.outcome === 'stored') await goto(outcome.body.url);
+			else if (outcome?.body.outcome === 'duplicate' && !outcome.body.inTrash) await goto(`${outcome.body.url}?duplicate=1`);
+			return;
+		}
+		// Several files: each answer is kept as that file's report, and the next one follows.
+		this.reports = [...this.reports, { name: file.name, outcome, failure: this.failure }];
+		await this.next();
 	};
+
+	/**
+	 * The next file of the queue into the steps, sent at once when its columns read as the last
+	 * file's did. A later file starts "unchanged since the last flight" when the aircraft has one
+	 * (on the server that is the flight before it, often the file just sent).
+	 */
+	private async next(): Promise<void> {
+		const [f, ...rest] = this.queue;
+		this.queue = rest;
+		this.title = '';
+		await this.loadFile(f ?? null);
+		if (!f) return;
+		if (this.lastKnown !== null) this.kind = 'unchanged';
+		if (this.ready) await this.upload();
+		else this.queueNote = `${f.name} waits: ${this.notReady ?? ''}`;
+	}
 
 	cancel = (): void => {
 		this.abortUpload?.();

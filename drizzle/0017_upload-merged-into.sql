@@ -1,0 +1,2 @@
+ALTER TABLE "uploads" ADD COLUMN "merged_into_flight_id" uuid;--> statement-breakpoint
+ALTER TABLE "uploads" ADD CONSTRAINT "uploads_merged_into_flight_id_flights_id_fk" FOREIGN KEY ("merged_into_flight_id") REFERENCES "public"."flights"("id") ON DELETE set null ON UPDATE no action;
