@@ -13,6 +13,7 @@ import {
 	FLAG_GAP_FILLED,
 	FLAG_REJECTED,
 	type AlarmKind,
+	type BandPosition,
 	type BaselinePhase,
 	type CruiseBasis,
 	type FuelEventKind,
@@ -20,6 +21,7 @@ import {
 	type VerdictState
 } from '$lib/fuel';
 import type { DebriefStatus, PlanImportFormat } from '$lib/wire/plan';
+import type { RecomputeReason } from '$lib/wire/recompute';
 
 export const debriefStatusLabels: Record<DebriefStatus, string> = {
 	draft: 'Draft — not yet shown to the student',
@@ -133,5 +135,19 @@ export function gapTitle(g: { kind: 'time' | 'flow'; start: number; end: number;
 export const calibrationSourceLabels = {
 	reconciliation: 'From a reconciliation with fuel pumped',
 	hand: 'Set by hand',
-	initial: 'Factors before dated history'
+	initial: 'Factors before dated history',
+	rangeEnd: 'End of a dated range: the factors before it again'
 } as const;
+
+/** What asked for a recompute of an aircraft's flights (wire/recompute.ts). */
+export const recomputeReasonLabels = {
+	calibration: 'New factors applied to past flights',
+	aircraft: 'Aircraft fuel profile changed'
+} as const satisfies Record<RecomputeReason, string>;
+
+/** A month's fuel per engine hour against the aircraft's usual band (fuel/baseline.ts). */
+export const bandPositionLabels = {
+	below: 'below usual',
+	within: 'within usual',
+	above: 'above usual'
+} as const satisfies Record<BandPosition, string>;
