@@ -22,7 +22,8 @@ export const GET: RequestHandler = async (event) => {
 	const headers = { 'cache-control': 'private, no-store', 'x-sample-count': String(data.count) };
 	const res =
 		query.data.format === 'binary'
-			? await maybeGzip(event.request, encodeBinary(data), { ...headers, 'content-type': BINARY_CONTENT_TYPE })
+			? // The fastest gzip level: the columns shrink about as well, in a fraction of the time.
+				await maybeGzip(event.request, encodeBinary(data), { ...headers, 'content-type': BINARY_CONTENT_TYPE }, 1)
 			: await maybeGzip(event.request, JSON.stringify(encodeJson(data)), { ...headers, 'content-type': 'application/json' });
 	// The server's own time (W3C Server Timing): reading the flight, then encoding (and gzip).
 	const t2 = performance.now();
