@@ -242,7 +242,7 @@ try {
 		const hwm = kb('VmHWM');
 		if (!res.ok || !/"type":"success"/.test(body)) throw new Error(`the factors action answered ${res.status}: ${body.slice(0, 300)}`);
 		log(
-			`recompute all ${FLIGHTS} flights after a new meter factor (the calibration page's action, one transaction): ${(took / 1000).toFixed(1)} s, ${(took / FLIGHTS).toFixed(1)} ms a flight (target ≤ 15 s: ratio ${(took / 15000).toFixed(2)}); progress seen while it ran: ${seen.length ? seen.join(', ') : 'none (too quick to poll)'}`
+			`recompute all ${FLIGHTS} flights after a new meter factor (the calibration page's action, one transaction): ${(took / 1000).toFixed(1)} s, ${(took / FLIGHTS).toFixed(1)} ms a flight (target ≤ 15 s: ratio ${(took / 15000).toFixed(2)}); progress polled once a second while it ran: ${seen.length === 0 ? 'none (too quick to poll)' : seen.length <= 6 ? seen.join(', ') : `${seen.slice(0, 3).join(', ')} … ${seen.slice(-2).join(', ')} (${seen.length} polls)`}`
 		);
 		log(`server memory during the recompute: RSS ${mib(rssBefore)} before, peak ${mib(rssPeak)} (sampled every 50 ms); process high-water VmHWM ${mib(hwm)} (since the app started, the replay page included)`);
 	}

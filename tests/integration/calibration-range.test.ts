@@ -18,7 +18,7 @@ import { generateFlight, insertFlight } from './replay-fixture';
 import { formOf, routeEvent } from './route-event';
 
 const stamp = Date.now().toString(36);
-const person = (key: string, name: string) => ({ id: `cr-${key}-${stamp}`, email: `${key}-${stamp}@range.example`, name, prefFuelUnit: null });
+const person = (key: string, name: string) => ({ id: `cr-${key}-${stamp}`, email: `${key}-${stamp}@range.example`, name, prefFuelUnit: null, timeZone: null });
 const U = { admin: person('admin', 'Ada Admin'), pilot: person('pilot', 'Pia Pilot'), viewer: person('viewer', 'Vic Viewer') };
 const day = (d: number) => Date.UTC(2025, 8, d, 9) / 1000;
 const minute = (epochS: number) => new Date(epochS * 1000).toISOString().slice(0, 16);

@@ -17,7 +17,7 @@ import { insertFlight, type FixtureSamples } from './replay-fixture';
 import { routeEvent } from './route-event';
 
 const stamp = Date.now().toString(36);
-const person = (key: string, name: string) => ({ id: `fl-${key}-${stamp}`, email: `${key}-${stamp}@fleet.example`, name, prefFuelUnit: null });
+const person = (key: string, name: string) => ({ id: `fl-${key}-${stamp}`, email: `${key}-${stamp}@fleet.example`, name, prefFuelUnit: null, timeZone: null });
 const U = { admin: person('admin', 'Ada Admin'), pilot: person('pilot', 'Pia Pilot'), other: person('other', 'Otto Other'), viewer: person('viewer', 'Vic Viewer') };
 
 let orgId = '';
