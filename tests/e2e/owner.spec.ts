@@ -142,6 +142,9 @@ test('the owner records two fills, reconciles, applies the factor and sees the f
 	const fleetAfter = await fleetOf();
 	expect(Math.abs(fleetAfter.fuel - fleetBefore.fuel - (parseFloat(after) - parseFloat(before)))).toBeLessThanOrEqual(0.15);
 	expect(fleetAfter.factors).toContain(`meter factor ${Number(proposed).toFixed(4)}`);
+	// And the aircraft's history shows the flight's new figure, as the flights list does.
+	await page.goto(`/o/${DEMO_ORG}/aircraft/${DEMO_AIRCRAFT.trainer}/history`);
+	await expect(page.getByTestId('history-row').filter({ hasText: LONG }).getByTestId('history-used')).toHaveText(after);
 
 	// Back by hand, dated from the same time: the history keeps both, the figures return.
 	await page.goto(`/o/${DEMO_ORG}/aircraft/${DEMO_AIRCRAFT.trainer}/reconciliation`);
