@@ -153,7 +153,7 @@ test('the owner records two fills, reconciles, applies the factor and sees the f
 	await hand.getByLabel('In force from (UTC)').fill('2026-07-11T08:00');
 	await hand.getByRole('button', { name: 'Preview' }).click();
 	// The flights of other tests since that day (a live flight, uploads) are covered too.
-	await expect(hand.getByTestId('factors-preview')).toContainText(/^Would save: meter factor [\d.]+ → 1\.0000, .* for the \d+ flights? started from 2026-07-11 08:00 on/);
+	await expect(hand.getByTestId('factors-preview')).toContainText(/^Would save: meter factor [\d.]+ → 1\.0000, .* for the \d+ flights? started from 2026-07-11 08:00 UTC on/);
 	const n = /the (\d+) flights?/.exec(await hand.getByTestId('factors-preview').innerText())![1];
 	await hand.getByTestId('factors-confirm').click();
 	await expect(hand.getByTestId('factors-preview')).toContainText(new RegExp(`^Saved: .* ${n} flights? recomputed`));
