@@ -13,6 +13,7 @@ import {
 	FLAG_GAP_FILLED,
 	FLAG_REJECTED,
 	type AlarmKind,
+	type BandPosition,
 	type BaselinePhase,
 	type CruiseBasis,
 	type FuelEventKind,
@@ -21,6 +22,7 @@ import {
 	type VerdictState
 } from '$lib/fuel';
 import type { DebriefStatus, PlanImportFormat } from '$lib/wire/plan';
+import type { RecomputeReason } from '$lib/wire/recompute';
 import type { ApiTokenScope } from '$lib/permissions';
 
 /**
@@ -199,8 +201,22 @@ export const flowOverEngineTime = (engineTime: string): string => `over ${engine
 export const calibrationSourceLabels = {
 	reconciliation: 'From a reconciliation with fuel pumped',
 	hand: 'Set by hand',
-	initial: 'Factors before dated history'
+	initial: 'Factors before dated history',
+	rangeEnd: 'End of a dated range: the factors before it again'
 } as const;
+
+/** What asked for a recompute of an aircraft's flights (wire/recompute.ts). */
+export const recomputeReasonLabels = {
+	calibration: 'New factors applied to past flights',
+	aircraft: 'Aircraft fuel profile changed'
+} as const satisfies Record<RecomputeReason, string>;
+
+/** A month's fuel per engine hour against the aircraft's usual band (fuel/baseline.ts). */
+export const bandPositionLabels = {
+	below: 'below usual',
+	within: 'within usual',
+	above: 'above usual'
+} as const satisfies Record<BandPosition, string>;
 
 /** The time-zone preference on the account page. */
 export const timeZoneWords = {

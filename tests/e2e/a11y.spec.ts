@@ -30,6 +30,8 @@ const PAGES: Record<DemoRole | 'anonymous', string[]> = {
 		`${o}/flights`,
 		`{xc}`,
 		`${o}/aircraft`,
+		// The fleet view in a month with demo flights (high-burn marks, band positions).
+		`${o}/aircraft?month=2026-07`,
 		`${o}/aircraft/${DEMO_AIRCRAFT.trainer}`,
 		`${o}/aircraft/${DEMO_AIRCRAFT.trainer}/history`,
 		`${o}/aircraft/${DEMO_AIRCRAFT.trainer}/reconciliation`,
@@ -43,7 +45,7 @@ const PAGES: Record<DemoRole | 'anonymous', string[]> = {
 	instructor: [o, `${o}/students`, `${o}/plans/new`, `{xc}/plan`, `{xc}/debrief`, `{long}/live`],
 	pilot: [o, `${o}/flights`, `{leaned}`],
 	student: [o, `{xc}/debrief`],
-	viewer: [o, `${o}/flights`, `{leaned}`, `${o}/aircraft/${DEMO_AIRCRAFT.trainer}/history`],
+	viewer: [o, `${o}/flights`, `{leaned}`, `${o}/aircraft?month=2026-07`, `${o}/aircraft/${DEMO_AIRCRAFT.trainer}/history`],
 	other: ['/orgs']
 };
 

@@ -52,6 +52,8 @@ const MATRIX: Row[] = [
 	{ route: '/dev/mailbox', method: 'GET', path: () => '/dev/mailbox', expect: anyone(200) },
 	{ route: '/o/[org]', method: 'GET', path: () => O, expect: members(200) },
 	{ route: '/o/[org]/aircraft', method: 'GET', path: () => `${O}/aircraft`, expect: members(200) },
+	// The fleet view of a past month: every member, the maintenance viewer included.
+	{ route: '/o/[org]/aircraft', method: 'GET', path: () => `${O}/aircraft?month=2026-07`, expect: members(200) },
 	{ route: '/o/[org]/aircraft/new', method: 'GET', path: () => `${O}/aircraft/new`, expect: only(['admin'], 200) },
 	{ route: '/o/[org]/aircraft/new', method: 'POST', path: () => `${O}/aircraft/new`, form: { registration: '' }, expect: only(['admin'], 400) },
 	{ route: '/o/[org]/aircraft/[id]', method: 'GET', path: () => `${O}/aircraft/${DEMO_AIRCRAFT.trainer}`, expect: members(200) },
@@ -72,6 +74,9 @@ const MATRIX: Row[] = [
 	{ route: '/o/[org]/aircraft/[id]/reconciliation', method: 'POST', path: () => `${O}/aircraft/${DEMO_AIRCRAFT.trainer}/reconciliation?/deleteReceipt`, form: { receiptId: '' }, expect: only(['admin'], 400) },
 	{ route: '/o/[org]/aircraft/[id]/reconciliation', method: 'POST', path: () => `${O}/aircraft/${DEMO_AIRCRAFT.trainer}/reconciliation?/apply`, form: { from: '' }, expect: only(['admin'], 400) },
 	{ route: '/o/[org]/aircraft/[id]/reconciliation', method: 'POST', path: () => `${O}/aircraft/${DEMO_AIRCRAFT.trainer}/reconciliation?/factors`, form: { meterFactor: '' }, expect: only(['admin'], 400) },
+	// The progress of the aircraft's newest recompute, polled by the calibration page.
+	{ route: '/o/[org]/aircraft/[id]/recompute', method: 'GET', path: () => `${O}/aircraft/${DEMO_AIRCRAFT.trainer}/recompute`, expect: only(['admin', 'instructor', 'viewer'], 200) },
+	{ route: '/o/[org]/aircraft/[id]/recompute', method: 'GET', path: () => `${O}/aircraft/${DEMO_AIRCRAFT.otherOrg}/recompute`, expect: { ...members(404), anonymous: 303 } },
 	{ route: '/o/[org]/members', method: 'GET', path: () => `${O}/members`, expect: only(['admin'], 200) },
 	{ route: '/o/[org]/members', method: 'POST', path: () => `${O}/members?/invite`, form: { email: 'not-an-address', role: 'pilot' }, expect: only(['admin'], 400) },
 	{ route: '/o/[org]/members', method: 'POST', path: () => `${O}/members?/role`, form: { userId: '', role: 'admin' }, expect: only(['admin'], 400) },

@@ -36,6 +36,39 @@ test('the owner sees the rich trip marked, and its difference from the leaned tr
 	await page.screenshot({ path: 'test-results/owner-compare-rich-leaned.png', fullPage: true });
 });
 
+test('the owner sees the fleet side by side for a month, with the rich trip counted as marked', async ({ page }) => {
+	await signIn(page, DEMO_USERS.admin);
+	await page.goto(`/o/${DEMO_ORG}`);
+	await page.getByTestId('fleet-month-link').click();
+	await expect(page.getByTestId('fleet-month')).toContainText('(calendar month, UTC)');
+	// The demo's trainer trips of July 2026, the rich one among them.
+	await page.goto(`/o/${DEMO_ORG}/aircraft?month=2026-07`);
+	await expect(page.getByTestId('fleet-month')).toContainText('July 2026');
+	const trainer = page.getByTestId('fleet-row').filter({ hasText: 'BD-KTR' });
+	await expect(trainer.getByTestId('fleet-flights')).toHaveText(/^[1-9]\d*$/);
+	await expect(trainer.getByTestId('fleet-hours')).toHaveText(/^\d+:\d\d$/);
+	await expect(trainer.getByTestId('fleet-fuel')).toHaveText(/^[\d.]+ US gal$/);
+	await expect(trainer.getByTestId('fleet-per-hour')).toContainText(/[\d.]+ US gal\/h/);
+	await expect(trainer.getByTestId('fleet-band')).toContainText(/[\d.]+ US gal\/h – [\d.]+ US gal\/h/);
+	await expect(trainer.getByTestId('fleet-marked')).not.toHaveText('0');
+	await expect(trainer.getByTestId('fleet-factors')).toContainText(/meter factor \d\.\d{4}/);
+	// The demo's receipts hold two fills to full: a reconciliation is the last check.
+	await expect(trainer.getByTestId('fleet-checked')).toContainText('reconciled with fuel pumped');
+	await page.screenshot({ path: 'test-results/owner-fleet.png', fullPage: true });
+	// A month back, and on to the aircraft's history.
+	await page.getByTestId('fleet-previous-month').click();
+	await expect(page.getByTestId('fleet-month')).toContainText('June 2026');
+	await page.getByTestId('fleet-row').filter({ hasText: 'BD-KTR' }).getByTestId('fleet-history-link').click();
+	await expect(page.getByTestId('history-table')).toBeVisible();
+});
+
+test('the maintenance viewer reads the fleet view', async ({ page }) => {
+	await signIn(page, DEMO_USERS.viewer);
+	await page.goto(`/o/${DEMO_ORG}/aircraft?month=2026-07`);
+	await expect(page.getByTestId('fleet-row').filter({ hasText: 'BD-KTR' }).getByTestId('fleet-marked')).not.toHaveText('0');
+	await expect(page.getByRole('link', { name: 'Add aircraft' })).toHaveCount(0);
+});
+
 test('the maintenance viewer reads the history and gets no forms to change it', async ({ page }) => {
 	await signIn(page, DEMO_USERS.viewer);
 	await page.goto(`/o/${DEMO_ORG}/aircraft/${DEMO_AIRCRAFT.trainer}/history`);
@@ -51,8 +84,15 @@ test('the owner records two fills, reconciles, applies the factor and sees the f
 		const row = page.getByTestId('flight-row').filter({ hasText: LONG });
 		return (await row.getByTestId('flight-used').textContent())?.trim() ?? '';
 	};
+	// The fleet's July figures for the trainer, where the long way round was flown.
+	const fleetOf = async () => {
+		await page.goto(`/o/${DEMO_ORG}/aircraft?month=2026-07`);
+		const row = page.getByTestId('fleet-row').filter({ hasText: 'BD-KTR' });
+		return { fuel: parseFloat((await row.getByTestId('fleet-fuel').innerText()).trim()), factors: (await row.getByTestId('fleet-factors').innerText()).trim() };
+	};
 	await signIn(page, DEMO_USERS.admin);
 	const before = await usedInList();
+	const fleetBefore = await fleetOf();
 	await page.goto(`/o/${DEMO_ORG}/aircraft/${DEMO_AIRCRAFT.trainer}`);
 	await page.getByTestId('aircraft-reconciliation-link').click();
 	// The demo's own receipts already make one reconciliation.
@@ -97,17 +137,33 @@ test('the owner records two fills, reconciles, applies the factor and sees the f
 	};
 	expect(Number(await factorOf(LONG))).toBeCloseTo(Number(proposed), 4);
 	expect(await factorOf('Merrow and back, leaned in cruise')).toBe('1.0000');
+	// The fleet view agrees: its month moved by what the flight moved (each shown to 0.1), and it
+	// names the factor now in force.
+	const fleetAfter = await fleetOf();
+	expect(Math.abs(fleetAfter.fuel - fleetBefore.fuel - (parseFloat(after) - parseFloat(before)))).toBeLessThanOrEqual(0.15);
+	expect(fleetAfter.factors).toContain(`meter factor ${Number(proposed).toFixed(4)}`);
+	// And the aircraft's history shows the flight's new figure, as the flights list does.
+	await page.goto(`/o/${DEMO_ORG}/aircraft/${DEMO_AIRCRAFT.trainer}/history`);
+	await expect(page.getByTestId('history-row').filter({ hasText: LONG }).getByTestId('history-used')).toHaveText(after);
 
 	// Back by hand, dated from the same time: the history keeps both, the figures return.
 	await page.goto(`/o/${DEMO_ORG}/aircraft/${DEMO_AIRCRAFT.trainer}/reconciliation`);
 	const hand = page.getByTestId('factors-form');
 	await hand.getByLabel('Meter factor').fill('1');
 	await hand.getByLabel('In force from (UTC)').fill('2026-07-11T08:00');
-	await hand.getByRole('button', { name: 'Save to the history' }).click();
+	await hand.getByRole('button', { name: 'Preview' }).click();
 	// The flights of other tests since that day (a live flight, uploads) are covered too.
-	await expect(hand.getByRole('status')).toContainText(/\d+ flights? recomputed/);
+	await expect(hand.getByTestId('factors-preview')).toContainText(/^Would save: meter factor [\d.]+ → 1\.0000, .* for the \d+ flights? started from 2026-07-11 08:00 UTC on/);
+	const n = /the (\d+) flights?/.exec(await hand.getByTestId('factors-preview').innerText())![1];
+	await hand.getByTestId('factors-confirm').click();
+	await expect(hand.getByTestId('factors-preview')).toContainText(new RegExp(`^Saved: .* ${n} flights? recomputed`));
 	await expect(page.getByTestId('calibration-row').first()).toHaveAttribute('data-source', 'hand');
+	// The recompute's progress ends consistent: every flight of the range done.
+	await expect(page.getByTestId('recompute-progress')).toHaveAttribute('data-state', 'done');
+	await expect(page.getByTestId('recompute-progress')).toHaveAttribute('data-done', n);
+	await expect(page.getByTestId('recompute-progress')).toHaveAttribute('data-total', n);
 	expect(await usedInList()).toBe(before);
+	expect((await fleetOf()).fuel).toBe(fleetBefore.fuel);
 });
 
 test('the maintenance viewer reads receipts and calibration history, with no forms', async ({ page }) => {

@@ -81,6 +81,11 @@ describe('rows to columns, every path', () => {
 
 			const replay = await loadSampleColumns(flightId);
 			expect(replay.seq.length).toBe(f.sampleCount);
+			// Read in odd-sized pages, the packed columns and the waypoint numbering carry across them.
+			const paged = await loadSampleColumns(flightId, db, { pageRows: 97 });
+			expect(plain(paged.columns)).toEqual(plain(replay.columns));
+			expect([...paged.seq]).toEqual([...replay.seq]);
+			expect(paged.waypoints).toEqual(replay.waypoints);
 			// A page size that splits runs in odd places, so numbering must carry across pages.
 			const { server, browser, serverIds, browserIds, loaded } = await livePaths(flightId, f.lastSeq, 113);
 

@@ -204,8 +204,8 @@ describe('every write that changes a fuel input keeps the stored figures derived
 	it('aircraft: a dated meter factor set by hand, and one typed on the aircraft form', async () => {
 		const before = await storedOnBoard(uploaded);
 		// In force from long before every flight: each of them is recomputed with 1.1.
-		const result = await onReconciliation('factors', { meterFactor: '1.1', kFactor: '', inForceFrom: '2000-01-01T00:00', note: '' });
-		expect(result).toMatchObject({ saved: true });
+		const result = await onReconciliation('factors', { meterFactor: '1.1', kFactor: '', inForceFrom: '2000-01-01T00:00', note: '', step: 'confirm' });
+		expect(result).toMatchObject({ step: 'confirm' });
 		expect((await aircraftRow()).meterFactor).toBe(1.1);
 		expect(await storedOnBoard(uploaded)).toBeLessThan(before);
 		await expectDerived('calibration by hand');

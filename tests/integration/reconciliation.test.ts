@@ -152,8 +152,12 @@ describe('reconciliation against the pump', () => {
 
 	it('sets factors by hand from a date between two flights: only the later one changes, old → new in the history', async () => {
 		const before = await used();
-		const saved = (await act(U.admin, 'factors', { meterFactor: '1', kFactor: String(K_OLD), inForceFrom: minute(day(7)), note: 'sensor replaced' })) as { saved: boolean; flights: number };
-		expect(saved).toMatchObject({ saved: true, flights: 1 });
+		const fields = { meterFactor: '1', kFactor: String(K_OLD), inForceFrom: minute(day(7)), note: 'sensor replaced' };
+		const preview = (await act(U.admin, 'factors', fields)) as { step: string; preview: { range: { flights: number } } };
+		expect(preview).toMatchObject({ step: 'preview', preview: { range: { flights: 1 } } });
+		expect(await used()).toEqual(before);
+		const saved = (await act(U.admin, 'factors', { ...fields, step: 'confirm' })) as { step: string; preview: { range: { flights: number } } };
+		expect(saved).toMatchObject({ step: 'confirm', preview: { range: { flights: 1 } } });
 		const after = await used();
 		expect(after[ids.after].figures / before[ids.after].figures).toBeCloseTo(1 / RATIO, 6);
 		for (const key of ['before', 'in1', 'in2'] as const) expect(after[ids[key]], key).toEqual(before[ids[key]]);
@@ -168,7 +172,7 @@ describe('reconciliation against the pump', () => {
 		const bad = (await act(U.admin, 'receipt', { at: '2025-13-40T25:00', amount: 'lots', unit: 'pints', full: '1' })) as { status: number; data: { errors: Record<string, string> } };
 		expect(bad.status).toBe(400);
 		expect(Object.keys(bad.data.errors).sort()).toEqual(['amount', 'at', 'unit']);
-		const future = (await act(U.admin, 'factors', { meterFactor: '1.01', inForceFrom: '2999-01-01T00:00' })) as { status: number; data: { errors: Record<string, string> } };
+		const future = (await act(U.admin, 'factors', { meterFactor: '1.01', inForceFrom: '2999-01-01T00:00', step: 'confirm' })) as { status: number; data: { errors: Record<string, string> } };
 		expect(future.status).toBe(400);
 		expect(Object.keys(future.data.errors)).toEqual(['inForceFrom']);
 		const foreign = (await act(U.admin, 'apply', { from: toId, to: fromId, as: 'meterFactor', inForceFrom: minute(day(2)), step: 'confirm' })) as { status: number };
@@ -185,7 +189,7 @@ describe('reconciliation against the pump', () => {
 			['receipt', { at: minute(day(9)), amount: '10', unit: 'usgal', full: '1' }],
 			['deleteReceipt', { receiptId: fromId }],
 			['apply', { from: fromId, to: toId, as: 'meterFactor', inForceFrom: minute(day(2)), step: 'confirm' }],
-			['factors', { meterFactor: '1.2', inForceFrom: minute(day(9)) }]
+			['factors', { meterFactor: '1.2', inForceFrom: minute(day(9)), step: 'confirm' }]
 		] as const)
 			await expect(act(U.viewer, name, fields)).rejects.toSatisfy((e: unknown) => isHttpError(e) && e.status === 403);
 		await expect(page(U.pilot)).rejects.toSatisfy((e: unknown) => isHttpError(e) && e.status === 403);

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { MAD_SCALE, MIN_BASELINE_FLIGHTS, learnBaseline, median, medianAbsoluteDeviation, type BaselineFlight } from './baseline';
+import { MAD_SCALE, MIN_BASELINE_FLIGHTS, bandPosition, learnBaseline, median, medianAbsoluteDeviation, usualBand, type BaselineFlight } from './baseline';
 
 const flight = (id: string, cruise: number, extra: Partial<BaselineFlight> = {}): BaselineFlight => ({
 	id,
@@ -61,5 +61,15 @@ describe('learnBaseline', () => {
 		const b = learnBaseline(usual, { manual: { cruise: 28, climb: null } });
 		expect(b.phases.cruise).toMatchObject({ source: 'manual', centreLph: 28, spreadLph: null, flights: 0 });
 		expect(b.phases.climb?.source).toBe('learned');
+	});
+});
+
+describe('usual band', () => {
+	it('spans centre ± two spreads and places a flow below, within or above it', () => {
+		const b = usualBand(30, 1.5);
+		expect([b.lowLph, b.centreLph, b.highLph]).toEqual([27, 30, 33]);
+		expect([26.9, 27, 30, 33, 33.1].map((x) => bandPosition(x, b))).toEqual(['below', 'within', 'within', 'within', 'above']);
+		// A hand-set centre has no spread: the band is the centre itself.
+		expect(bandPosition(30.01, usualBand(30, null))).toBe('above');
 	});
 });

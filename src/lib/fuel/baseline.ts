@@ -128,3 +128,31 @@ export function learnBaseline(
 		flightsLeftOut: flights.length - usable.length
 	};
 }
+
+/**
+ * The usual band of a flow: centre ± USUAL_BAND_SPREADS robust spreads (our choice: about 95 % of
+ * usual flights for normal scatter). The history's trend shades it, the fleet view places each
+ * aircraft's month in it.
+ */
+export const USUAL_BAND_SPREADS = 2;
+
+export interface UsualBand {
+	centreLph: number;
+	lowLph: number;
+	highLph: number;
+}
+
+export function usualBand(centreLph: number, spreadLph: number | null): UsualBand {
+	const half = spreadLph === null || !Number.isFinite(spreadLph) ? 0 : USUAL_BAND_SPREADS * spreadLph;
+	return { centreLph, lowLph: centreLph - half, highLph: centreLph + half };
+}
+
+/** Where a flow sits against a band; words in $lib/labels. */
+export const BAND_POSITIONS = ['below', 'within', 'above'] as const;
+export type BandPosition = (typeof BAND_POSITIONS)[number];
+
+export function bandPosition(flowLph: number, band: UsualBand): BandPosition {
+	if (flowLph > band.highLph) return 'above';
+	if (flowLph < band.lowLph) return 'below';
+	return 'within';
+}

@@ -82,6 +82,42 @@ export class ColumnBuilder {
 		}
 	}
 
+	/**
+	 * Many rows at once, as columns (the replay loader reads them so, without an object per row):
+	 * NaN where a cell was not recorded; `altRecorded` whether any of these rows had an altitude;
+	 * waypoints as indices into `names` (WPT_NONE for none), numbered here in the order they come.
+	 */
+	pushBlock(b: { seq: ArrayLike<number>; tMs: ArrayLike<number>; flow: ArrayLike<number>; gs: ArrayLike<number>; dtg: ArrayLike<number>; alt: ArrayLike<number>; altRecorded: boolean; wpt: ArrayLike<number>; names: readonly string[] }): void {
+		const m = b.seq.length;
+		while (this.cap - this.n < m) this.grow();
+		const ids = b.names.map((name) => {
+			let id = this.waypointIds.get(name);
+			if (id === undefined) {
+				id = this.waypointIds.size;
+				this.waypointIds.set(name, id);
+			}
+			return id;
+		});
+		const at = this.n;
+		for (let j = 0; j < m; j++) {
+			const i = at + j;
+			this.seqs[i] = b.seq[j];
+			this.t[i] = b.tMs[j] / 1000;
+			this.flow[i] = b.flow[j];
+			this.gs[i] = b.gs[j];
+			this.dtg[i] = b.dtg[j];
+			this.alt[i] = b.alt[j];
+			const w = b.wpt[j];
+			if (w === WPT_NONE) this.wpt[i] = WPT_NONE;
+			else {
+				this.anyWpt = true;
+				this.wpt[i] = ids[w];
+			}
+		}
+		if (b.altRecorded) this.anyAlt = true;
+		this.n += m;
+	}
+
 	private grow(): void {
 		const cap = Math.max(1024, this.cap * 2);
 		const n = this.n;

@@ -22,6 +22,10 @@ export const utcMinute = (what: string) =>
 			return d;
 		});
 
+/** The same, or blank for none. */
+export const optionalUtcMinute = (what: string) =>
+	z.preprocess((v) => (typeof v === 'string' && v.trim() === '' ? undefined : v), utcMinute(what).optional()).transform((d) => d ?? null);
+
 /** The same time back into a datetime-local field's value. */
 export const utcMinuteValue = (d: Date) => d.toISOString().slice(0, 16);
 
@@ -57,6 +61,7 @@ export const applyFormSchema = z.object({
 	to: z.uuid('Choose a reconciliation.'),
 	as: z.enum(['meterFactor', 'kFactor'], 'Choose how to apply the correction.'),
 	inForceFrom: utcMinute('the time the new factor is in force from'),
+	inForceUntil: optionalUtcMinute('the time the range ends'),
 	step: z.enum(['preview', 'confirm']).default('preview'),
 	note: plainText(200).default('')
 });
@@ -67,6 +72,8 @@ export const handFactorsFormSchema = z.object({
 	meterFactor: requiredNumber(0.5, 1.5, 'the meter factor'),
 	kFactor: optionalNumber(1, 10_000_000, 'the K-factor in pulses per unit'),
 	inForceFrom: utcMinute('the time the factors are in force from'),
+	inForceUntil: optionalUtcMinute('the time the range ends'),
+	step: z.enum(['preview', 'confirm']).default('preview'),
 	note: plainText(200).default('')
 });
 export type HandFactorsInput = z.output<typeof handFactorsFormSchema>;

@@ -41,7 +41,7 @@ const SORT_COLUMNS: Record<HistorySort, SQL | typeof flights.startedAt> = {
 };
 const isPhaseSort = (s: HistorySort): s is BaselinePhase => (BASELINE_PHASES as readonly string[]).includes(s);
 
-async function phasesOf(ids: string[]): Promise<Map<string, PhaseFigures[]>> {
+export async function phasesOf(ids: string[]): Promise<Map<string, PhaseFigures[]>> {
 	const out = new Map<string, PhaseFigures[]>();
 	if (ids.length === 0) return out;
 	const rows = await db.select().from(flightPhaseFigures).where(inArray(flightPhaseFigures.flightId, ids));

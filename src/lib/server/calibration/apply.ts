@@ -4,7 +4,7 @@
 import { factorsToApply, type Factors } from '$lib/fuel';
 import type { ApplyInput, HandFactorsInput } from '$lib/schemas/pump';
 import type { Aircraft, Calibration } from '../db/schema';
-import { entryInForce, flightsAffected, writeEntry, type AffectedRange } from './factors';
+import { entryInForce, flightsAffected, rangeProblem, writeEntry, type AffectedRange, type WriteResult } from './factors';
 import { reconciliationOf } from './receipts';
 
 export interface ApplyPreview {
@@ -33,17 +33,21 @@ export async function applyReconciliation(a: Aircraft, input: ApplyInput, userId
 		return { ok: false, field: 'as', message: 'No K-factor is recorded for the sensor, so no new one can be worked out: apply a meter factor, or set the K-factor by hand first.' };
 	const old = await oldFactorsAt(a, input.inForceFrom);
 	const next = factorsToApply(w.proposal, input.as, old);
-	const preview: ApplyPreview = { old, new: next, range: await flightsAffected(a.id, input.inForceFrom) };
-	if (input.step === 'preview') return { ok: true, step: 'preview', preview };
-	const written = await writeEntry(
-		a,
-		{ source: 'reconciliation', inForceFrom: input.inForceFrom, factors: next, indicatedL: w.indicatedL, pumpedL: w.pumpedL, receiptFromId: w.fromReceiptId, receiptToId: w.toReceiptId, note: input.note },
-		userId
-	);
-	if (!written.ok) return written;
-	return { ok: true, step: 'confirm', preview: { old: { meterFactor: written.entry.meterFactorOld, kFactor: written.entry.kFactorOld }, new: next, range: written.range }, entry: written.entry };
+	return previewOrWrite(a, input, { source: 'reconciliation', inForceFrom: input.inForceFrom, inForceUntil: input.inForceUntil, factors: next, indicatedL: w.indicatedL, pumpedL: w.pumpedL, receiptFromId: w.fromReceiptId, receiptToId: w.toReceiptId, note: input.note }, old, userId);
 }
 
-export async function setFactorsByHand(a: Aircraft, input: HandFactorsInput, userId: string) {
-	return writeEntry(a, { source: 'hand', inForceFrom: input.inForceFrom, factors: { meterFactor: input.meterFactor, kFactor: input.kFactor }, note: input.note }, userId);
+/** Factors typed by hand over a date range: the same preview (how many flights change), then the entry. */
+export async function setFactorsByHand(a: Aircraft, input: HandFactorsInput, userId: string): Promise<ApplyOutcome> {
+	const old = await oldFactorsAt(a, input.inForceFrom);
+	return previewOrWrite(a, input, { source: 'hand', inForceFrom: input.inForceFrom, inForceUntil: input.inForceUntil, factors: { meterFactor: input.meterFactor, kFactor: input.kFactor }, note: input.note }, old, userId);
+}
+
+async function previewOrWrite(a: Aircraft, input: { step: 'preview' | 'confirm' }, entry: Parameters<typeof writeEntry>[1], old: Factors, userId: string): Promise<ApplyOutcome> {
+	const problem = rangeProblem(entry);
+	if (problem) return problem;
+	const preview: ApplyPreview = { old, new: entry.factors, range: await flightsAffected(a.id, entry.inForceFrom, entry.inForceUntil ?? null) };
+	if (input.step === 'preview') return { ok: true, step: 'preview', preview };
+	const written: WriteResult = await writeEntry(a, entry, userId);
+	if (!written.ok) return written;
+	return { ok: true, step: 'confirm', preview: { old: { meterFactor: written.entry.meterFactorOld, kFactor: written.entry.kFactorOld }, new: entry.factors, range: written.range }, entry: written.entry };
 }

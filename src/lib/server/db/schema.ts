@@ -6,6 +6,7 @@ import type { PlanLeg } from '../../fuel/plan';
 import type { FlightSummary } from '../../fuel/summary';
 import type { Declaration } from '../../fuel/types';
 import { DEBRIEF_STATUSES } from '../../wire/plan';
+import { RECOMPUTE_JOB_STATES, RECOMPUTE_REASONS } from '../../wire/recompute';
 import { CORRECTION_KINDS, type CorrectionSnapshot } from '../../wire/corrections';
 import type { ReserveRuleId } from '../../fuel/reserve';
 import { reserveRuleIdSchema, storedReserveRule } from '../../schemas/reserve';
@@ -62,8 +63,14 @@ export const fuelCorrectionKindEnum = pgEnum('fuel_correction_kind', CORRECTION_
 export const alarmKindEnum = pgEnum('alarm_kind', alarmKinds);
 export const debriefStatusEnum = pgEnum('debrief_status', DEBRIEF_STATUSES);
 export const flightPhaseEnum = pgEnum('flight_phase', PHASE_NAMES);
-/** Where a calibration entry's factors came from: a reconciliation of pump receipts, or typed by hand. */
-export const calibrationSourceEnum = pgEnum('calibration_source', ['reconciliation', 'hand', 'initial']);
+/**
+ * Where a calibration entry's factors came from: a reconciliation of pump receipts, typed by hand,
+ * the factors before dated history, or the end of a dated range (the factors in force before the
+ * range come back).
+ */
+export const calibrationSourceEnum = pgEnum('calibration_source', ['reconciliation', 'hand', 'initial', 'rangeEnd']);
+export const recomputeJobStateEnum = pgEnum('recompute_job_state', RECOMPUTE_JOB_STATES);
+export const recomputeReasonEnum = pgEnum('recompute_reason', RECOMPUTE_REASONS);
 
 // ---- accounts -------------------------------------------------------------------------------
 
@@ -319,6 +326,33 @@ export const pumpReceipts = pgTable(
 	(t) => [index().on(t.aircraftId, t.at)]
 );
 export type PumpReceipt = typeof pumpReceipts.$inferSelect;
+
+/**
+ * Progress of a long recompute of an aircraft's flights (a new factor applied to its history, a
+ * change of its fuel profile): written on its own connection while the change's transaction
+ * recomputes one flight at a time, so a page can poll done / total. 'done' only once that
+ * transaction has committed; 'failed' when it rolled back (nothing of the change was stored).
+ */
+export const recomputeJobs = pgTable(
+	'recompute_jobs',
+	{
+		id: uuid().primaryKey().defaultRandom(),
+		aircraftId: uuid()
+			.notNull()
+			.references(() => aircraft.id, { onDelete: 'cascade' }),
+		/** What asked for it (words in $lib/labels). */
+		reason: recomputeReasonEnum().notNull(),
+		state: recomputeJobStateEnum().notNull().default('running'),
+		total: integer().notNull(),
+		done: integer().notNull().default(0),
+		startedBy: text().references(() => users.id, { onDelete: 'set null' }),
+		startedAt: tstz().notNull().defaultNow(),
+		updatedAt: tstz().notNull().defaultNow(),
+		finishedAt: tstz()
+	},
+	(t) => [index().on(t.aircraftId, t.startedAt)]
+);
+export type RecomputeJob = typeof recomputeJobs.$inferSelect;
 
 // ---- flights and samples ---------------------------------------------------------------------
 

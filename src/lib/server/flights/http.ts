@@ -25,13 +25,13 @@ const MIN_GZIP_BYTES = 8 * 1024;
  * A response body, gzipped when the request accepts it. The Node adapter sends dynamic
  * responses uncompressed, and the samples of a long flight are megabytes.
  */
-export async function maybeGzip(request: Request, body: Uint8Array<ArrayBuffer> | string, headers: Record<string, string>): Promise<Response> {
+export async function maybeGzip(request: Request, body: Uint8Array<ArrayBuffer> | string, headers: Record<string, string>, level = 6): Promise<Response> {
 	const bytes = typeof body === 'string' ? new TextEncoder().encode(body) : body;
 	const h = new Headers(headers);
 	h.set('vary', 'accept-encoding');
 	const accepts = /\bgzip\b/.test(request.headers.get('accept-encoding') ?? '');
 	if (accepts && bytes.length >= MIN_GZIP_BYTES) {
-		const packed = await gzipAsync(bytes, { level: 6 });
+		const packed = await gzipAsync(bytes, { level });
 		h.set('content-encoding', 'gzip');
 		h.set('content-length', String(packed.length));
 		return new Response(new Uint8Array(packed), { headers: h });

@@ -5,7 +5,7 @@ import { asc, eq, sql } from 'drizzle-orm';
 import { engineInputsOf, fuelSetupOf, type AircraftFuelSetup } from '$lib/flight-inputs';
 import { recentCruiseFlowLph } from './recent-cruise';
 import { aircraftAt } from '../calibration/in-force';
-import { ColumnBuilder, type FlightInput, type SampleColumns } from '$lib/fuel';
+import { ColumnBuilder, WPT_NONE, type FlightInput, type SampleColumns } from '$lib/fuel';
 import { PAYLOAD_VERSION, type ReplayData } from '$lib/wire/replay';
 import { db, type Db, type Tx } from '../db';
 import { aircraft, flights, fuelEvents, type Aircraft, type Flight, type FuelEventRow } from '../db/schema';
@@ -26,17 +26,43 @@ export interface FlightSamples {
 export interface LoadOptions {
 	/** Also read each sample's position (the export's log shows it). */
 	positions?: boolean;
+	/** Samples per query (tests read in odd-sized pages). */
+	pageRows?: number;
 }
 
-/** Samples read per query: a page of row objects at a time, never the whole flight's. */
-const PAGE_ROWS = 20_000;
+/** Samples read per query: bounded pieces, never the whole flight's at once. */
+const PAGE_ROWS = 100_000;
+
+/** PostgreSQL's binary values (big-endian float8 / int4), sent base64-encoded, as numbers. */
+function floatsOf(b64: string | null, n: number): Float64Array {
+	const out = new Float64Array(n);
+	if (b64 === null) return out.fill(NaN);
+	const buf = Buffer.from(b64, 'base64');
+	const view = new DataView(buf.buffer, buf.byteOffset, buf.byteLength);
+	for (let i = 0; i < n; i++) out[i] = view.getFloat64(i * 8, false);
+	return out;
+}
+function intsOf(b64: string, n: number): Int32Array {
+	const out = new Int32Array(n);
+	const buf = Buffer.from(b64, 'base64');
+	const view = new DataView(buf.buffer, buf.byteOffset, buf.byteLength);
+	for (let i = 0; i < n; i++) out[i] = view.getInt32(i * 4, false);
+	return out;
+}
+
+/** Float columns of a page; a null cell comes as NaN. */
+const PACKED = ['ms', 'flow', 'gs', 'dtg', 'alt'] as const;
+type PackedRow = { n: number; seq: string; has_alt: boolean | null; lat?: string | null; lon?: string | null; has_pos?: boolean | null } & Record<(typeof PACKED)[number], string>;
 
 /**
  * The flight's samples in sequence order, through the engine's one rows→columns builder
- * ($lib/fuel/columns). Read page by page (keyset on seq) straight into typed columns: a million
- * samples as row objects would take several hundred MB at once, the columns take about 50.
+ * ($lib/fuel/columns). Each page (keyset on seq) arrives as one row of packed columns — each a
+ * run of PostgreSQL's binary values, base64 in the text protocol — so no object is built per
+ * sample; waypoints come as the rows where the name changes (few). A million samples take their
+ * columns (about 50 MB) and one page's text at a time.
  */
 export async function loadSampleColumns(flightId: string, q: Queryable = db, o: LoadOptions = {}): Promise<FlightSamples> {
+	const pageRows = o.pageRows ?? PAGE_ROWS;
 	const counted = await q.execute<{ n: number }>(sql`select count(*)::int as n from samples where flight_id = ${flightId}`);
 	// A live flight may grow after the count: the builder grows with it.
 	const expected = Math.max(1, Number(counted.rows[0]?.n ?? 0));
@@ -45,36 +71,88 @@ export async function loadSampleColumns(flightId: string, q: Queryable = db, o: 
 	// Positions straight into typed columns (grown like the builder's when a live flight grew).
 	let lat = new Float64Array(o.positions ? expected : 0);
 	let lon = new Float64Array(o.positions ? expected : 0);
-	let n = 0;
+	let at = 0;
 	let hasPosition = false;
-	const positions = o.positions ? sql`, lat, lon` : sql``;
+	const positions = o.positions
+		? sql`,
+					encode(string_agg(float8send(coalesce(lat, 'NaN')), ''::bytea), 'base64') as lat,
+					encode(string_agg(float8send(coalesce(lon, 'NaN')), ''::bytea), 'base64') as lon,
+					bool_or(lat is not null and lon is not null) as has_pos`
+		: sql``;
+	const positionCols = o.positions ? sql`, lat, lon` : sql``;
 	for (;;) {
+		// The page is read in seq order by the sorted subquery the aggregates consume (checked below).
 		// Epoch milliseconds as an exact integer: ms ÷ 1000 is the same double Date.getTime() ÷ 1000
 		// gives, so server and browser feed the engine identical times.
-		const result = await q.execute<{ seq: number; ms: number; flow: number | null; gs: number | null; dtg: number | null; alt: number | null; wpt: string | null; lat?: number | null; lon?: number | null }>(sql`
-			select seq, (extract(epoch from t) * 1000)::float8 as ms, flow, gs, dtg, alt, wpt${positions}
-			from samples where flight_id = ${flightId} and seq > ${after} order by seq limit ${PAGE_ROWS}`);
-		const rows = result.rows;
-		for (const r of rows) builder.push(Number(r.seq), Number(r.ms), r.flow, r.gs, r.dtg, r.alt, r.wpt);
-		if (o.positions)
-			for (const r of rows) {
-				if (n === lat.length) {
-					const grown = [new Float64Array(lat.length * 2), new Float64Array(lat.length * 2)];
-					grown[0].set(lat);
-					grown[1].set(lon);
-					[lat, lon] = grown;
+		const [packed, changes] = await Promise.all([
+			q.execute<PackedRow>(sql`
+				select count(*)::int as n,
+					encode(string_agg(int4send(seq), ''::bytea), 'base64') as seq,
+					encode(string_agg(float8send((extract(epoch from t) * 1000)::float8), ''::bytea), 'base64') as ms,
+					encode(string_agg(float8send(coalesce(flow, 'NaN')), ''::bytea), 'base64') as flow,
+					encode(string_agg(float8send(coalesce(gs, 'NaN')), ''::bytea), 'base64') as gs,
+					encode(string_agg(float8send(coalesce(dtg, 'NaN')), ''::bytea), 'base64') as dtg,
+					encode(string_agg(float8send(coalesce(alt, 'NaN')), ''::bytea), 'base64') as alt,
+					bool_or(alt is not null) as has_alt${positions}
+				from (select seq, t, flow, gs, dtg, alt${positionCols} from samples where flight_id = ${flightId} and seq > ${after} order by seq limit ${pageRows}) page`),
+			// The waypoint column as runs: the rows where the name changes ('' is no waypoint).
+			q.execute<{ seq: number; wpt: string | null }>(sql`
+				select seq, wpt from (
+					select seq, nullif(wpt, '') as wpt, lag(nullif(wpt, '')) over (order by seq) as prev, row_number() over (order by seq) as k
+					from (select seq, wpt from samples where flight_id = ${flightId} and seq > ${after} order by seq limit ${pageRows}) page
+				) runs where k = 1 or wpt is distinct from prev order by seq`)
+		]);
+		const r = packed.rows[0];
+		const n = Number(r?.n ?? 0);
+		if (n === 0) break;
+		let seq = intsOf(r.seq, n);
+		let cols = PACKED.map((k) => floatsOf(r[k], n));
+		if (o.positions) cols.push(floatsOf(r.lat ?? null, n), floatsOf(r.lon ?? null, n));
+		let ordered = true;
+		for (let i = 1; i < n && ordered; i++) ordered = seq[i] > seq[i - 1];
+		if (!ordered) {
+			// Never seen; kept so a planner that fed the aggregates out of order cannot misplace a sample.
+			const order = Array.from(seq.keys()).sort((x, y) => seq[x] - seq[y]);
+			seq = Int32Array.from(order, (i) => seq[i]);
+			cols = cols.map((c) => Float64Array.from(order, (i) => c[i]));
+		}
+		const names: string[] = [];
+		const index = new Map<string, number>();
+		const wpt = new Int32Array(n).fill(WPT_NONE);
+		const runs = changes.rows;
+		for (let k = 0, i = 0; k < runs.length; k++) {
+			const name = runs[k].wpt;
+			let id = WPT_NONE;
+			if (name !== null) {
+				id = index.get(name) ?? names.length;
+				if (id === names.length) {
+					index.set(name, id);
+					names.push(name);
 				}
-				const has = r.lat !== null && r.lat !== undefined && r.lon !== null && r.lon !== undefined;
-				hasPosition ||= has;
-				lat[n] = has ? Number(r.lat) : NaN;
-				lon[n] = has ? Number(r.lon) : NaN;
-				n++;
 			}
-		if (rows.length < PAGE_ROWS) break;
-		after = Number(rows[rows.length - 1].seq);
+			const until = k + 1 < runs.length ? Number(runs[k + 1].seq) : Infinity;
+			while (i < n && seq[i] < Number(runs[k].seq)) i++;
+			for (; i < n && seq[i] < until; i++) wpt[i] = id;
+		}
+		if (o.positions) {
+			if (at + n > lat.length) {
+				const size = Math.max(at + n, lat.length * 2);
+				const grown = [new Float64Array(size), new Float64Array(size)];
+				grown[0].set(lat);
+				grown[1].set(lon);
+				[lat, lon] = grown;
+			}
+			lat.set(cols[5], at);
+			lon.set(cols[6], at);
+			hasPosition ||= r.has_pos === true;
+		}
+		at += n;
+		builder.pushBlock({ seq, tMs: cols[0], flow: cols[1], gs: cols[2], dtg: cols[3], alt: cols[4], altRecorded: r.has_alt === true, wpt, names });
+		if (n < pageRows) break;
+		after = seq[n - 1];
 	}
 	const out: FlightSamples = { columns: builder.columns(), seq: builder.seq(), waypoints: builder.waypoints(), hasAlt: builder.hasAlt, hasWpt: builder.hasWpt };
-	if (o.positions) out.positions = hasPosition ? { lat: lat.subarray(0, n), lon: lon.subarray(0, n) } : null;
+	if (o.positions) out.positions = hasPosition ? { lat: lat.subarray(0, at), lon: lon.subarray(0, at) } : null;
 	return out;
 }
 

@@ -9,6 +9,7 @@ import { aircraft, flights, type Flight } from '../db/schema';
 import { newestShutdownOnBoard } from '../ingest/placement';
 import { storeComputedFigures } from './figures';
 import { loadFlight, type LoadedFlight, type Queryable } from './load';
+import type { Progress } from './recompute-jobs';
 
 /**
  * The version of how stored figures are derived. Raise it with any change to the engine or to
@@ -79,11 +80,20 @@ export async function lockAircraftFlights(aircraftId: string, q: Queryable): Pro
  * those whose figures use the recent flights' cruise flow, after a flight went into the trash or
  * came back. Call lockAircraftFlights first. Returns how many flights were recomputed.
  */
-export async function recomputeAircraftFlights(aircraftId: string, q: Queryable, after?: Date): Promise<number> {
+export async function recomputeAircraftFlights(aircraftId: string, q: Queryable, after?: Date, progress?: Progress): Promise<number> {
 	const which = after ? and(eq(flights.aircraftId, aircraftId), gt(flights.startedAt, after), isNull(flights.deletedAt)) : eq(flights.aircraftId, aircraftId);
 	const ids = await q.select({ id: flights.id }).from(flights).where(which).orderBy(asc(flights.startedAt));
-	for (const { id } of ids) await recomputeSummary(id, q);
+	await recomputeFlights(ids.map((r) => r.id), q, progress);
 	return ids.length;
+}
+
+/** Recomputes the given flights in order, one at a time (one flight's samples in memory), reporting each. */
+export async function recomputeFlights(ids: readonly string[], q: Queryable, progress?: Progress): Promise<void> {
+	await progress?.begin(ids.length);
+	for (let i = 0; i < ids.length; i++) {
+		await recomputeSummary(ids[i], q);
+		await progress?.step(i + 1);
+	}
 }
 
 /**

@@ -7,6 +7,7 @@ import { db } from '../db';
 import { aircraft, type Aircraft } from '../db/schema';
 import { lockAircraftFlights, recomputeAircraftFlights } from '../flights/summary';
 import { writeEntryIn } from '../calibration/factors';
+import { withRecomputeJob } from '../flights/recompute-jobs';
 
 export async function listAircraft(orgId: string, opts: { includeArchived?: boolean } = {}) {
 	return db
@@ -30,7 +31,8 @@ const setupButFactors = (a: Aircraft) => JSON.stringify({ ...fuelSetupOf(a), met
 export async function updateAircraft(orgId: string, id: string, input: AircraftInput, userId: string | null): Promise<SaveResult> {
 	const clash = await db.query.aircraft.findFirst({ where: and(eq(aircraft.orgId, orgId), eq(aircraft.registration, input.registration)) });
 	if (clash && clash.id !== id) return { ok: false, field: 'registration', message: 'This organisation already has an aircraft with that registration.' };
-	const row = await db.transaction(async (tx) => {
+	// A change that recomputes every flight records its progress for the page (flights/recompute-jobs.ts).
+	const row = await withRecomputeJob(id, 'aircraft', userId, (progress) => db.transaction(async (tx) => {
 		await lockAircraftFlights(id, tx);
 		const [before] = await tx.select().from(aircraft).where(and(eq(aircraft.orgId, orgId), eq(aircraft.id, id))).for('no key update');
 		const [after] = await tx
@@ -45,10 +47,10 @@ export async function updateAircraft(orgId: string, id: string, input: AircraftI
 			await writeEntryIn(tx, before, { source: 'hand', inForceFrom: new Date(), factors: { meterFactor: after.meterFactor, kFactor: after.kFactor }, note: 'Set on the aircraft form.' }, userId);
 		}
 		// A new name or type changes no figure; anything else the engine reads recomputes every flight.
-		if (setupButFactors(before) !== setupButFactors(after)) await recomputeAircraftFlights(id, tx);
+		if (setupButFactors(before) !== setupButFactors(after)) await recomputeAircraftFlights(id, tx, undefined, progress);
 		const [now] = await tx.select().from(aircraft).where(eq(aircraft.id, id));
 		return now;
-	});
+	}));
 	return { ok: true, aircraft: row };
 }
 

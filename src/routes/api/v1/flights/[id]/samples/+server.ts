@@ -11,16 +11,23 @@ import { loadFlight, replayDataOf } from '$lib/server/flights/load';
 import type { RequestHandler } from './$types';
 
 export const GET: RequestHandler = apiHandler('read', async (event) => {
+	const t0 = performance.now();
 	const { flight } = await requireFlightById(event, event.params.id, 'view');
 	const query = parseQuery(samplesQuerySchema, event.url);
 	if (!query.ok) return query.response;
 	const loaded = await loadFlight(flight.id);
 	if (!loaded) error(404, 'Flight not found.');
 	const data = replayDataOf(loaded);
+	const t1 = performance.now();
 	// Samples of an open (live) flight grow; a correction changes the inputs: never cache.
 	const headers = { 'cache-control': 'private, no-store', 'x-sample-count': String(data.count) };
-	if (query.data.format === 'binary') {
-		return maybeGzip(event.request, encodeBinary(data), { ...headers, 'content-type': BINARY_CONTENT_TYPE });
-	}
-	return maybeGzip(event.request, JSON.stringify(encodeJson(data)), { ...headers, 'content-type': 'application/json' });
+	const res =
+		query.data.format === 'binary'
+			? // The fastest gzip level: the columns shrink about as well, in a fraction of the time.
+				await maybeGzip(event.request, encodeBinary(data), { ...headers, 'content-type': BINARY_CONTENT_TYPE }, 1)
+			: await maybeGzip(event.request, JSON.stringify(encodeJson(data)), { ...headers, 'content-type': 'application/json' });
+	// The server's own time (W3C Server Timing): reading the flight, then encoding (and gzip).
+	const t2 = performance.now();
+	res.headers.set('server-timing', `load;dur=${(t1 - t0).toFixed(1)}, encode;dur=${(t2 - t1).toFixed(1)}, total;dur=${(t2 - t0).toFixed(1)}`);
+	return res;
 });

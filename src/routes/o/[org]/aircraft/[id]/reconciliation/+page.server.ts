@@ -2,6 +2,7 @@ import { requireAircraft } from '$lib/server/access';
 import { applyReconciliation, setFactorsByHand } from '$lib/server/calibration/apply';
 import { calibrationHistory } from '$lib/server/calibration/factors';
 import { addReceipt, deleteReceipt, reconciliationOf } from '$lib/server/calibration/receipts';
+import { latestRecompute } from '$lib/server/flights/recompute-jobs';
 import { failForm, parseForm } from '$lib/schemas/form';
 import { applyFormSchema, deleteReceiptFormSchema, handFactorsFormSchema, receiptFormSchema } from '$lib/schemas/pump';
 import type { Actions, PageServerLoad } from './$types';
@@ -10,8 +11,8 @@ import type { Actions, PageServerLoad } from './$types';
 // full, and its dated calibration history. The maintenance viewer reads; only calibrate writes.
 export const load = (async (event) => {
 	const { aircraft, user } = await requireAircraft(event, event.params.org, event.params.id, 'viewFuelRecords');
-	const [reconciliation, history] = await Promise.all([reconciliationOf(aircraft), calibrationHistory(aircraft.id)]);
-	return { aircraft, reconciliation, history, prefFuelUnit: user.prefFuelUnit };
+	const [reconciliation, history, recompute] = await Promise.all([reconciliationOf(aircraft), calibrationHistory(aircraft.id), latestRecompute(aircraft.id)]);
+	return { aircraft, reconciliation, history, recompute, prefFuelUnit: user.prefFuelUnit };
 }) satisfies PageServerLoad;
 
 export const actions = {
@@ -41,8 +42,8 @@ export const actions = {
 		const { aircraft, user } = await requireAircraft(event, event.params.org, event.params.id, 'calibrate');
 		const form = parseForm(handFactorsFormSchema, await event.request.formData());
 		if (!form.ok) return failForm(400, form.errors, form.values, 'factors');
-		const written = await setFactorsByHand(aircraft, form.data, user.id);
-		if (!written.ok) return failForm(400, { [written.field]: written.message }, form.values, 'factors');
-		return { action: 'factors', saved: true, flights: written.range.flights };
+		const outcome = await setFactorsByHand(aircraft, form.data, user.id);
+		if (!outcome.ok) return failForm(400, { [outcome.field]: outcome.message }, form.values, 'factors');
+		return { action: 'factors', values: form.values, step: outcome.step, preview: outcome.preview };
 	}
 } satisfies Actions;
