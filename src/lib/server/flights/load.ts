@@ -19,6 +19,7 @@ export interface FlightSamples {
 	waypoints: string[];
 	hasAlt: boolean;
 	hasWpt: boolean;
+	hasPos: boolean;
 }
 
 /** Samples read per query: a page of row objects at a time, never the whole flight's. */
@@ -37,15 +38,15 @@ export async function loadSampleColumns(flightId: string, q: Queryable = db): Pr
 	for (;;) {
 		// Epoch milliseconds as an exact integer: ms ÷ 1000 is the same double Date.getTime() ÷ 1000
 		// gives, so server and browser feed the engine identical times.
-		const result = await q.execute<{ seq: number; ms: number; flow: number | null; gs: number | null; dtg: number | null; alt: number | null; wpt: string | null }>(sql`
-			select seq, (extract(epoch from t) * 1000)::float8 as ms, flow, gs, dtg, alt, wpt
+		const result = await q.execute<{ seq: number; ms: number; flow: number | null; gs: number | null; dtg: number | null; alt: number | null; wpt: string | null; lat: number | null; lon: number | null }>(sql`
+			select seq, (extract(epoch from t) * 1000)::float8 as ms, flow, gs, dtg, alt, wpt, lat, lon
 			from samples where flight_id = ${flightId} and seq > ${after} order by seq limit ${PAGE_ROWS}`);
 		const rows = result.rows;
-		for (const r of rows) builder.push(Number(r.seq), Number(r.ms), r.flow, r.gs, r.dtg, r.alt, r.wpt);
+		for (const r of rows) builder.push(Number(r.seq), Number(r.ms), r.flow, r.gs, r.dtg, r.alt, r.wpt, r.lat, r.lon);
 		if (rows.length < PAGE_ROWS) break;
 		after = Number(rows[rows.length - 1].seq);
 	}
-	return { columns: builder.columns(), seq: builder.seq(), waypoints: builder.waypoints(), hasAlt: builder.hasAlt, hasWpt: builder.hasWpt };
+	return { columns: builder.columns(), seq: builder.seq(), waypoints: builder.waypoints(), hasAlt: builder.hasAlt, hasWpt: builder.hasWpt, hasPos: builder.hasPos };
 }
 
 export interface LoadedFlight {
@@ -108,6 +109,7 @@ export function replayDataOf(f: LoadedFlight): ReplayData {
 		count: samples.seq.length,
 		hasAlt: samples.hasAlt,
 		hasWpt: samples.hasWpt,
+		hasPos: samples.hasPos,
 		columns: samples.columns,
 		seq: samples.seq
 	};
