@@ -7,6 +7,7 @@ import L from 'leaflet';
 import 'leaflet/dist/leaflet.css';
 import type { SampleColumns } from '$lib/fuel';
 import type { MapTiles } from '$lib/wire/map';
+import { num } from '$lib/format';
 import { nearestSample, roundScaleLength, type TrackPiece, type TrackPosition, type TrackWaypoint } from './track';
 
 export interface TrackViewOptions {
@@ -41,7 +42,7 @@ const ScaleBars = L.Control.extend({
 				const max = metres / per;
 				const len = roundScaleLength(max);
 				el.style.width = `${Math.round((SCALE_MAX_PX * len) / max)}px`;
-				el.textContent = `${len.toLocaleString('en-US', { maximumFractionDigits: 2 })} ${unit}`;
+				el.textContent = `${num(len, len >= 1 ? 0 : len >= 0.1 ? 1 : 2)} ${unit}`;
 			}
 		};
 		map.on('move zoom resize', update);

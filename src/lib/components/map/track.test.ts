@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { greatCircleNm, WPT_NONE } from '$lib/fuel';
-import { formatPosition, hasPositions, localProjection, nearestSample, positionAt, positionCount, roundScaleLength, trackPieces, trackWaypoints } from './track';
+import { hasPositions, localProjection, nearestSample, positionAt, positionCount, roundScaleLength, trackPieces, trackWaypoints } from './track';
 
 const cols = (lat: number[], lon: number[]) => ({ lat: Float64Array.from(lat), lon: Float64Array.from(lon) });
 
@@ -94,7 +94,7 @@ describe('local projection', () => {
 	});
 });
 
-describe('scale bar and caption words', () => {
+describe('scale bar', () => {
 	it('rounds a scale down to 1, 2 or 5 × a power of ten', () => {
 		expect(roundScaleLength(7.3)).toBe(5);
 		expect(roundScaleLength(19.9)).toBe(10);
@@ -102,10 +102,6 @@ describe('scale bar and caption words', () => {
 		expect(roundScaleLength(0.36)).toBe(0.2);
 		expect(roundScaleLength(0)).toBe(0);
 		expect(roundScaleLength(NaN)).toBe(0);
-	});
-	it('writes positions with hemispheres', () => {
-		expect(formatPosition(47.2, -31.4)).toBe('47.2000° N 31.4000° W');
-		expect(formatPosition(-33.86786, 151.20732)).toBe('33.8679° S 151.2073° E');
 	});
 });
 

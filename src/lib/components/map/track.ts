@@ -1,7 +1,7 @@
 // The track on the map, worked out from the sample columns without any map library: the pieces
 // flown and the gaps (no samples, or samples without a position) to draw apart, the position at
 // the scrubber, the sample nearest a point (a click on the track), the waypoints as passed, a
-// round length for the scale bar, and positions in words for the caption.
+// round length for the scale bar.
 import { findPassages, type DataGap, type SampleColumns } from '$lib/fuel';
 
 /** Indices of positioned samples: a flown piece runs from..to; a gap piece joins from (the last fix before) to to (the first after). */
@@ -115,12 +115,6 @@ export function roundScaleLength(max: number): number {
 	const p = 10 ** Math.floor(Math.log10(max));
 	for (const m of [5, 2, 1]) if (m * p <= max * (1 + 1e-12)) return m * p;
 	return p;
-}
-
-/** "47.2000° N 31.4000° W": four decimals, about 11 m, enough to find a place again. */
-export function formatPosition(lat: number, lon: number): string {
-	const part = (v: number, pos: string, neg: string) => `${Math.abs(v).toFixed(4)}° ${v < 0 ? neg : pos}`;
-	return `${part(lat, 'N', 'S')} ${part(lon, 'E', 'W')}`;
 }
 
 export interface TrackWaypoint {
