@@ -1,5 +1,6 @@
 // Size of the replay payload for the demo flights, with and without their positions, in each
-// encoding (binary and JSON, plain and gzipped): what the track on the map costs on the wire.
+// encoding (binary and JSON, plain and gzipped), and of the live stream's sample events (a
+// minute of samples each): what the track on the map costs on the wire.
 // Reads samples/ through the recorder-file parser and the one rows→columns builder; no database.
 // A measurement that prints figures, not a test.
 //
@@ -11,6 +12,7 @@ import { fileURLToPath } from 'node:url';
 import { parseRecorderText } from '../src/lib/csv';
 import { ColumnBuilder } from '../src/lib/fuel';
 import { encodeBinary, encodeJson, PAYLOAD_VERSION, type ReplayData } from '../src/lib/wire/replay';
+import { samplesEventOf, type SampleRunRows } from '../src/lib/wire/live';
 
 const samplesDir = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..', 'samples');
 const kib = (n: number) => `${(n / 1024).toFixed(1)} KiB`;
@@ -37,7 +39,7 @@ function payload(file: string, rows: Awaited<ReturnType<typeof parseRecorderText
 	};
 }
 
-console.log('file · samples · binary before → after (gzip) · JSON before → after (gzip)');
+console.log('file · samples · binary before → after (gzip) · JSON before → after (gzip) · live events of 60 samples, JSON, all of them');
 for (const file of fs.readdirSync(samplesDir).filter((f) => f.endsWith('.csv')).sort()) {
 	const parsed = await parseRecorderText(fs.readFileSync(path.join(samplesDir, file), 'utf8'), null, { densityKgPerL: 0.72 });
 	if (!parsed.ok) {
@@ -49,9 +51,27 @@ for (const file of fs.readdirSync(samplesDir).filter((f) => f.endsWith('.csv')).
 	const bin = [encodeBinary(before), encodeBinary(after)];
 	const json = [JSON.stringify(encodeJson(before)), JSON.stringify(encodeJson(after))].map((s) => Buffer.from(s));
 	const gz = (x: Uint8Array) => gzipSync(x).length;
+	const rows = parsed.rows;
+	const run = (withPositions: boolean): SampleRunRows => ({
+		tMs: rows.map((r) => r.tMs),
+		flow: rows.map((r) => r.flow),
+		gs: rows.map((r) => r.gs),
+		dtg: rows.map((r) => r.dtg),
+		alt: rows.map((r) => r.alt),
+		wpt: rows.map((r) => r.wpt),
+		...(withPositions ? { lat: rows.map((r) => r.lat), lon: rows.map((r) => r.lon) } : {})
+	});
+	const liveBytes = (withPositions: boolean) => {
+		const r = run(withPositions);
+		let total = 0;
+		for (let a = 0; a < rows.length; a += 60) total += JSON.stringify(samplesEventOf(r, a, Math.min(rows.length, a + 60), 0, 0)).length;
+		return total;
+	};
+	const live = [liveBytes(false), liveBytes(true)];
 	console.log(
 		`${file} · ${after.count} · ${after.hasPos ? 'positions' : 'no positions'} · ` +
 			`binary ${kib(bin[0].length)} → ${kib(bin[1].length)} (${pct(bin[0].length, bin[1].length)}; gzip ${kib(gz(bin[0]))} → ${kib(gz(bin[1]))}) · ` +
-			`JSON ${kib(json[0].length)} → ${kib(json[1].length)} (${pct(json[0].length, json[1].length)}; gzip ${kib(gz(json[0]))} → ${kib(gz(json[1]))})`
+			`JSON ${kib(json[0].length)} → ${kib(json[1].length)} (${pct(json[0].length, json[1].length)}; gzip ${kib(gz(json[0]))} → ${kib(gz(json[1]))}) · ` +
+			`live ${kib(live[0])} → ${kib(live[1])} (${pct(live[0], live[1])})`
 	);
 }
