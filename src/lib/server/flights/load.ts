@@ -19,7 +19,15 @@ export interface FlightSamples {
 	waypoints: string[];
 	hasAlt: boolean;
 	hasWpt: boolean;
+	/** Whether the samples carry positions: then columns.lat and columns.lon (degrees, WGS 84, NaN where none). */
 	hasPos: boolean;
+	/** The same positions, only when asked for (the export's log shows them), null when no sample has one. */
+	positions?: { lat: Float64Array; lon: Float64Array } | null;
+}
+
+export interface LoadOptions {
+	/** Also give the positions as `positions` (they are in the columns either way). */
+	positions?: boolean;
 }
 
 /** Samples read per query: a page of row objects at a time, never the whole flight's. */
@@ -30,10 +38,11 @@ const PAGE_ROWS = 20_000;
  * ($lib/fuel/columns). Read page by page (keyset on seq) straight into typed columns: a million
  * samples as row objects would take several hundred MB at once, the columns take about 50.
  */
-export async function loadSampleColumns(flightId: string, q: Queryable = db): Promise<FlightSamples> {
+export async function loadSampleColumns(flightId: string, q: Queryable = db, o: LoadOptions = {}): Promise<FlightSamples> {
 	const counted = await q.execute<{ n: number }>(sql`select count(*)::int as n from samples where flight_id = ${flightId}`);
 	// A live flight may grow after the count: the builder grows with it.
-	const builder = new ColumnBuilder(Math.max(1, Number(counted.rows[0]?.n ?? 0)));
+	const expected = Math.max(1, Number(counted.rows[0]?.n ?? 0));
+	const builder = new ColumnBuilder(expected);
 	let after = -2147483648;
 	for (;;) {
 		// Epoch milliseconds as an exact integer: ms ÷ 1000 is the same double Date.getTime() ÷ 1000
@@ -46,7 +55,10 @@ export async function loadSampleColumns(flightId: string, q: Queryable = db): Pr
 		if (rows.length < PAGE_ROWS) break;
 		after = Number(rows[rows.length - 1].seq);
 	}
-	return { columns: builder.columns(), seq: builder.seq(), waypoints: builder.waypoints(), hasAlt: builder.hasAlt, hasWpt: builder.hasWpt, hasPos: builder.hasPos };
+	const columns = builder.columns();
+	const out: FlightSamples = { columns, seq: builder.seq(), waypoints: builder.waypoints(), hasAlt: builder.hasAlt, hasWpt: builder.hasWpt, hasPos: builder.hasPos };
+	if (o.positions) out.positions = columns.lat && columns.lon ? { lat: columns.lat, lon: columns.lon } : null;
+	return out;
 }
 
 export interface LoadedFlight {
@@ -64,12 +76,12 @@ export async function loadEvents(flightId: string, q: Queryable = db): Promise<F
 }
 
 /** Everything the engine needs for one flight; null when there is no such flight. */
-export async function loadFlight(flightId: string, q: Queryable = db): Promise<LoadedFlight | null> {
+export async function loadFlight(flightId: string, q: Queryable = db, o: LoadOptions = {}): Promise<LoadedFlight | null> {
 	const [row] = await q.select({ flight: flights, aircraft }).from(flights).innerJoin(aircraft, eq(aircraft.id, flights.aircraftId)).where(eq(flights.id, flightId)).limit(1);
 	if (!row) return null;
 	const [events, samples, recent, asFlown] = await Promise.all([
 		loadEvents(flightId, q),
-		loadSampleColumns(flightId, q),
+		loadSampleColumns(flightId, q, o),
 		recentCruiseFlowLph(row.aircraft.id, row.flight, q),
 		// The meter factor and K-factor in force at this flight's engine start (dated calibration).
 		aircraftAt(row.aircraft, row.flight.startedAt, q)
