@@ -63,14 +63,20 @@ for (const [role, paths] of Object.entries(PAGES) as [DemoRole | 'anonymous', st
 			else resolved.push(p);
 		}
 		const findings: string[] = [];
+		let withMap = 0;
 		for (const theme of THEMES) {
 			await page.evaluate((t) => localStorage.setItem('burndown-theme', t), theme);
 			for (const path of resolved) {
 				const res = await page.goto(path);
 				expect(res?.status(), path).toBeLessThan(400);
 				await expect(page.locator('html')).toHaveAttribute('data-theme', theme);
-				// Charts and figures drawn after load are part of the page.
+				// Charts and figures drawn after load are part of the page, and so is the track's map.
 				await page.waitForLoadState('networkidle');
+				const map = page.getByTestId('track-map-canvas');
+				if ((await map.count()) > 0) {
+					await expect(map).toHaveAttribute('data-ready', 'true');
+					withMap++;
+				}
 				const result = await new AxeBuilder({ page }).withTags(WCAG_AA).analyze();
 				for (const v of result.violations) {
 					if (v.impact !== 'serious' && v.impact !== 'critical') continue;
@@ -83,5 +89,7 @@ for (const [role, paths] of Object.entries(PAGES) as [DemoRole | 'anonymous', st
 			}
 		}
 		expect(findings, findings.join('\n')).toEqual([]);
+		// The demo flights carry positions: their replay and live pages were checked with the map drawn.
+		if (paths.some((p) => /^\{\w+\}(\/live)?$/.test(p))) expect(withMap, 'pages checked with the track map').toBeGreaterThan(0);
 	});
 }

@@ -20,10 +20,10 @@ beforeAll(async () => {
 
 /**
  * A recorder file with every kind of hole: blank flow cells, a dropout, stretches with no
- * altitude and no waypoint, a waypoint that comes back after another.
+ * altitude, no waypoint and no position, a waypoint that comes back after another.
  */
 function holeyFile(): string {
-	const lines = ['time_utc,fuel_flow_usgph,ground_speed_kt,distance_to_go_nm,waypoint,altitude_ft'];
+	const lines = ['time_utc,fuel_flow_usgph,ground_speed_kt,distance_to_go_nm,waypoint,altitude_ft,latitude,longitude'];
 	const start = Date.UTC(2026, 5, 21, 9, 0, 0);
 	const names = ['HOLLOW', 'MERROW', 'HOLLOW'];
 	for (let i = 0; i < 1500; i++) {
@@ -33,7 +33,9 @@ function holeyFile(): string {
 		const dtg = i < 150 ? '' : Math.max(0, 30 - (i % 500) / 20).toFixed(2);
 		const wpt = i < 150 || (i > 1000 && i < 1100) ? '' : names[Math.floor(i / 500)];
 		const alt = i < 300 ? '' : String(1200 + (i % 50));
-		lines.push(`${new Date(start + i * 1000 + (i % 3)).toISOString()},${flow},${gs},${dtg},${wpt},${alt}`);
+		// No position for the first 100 samples (no fix yet) and for a stretch mid-flight.
+		const pos = i < 100 || (i > 1200 && i < 1260) ? ',' : `${(47.2 + i / 1e4).toFixed(5)},${(-31.4 + i / 2e4).toFixed(5)}`;
+		lines.push(`${new Date(start + i * 1000 + (i % 3)).toISOString()},${flow},${gs},${dtg},${wpt},${alt},${pos}`);
 	}
 	return lines.join('\n') + '\n';
 }
@@ -65,7 +67,9 @@ const plain = (c: SampleColumns) => ({
 	gs: Array.from(c.gs),
 	dtg: Array.from(c.dtg),
 	alt: c.alt ? Array.from(c.alt) : undefined,
-	wpt: c.wpt ? Array.from(c.wpt) : undefined
+	wpt: c.wpt ? Array.from(c.wpt) : undefined,
+	lat: c.lat ? Array.from(c.lat) : undefined,
+	lon: c.lon ? Array.from(c.lon) : undefined
 });
 
 describe('rows to columns, every path', () => {
@@ -86,6 +90,7 @@ describe('rows to columns, every path', () => {
 			expect(plain(paged.columns)).toEqual(plain(replay.columns));
 			expect([...paged.seq]).toEqual([...replay.seq]);
 			expect(paged.waypoints).toEqual(replay.waypoints);
+			expect(replay.hasPos).toBe(true);
 			// A page size that splits runs in odd places, so numbering must carry across pages.
 			const { server, browser, serverIds, browserIds, loaded } = await livePaths(flightId, f.lastSeq, 113);
 
@@ -109,6 +114,7 @@ describe('rows to columns, every path', () => {
 		expect(rows.some((r) => r[1] === '')).toBe(true);
 		expect(rows.some((r) => r[4] === '')).toBe(true);
 		expect(rows.some((r) => r[5] === '')).toBe(true);
+		expect(rows.some((r) => r[6] === '' && r[7] === '')).toBe(true);
 		expect(new Set(rows.map((r) => r[4]).filter(Boolean))).toEqual(new Set(['HOLLOW', 'MERROW']));
 	});
 });

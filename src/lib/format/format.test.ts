@@ -22,6 +22,7 @@ import {
 	meterFactor,
 	num,
 	percent,
+	position,
 	signedNum,
 	signedPercent,
 	speed,
@@ -97,6 +98,14 @@ describe('numbers: one precision per quantity and unit', () => {
 		expect(speed(null, 'kt')).toBe('—');
 		expect(percent(Infinity)).toBe('—');
 		expect(fuel(undefined, 'l', 0.72)).toBe('—');
+	});
+
+	it('writes positions in decimal degrees with their hemisphere, four decimals', () => {
+		expect(position(47.2, -31.4)).toBe('47.2000° N 31.4000° W');
+		expect(position(-33.86786, 151.20732)).toBe('33.8679° S 151.2073° E');
+		expect(position(0, 0)).toBe('0.0000° N 0.0000° E');
+		expect(position(NaN, 3)).toBe('—');
+		expect(position(null, 3)).toBe('—');
 	});
 
 	it('writes file sizes in KB below a megabyte and MB above', () => {

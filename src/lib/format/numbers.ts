@@ -34,7 +34,9 @@ export const PRECISION = {
 	kFactor: 1,
 	density: 3,
 	minutes: 0,
-	megabytes: 1
+	megabytes: 1,
+	/** Latitude and longitude, degrees: four decimals, about 11 m on the ground. */
+	position: 4
 } as const;
 
 // en-GB: a point for decimals and a 24-hour clock; 'min2' groups only from five digits (4500 ft,
@@ -93,6 +95,12 @@ export const speed = (x: number | null | undefined, unit: SpeedUnit) => withUnit
 /** "2.41 NM/US gal"; the label comes from units.specificRangeLabel. */
 export const specificRange = (x: number | null | undefined, label: string) => withUnit(specificRangeFigure(x), label);
 export const altitude = (x: number | null | undefined) => withUnit(altitudeFigure(x), 'ft');
+/** "47.2000° N 31.4000° W": decimal degrees with their hemisphere (WGS 84). */
+export function position(lat: number | null | undefined, lon: number | null | undefined): string {
+	if (missing(lat) || missing(lon)) return MISSING;
+	const part = (v: number, pos: string, neg: string) => `${num(Math.abs(v), PRECISION.position)}° ${v < 0 ? neg : pos}`;
+	return `${part(lat, 'N', 'S')} ${part(lon, 'E', 'W')}`;
+}
 /** A share or a change in percent: "2.3 %". */
 export const percent = (x: number | null | undefined) => withUnit(num(x, PRECISION.percent), '%');
 /** A change in percent with its sign: "+2.3 %". */

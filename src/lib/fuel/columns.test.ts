@@ -30,6 +30,29 @@ describe('ColumnBuilder', () => {
 		expect(c.wpt).toBeUndefined();
 		expect(b.hasAlt).toBe(false);
 		expect(b.hasWpt).toBe(false);
+		expect(c.lat).toBeUndefined();
+		expect(c.lon).toBeUndefined();
+		expect(b.hasPos).toBe(false);
+	});
+
+	it('keeps positions only as pairs: a row with one coordinate has none', () => {
+		const b = new ColumnBuilder(1);
+		b.push(0, 0, 1, 1, 1, null, null, 47.2, -31.4);
+		b.push(1, 1000, 1, 1, 1, null, null, 47.21, null);
+		b.push(2, 2000, 1, 1, 1, null, null, null, null);
+		b.push(3, 3000, 1, 1, 1, null, null, 47.23, -31.38);
+		const c = b.columns();
+		expect(b.hasPos).toBe(true);
+		expect(Array.from(c.lat!)).toEqual([47.2, NaN, NaN, 47.23]);
+		expect(Array.from(c.lon!)).toEqual([-31.4, NaN, NaN, -31.38]);
+	});
+
+	it('has no position columns when rows only ever carried half a position', () => {
+		const b = new ColumnBuilder();
+		b.push(0, 0, 1, 1, 1, null, null, 47.2, null);
+		b.push(1, 1000, 1, 1, 1, null, null, null, -31.4);
+		expect(b.hasPos).toBe(false);
+		expect(b.columns().lat).toBeUndefined();
 	});
 
 	it('grows past its first capacity and keeps every row', () => {

@@ -27,9 +27,12 @@ export class ColumnBuilder {
 	private dtg: Float64Array;
 	private alt: Float64Array;
 	private wpt: Int32Array;
+	private lat: Float64Array;
+	private lon: Float64Array;
 	private seqs: Int32Array;
 	private anyAlt = false;
 	private anyWpt = false;
+	private anyPos = false;
 	readonly waypointIds: Map<string, number>;
 
 	constructor(capacity = 1024, waypointIds: Map<string, number> = new Map()) {
@@ -40,6 +43,8 @@ export class ColumnBuilder {
 		this.dtg = new Float64Array(this.cap);
 		this.alt = new Float64Array(this.cap);
 		this.wpt = new Int32Array(this.cap);
+		this.lat = new Float64Array(this.cap);
+		this.lon = new Float64Array(this.cap);
 		this.seqs = new Int32Array(this.cap);
 		this.waypointIds = waypointIds;
 	}
@@ -48,19 +53,22 @@ export class ColumnBuilder {
 		return this.n;
 	}
 
-	/** Whether any row so far had an altitude / a waypoint. */
+	/** Whether any row so far had an altitude / a waypoint / a position. */
 	get hasAlt(): boolean {
 		return this.anyAlt;
 	}
 	get hasWpt(): boolean {
 		return this.anyWpt;
 	}
+	get hasPos(): boolean {
+		return this.anyPos;
+	}
 
 	/**
 	 * One row, as separate values (no object per row on the hot paths): epoch milliseconds, null
-	 * (or '' for a waypoint) for "not recorded".
+	 * (or '' for a waypoint) for "not recorded". A position counts only with both coordinates.
 	 */
-	push(seq: number, tMs: number, flow: number | null, gs: number | null, dtg: number | null, alt: number | null, wpt: string | null): void {
+	push(seq: number, tMs: number, flow: number | null, gs: number | null, dtg: number | null, alt: number | null, wpt: string | null, lat: number | null = null, lon: number | null = null): void {
 		if (this.n === this.cap) this.grow();
 		const i = this.n++;
 		this.seqs[i] = seq;
@@ -70,6 +78,16 @@ export class ColumnBuilder {
 		this.dtg[i] = num(dtg);
 		this.alt[i] = num(alt);
 		if (alt !== null && alt !== undefined) this.anyAlt = true;
+		const la = num(lat);
+		const lo = num(lon);
+		if (Number.isFinite(la) && Number.isFinite(lo)) {
+			this.lat[i] = la;
+			this.lon[i] = lo;
+			this.anyPos = true;
+		} else {
+			this.lat[i] = NaN;
+			this.lon[i] = NaN;
+		}
 		if (wpt === null || wpt === undefined || wpt === '') this.wpt[i] = WPT_NONE;
 		else {
 			this.anyWpt = true;
@@ -85,9 +103,22 @@ export class ColumnBuilder {
 	/**
 	 * Many rows at once, as columns (the replay loader reads them so, without an object per row):
 	 * NaN where a cell was not recorded; `altRecorded` whether any of these rows had an altitude;
-	 * waypoints as indices into `names` (WPT_NONE for none), numbered here in the order they come.
+	 * waypoints as indices into `names` (WPT_NONE for none), numbered here in the order they come;
+	 * positions (NaN where none) count, as in push, only with both coordinates.
 	 */
-	pushBlock(b: { seq: ArrayLike<number>; tMs: ArrayLike<number>; flow: ArrayLike<number>; gs: ArrayLike<number>; dtg: ArrayLike<number>; alt: ArrayLike<number>; altRecorded: boolean; wpt: ArrayLike<number>; names: readonly string[] }): void {
+	pushBlock(b: {
+		seq: ArrayLike<number>;
+		tMs: ArrayLike<number>;
+		flow: ArrayLike<number>;
+		gs: ArrayLike<number>;
+		dtg: ArrayLike<number>;
+		alt: ArrayLike<number>;
+		altRecorded: boolean;
+		wpt: ArrayLike<number>;
+		names: readonly string[];
+		lat?: ArrayLike<number>;
+		lon?: ArrayLike<number>;
+	}): void {
 		const m = b.seq.length;
 		while (this.cap - this.n < m) this.grow();
 		const ids = b.names.map((name) => {
@@ -113,6 +144,16 @@ export class ColumnBuilder {
 				this.anyWpt = true;
 				this.wpt[i] = ids[w];
 			}
+			const la = b.lat ? b.lat[j] : NaN;
+			const lo = b.lon ? b.lon[j] : NaN;
+			if (Number.isFinite(la) && Number.isFinite(lo)) {
+				this.lat[i] = la;
+				this.lon[i] = lo;
+				this.anyPos = true;
+			} else {
+				this.lat[i] = NaN;
+				this.lon[i] = NaN;
+			}
 		}
 		if (b.altRecorded) this.anyAlt = true;
 		this.n += m;
@@ -127,19 +168,25 @@ export class ColumnBuilder {
 		this.dtg = grown(this.dtg, n, cap);
 		this.alt = grown(this.alt, n, cap);
 		this.wpt = grown(this.wpt, n, cap);
+		this.lat = grown(this.lat, n, cap);
+		this.lon = grown(this.lon, n, cap);
 		this.seqs = grown(this.seqs, n, cap);
 		this.cap = cap;
 	}
 
 	/**
-	 * The rows so far as engine columns (views, no copy): altitude and waypoints only when some
-	 * row had one, so a flight without them reads the same however its rows arrived.
+	 * The rows so far as engine columns (views, no copy): altitude, waypoints and positions only
+	 * when some row had one, so a flight without them reads the same however its rows arrived.
 	 */
 	columns(): SampleColumns {
 		const n = this.n;
 		const cols: SampleColumns = { t: this.t.subarray(0, n), flow: this.flow.subarray(0, n), gs: this.gs.subarray(0, n), dtg: this.dtg.subarray(0, n) };
 		if (this.anyAlt) cols.alt = this.alt.subarray(0, n);
 		if (this.anyWpt) cols.wpt = this.wpt.subarray(0, n);
+		if (this.anyPos) {
+			cols.lat = this.lat.subarray(0, n);
+			cols.lon = this.lon.subarray(0, n);
+		}
 		return cols;
 	}
 

@@ -93,6 +93,25 @@ describe('live computation', () => {
 		expect(live.columns().alt![999]).toBeNaN();
 	});
 
+	it('carries positions through, blank before the first chunk that has them', () => {
+		const plain = columns(crossCountry());
+		const n = plain.t.length;
+		const lat = Float64Array.from({ length: n }, (_, i) => 47 + i / 1e5);
+		const lon = Float64Array.from({ length: n }, (_, i) => -31 + i / 1e5);
+		const live = createLiveComputation({ profile: base.profile, declaration: { kind: 'full' }, initialCapacity: 16 });
+		live.append(slice(plain, 0, 500));
+		live.append(slice({ ...plain, lat, lon }, 500, 1500));
+		live.append(slice(plain, 1500, n));
+		const got = live.columns();
+		expect(got.lat!.length).toBe(n);
+		expect(got.lat![499]).toBeNaN();
+		expect(got.lat![500]).toBe(lat[500]);
+		expect(got.lon![1499]).toBe(lon[1499]);
+		expect(got.lon![1500]).toBeNaN();
+		// Positions change no fuel figure.
+		expect(firstDifference(live.result(), computeFlight({ columns: plain, profile: base.profile, declaration: { kind: 'full' } }))).toBeNull();
+	});
+
 	it('ignores an empty chunk', () => {
 		const live = createLiveComputation({ profile: base.profile, declaration: { kind: 'full' } });
 		expect(live.append(slice(cols, 0, 0))).toEqual({ from: 0, to: 0 });

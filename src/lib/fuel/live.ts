@@ -25,6 +25,10 @@ import {
 	type SampleColumns
 } from './types';
 
+/** Columns a flight may or may not have, possibly from part-way through: blank (NaN) before. */
+const OPTIONAL_FLOATS = ['alt', 'lat', 'lon'] as const;
+type OptionalFloat = (typeof OPTIONAL_FLOATS)[number];
+
 export interface LiveInit extends EngineInputs {
 	/** Samples to make room for up front (the buffers double when full). */
 	initialCapacity?: number;
@@ -59,7 +63,8 @@ class LiveFlight implements LiveComputation {
 	private flow: Float64Array;
 	private gs: Float64Array;
 	private dtg: Float64Array;
-	private alt: Float64Array | null = null;
+	/** The optional Float64 columns (altitude, position), null until a chunk brings one. */
+	private extra: Record<OptionalFloat, Float64Array | null> = { alt: null, lat: null, lon: null };
 	private wpt: Int32Array | null = null;
 	private inputWarnings: EngineWarning[] = [];
 	/** The buffers as columns for the engine; rebuilt only when a buffer is replaced. */
@@ -90,7 +95,10 @@ class LiveFlight implements LiveComputation {
 			gs: this.gs.subarray(0, n),
 			dtg: this.dtg.subarray(0, n)
 		};
-		if (this.alt) cols.alt = this.alt.subarray(0, n);
+		for (const k of OPTIONAL_FLOATS) {
+			const a = this.extra[k];
+			if (a) cols[k] = a.subarray(0, n);
+		}
 		if (this.wpt) cols.wpt = this.wpt.subarray(0, n);
 		return cols;
 	}
@@ -98,7 +106,10 @@ class LiveFlight implements LiveComputation {
 	private fullColumns(): SampleColumns {
 		if (this.full) return this.full;
 		const cols: SampleColumns = { t: this.t, flow: this.flow, gs: this.gs, dtg: this.dtg };
-		if (this.alt) cols.alt = this.alt;
+		for (const k of OPTIONAL_FLOATS) {
+			const a = this.extra[k];
+			if (a) cols[k] = a;
+		}
 		if (this.wpt) cols.wpt = this.wpt;
 		this.full = cols;
 		return cols;
@@ -119,7 +130,10 @@ class LiveFlight implements LiveComputation {
 		this.flow = f64(this.flow);
 		this.gs = f64(this.gs);
 		this.dtg = f64(this.dtg);
-		if (this.alt) this.alt = f64(this.alt, NaN);
+		for (const k of OPTIONAL_FLOATS) {
+			const a = this.extra[k];
+			if (a) this.extra[k] = f64(a, NaN);
+		}
 		if (this.wpt) {
 			const b = new Int32Array(cap);
 			b.set(this.wpt.subarray(0, n));
@@ -140,13 +154,17 @@ class LiveFlight implements LiveComputation {
 		this.gs.set(chunk.gs.subarray(0, m), from);
 		this.dtg.set(chunk.dtg.subarray(0, m), from);
 		// Optional columns may start part-way through a flight: earlier samples read as blank.
-		if (chunk.alt) {
-			if (!this.alt) {
-				this.alt = new Float64Array(this.capacity).fill(NaN);
-				this.full = null;
-			}
-			this.alt.set(chunk.alt.subarray(0, m), from);
-		} else if (this.alt) this.alt.fill(NaN, from, from + m);
+		for (const k of OPTIONAL_FLOATS) {
+			const c = chunk[k];
+			let a = this.extra[k];
+			if (c) {
+				if (!a) {
+					a = this.extra[k] = new Float64Array(this.capacity).fill(NaN);
+					this.full = null;
+				}
+				a.set(c.subarray(0, m), from);
+			} else if (a) a.fill(NaN, from, from + m);
+		}
 		if (chunk.wpt) {
 			if (!this.wpt) {
 				this.wpt = new Int32Array(this.capacity).fill(WPT_NONE);

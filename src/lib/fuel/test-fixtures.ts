@@ -140,6 +140,10 @@ export function slice(cols: SampleColumns, from: number, to: number): SampleColu
 	};
 	if (cols.alt) s.alt = cols.alt.subarray(from, to);
 	if (cols.wpt) s.wpt = cols.wpt.subarray(from, to);
+	if (cols.lat && cols.lon) {
+		s.lat = cols.lat.subarray(from, to);
+		s.lon = cols.lon.subarray(from, to);
+	}
 	return s;
 }
 

@@ -21,6 +21,13 @@ export interface SampleColumns {
 	alt?: Float64Array;
 	/** Waypoint id of the leg being flown; any integer is an id except WPT_NONE. */
 	wpt?: Int32Array;
+	/**
+	 * Position, decimal degrees (WGS 84; north and east positive), both or neither: NaN in both
+	 * where a sample has none. The engine computes nothing from them; they travel with the samples
+	 * so the pages can draw the track on the same index as every figure.
+	 */
+	lat?: Float64Array;
+	lon?: Float64Array;
 }
 
 /** The waypoint id that means "no waypoint" (the smallest Int32). */

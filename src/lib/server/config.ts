@@ -9,6 +9,21 @@ import { z } from 'zod';
 /** An unset variable and an empty one mean the same: not set. */
 const optional = <T extends z.ZodType>(schema: T) => z.preprocess((v) => (v === '' ? undefined : v), schema);
 
+/**
+ * A map tile URL template: http(s), with {z}, {x} and {y}; {s} (a subdomain letter) only as the
+ * host's first label, so the content security policy can allow it as one wildcard source.
+ */
+export function isTileTemplate(v: string): boolean {
+	if (!v.includes('{z}') || !v.includes('{x}') || !v.includes('{y}')) return false;
+	const host = /^https?:\/\/([^/]*)/.exec(v)?.[1];
+	if (host === undefined || /[{}]/.test(host.replace(/^\{s\}\./, ''))) return false;
+	try {
+		return ['http:', 'https:'].includes(new URL(v.replace(/\{[a-z]+\}/g, 'a')).protocol);
+	} catch {
+		return false;
+	}
+}
+
 const envSchema = z.object({
 	DATABASE_URL: optional(z.string().optional()),
 	DATABASE_POOL_MAX: optional(z.coerce.number().int().min(1).default(10)),
@@ -21,7 +36,15 @@ const envSchema = z.object({
 	MAIL_FROM: optional(z.string().default('Burndown <no-reply@burndown.invalid>')),
 	/** Demo mode: the mailbox page and the demo sign-ins. Never set in production. */
 	BURNDOWN_DEMO: optional(z.string().optional()).transform((v) => v === '1'),
-	MAILBOX_DIR: optional(z.string().optional())
+	MAILBOX_DIR: optional(z.string().optional()),
+	/** Map tiles behind the track; none by default (the track draws on a plain background). */
+	MAP_TILE_URL: optional(z.string().refine(isTileTemplate, 'must be an http(s) URL template with {z}, {x} and {y} (and {s} only as the first label of the host)').optional()),
+	/** Who the tiles are from, shown on the map as plain text; required with MAP_TILE_URL. */
+	MAP_TILE_ATTRIBUTION: optional(z.string().max(300).optional()),
+	MAP_TILE_MAX_ZOOM: optional(z.coerce.number().int().min(1).max(22).default(18))
+}).superRefine((c, ctx) => {
+	if (c.MAP_TILE_URL && !c.MAP_TILE_ATTRIBUTION?.trim())
+		ctx.addIssue({ code: 'custom', path: ['MAP_TILE_ATTRIBUTION'], message: 'is required when MAP_TILE_URL is set (the tile provider\'s credit, shown on the map)' });
 });
 
 export type ServerConfig = z.infer<typeof envSchema>;

@@ -77,7 +77,8 @@ export const EVENT_END = 'end';
 export function samplesEventColumns(run: SamplesEvent, waypointIds: Map<string, number>): SampleColumns {
 	const n = run.tMs.length;
 	const rows = new ColumnBuilder(n, waypointIds);
-	for (let i = 0; i < n; i++) rows.push(run.from + i, run.t0Ms + run.tMs[i], run.flow[i], run.gs[i], run.dtg[i], run.alt[i], run.wpt[i]);
+	const { lat, lon } = run;
+	for (let i = 0; i < n; i++) rows.push(run.from + i, run.t0Ms + run.tMs[i], run.flow[i], run.gs[i], run.dtg[i], run.alt[i], run.wpt[i], lat?.[i] ?? null, lon?.[i] ?? null);
 	return rows.columns();
 }
 
@@ -89,13 +90,19 @@ export interface SampleRunRows {
 	dtg: (number | null)[];
 	alt: (number | null)[];
 	wpt: (string | null)[];
+	/**
+	 * Position, degrees WGS 84. Left out of an event whose samples have none, so a flight without
+	 * positions streams exactly as before.
+	 */
+	lat?: (number | null)[];
+	lon?: (number | null)[];
 }
 
 /** The samples event for rows a..n-1 of a run whose first row has sequence `first`; `at` as in SamplesEvent. */
 export function samplesEventOf(run: SampleRunRows, a: number, n: number, first: number, at: number): SamplesEvent {
 	const tMs = run.tMs.slice(a, n);
 	const t0Ms = tMs[0] ?? 0;
-	return {
+	const event: SamplesEvent = {
 		from: first + a,
 		to: first + n - 1,
 		at,
@@ -107,4 +114,13 @@ export function samplesEventOf(run: SampleRunRows, a: number, n: number, first: 
 		alt: run.alt.slice(a, n),
 		wpt: run.wpt.slice(a, n)
 	};
+	if (run.lat && run.lon) {
+		const lat = run.lat.slice(a, n);
+		const lon = run.lon.slice(a, n);
+		if (lat.some((v, i) => v !== null && lon[i] !== null)) {
+			event.lat = lat;
+			event.lon = lon;
+		}
+	}
+	return event;
 }

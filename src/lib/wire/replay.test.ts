@@ -8,7 +8,22 @@ function sample(n: number, withOptional = true): ReplayData {
 	const flow = Float64Array.from({ length: n }, (_, i) => (i % 7 === 3 ? NaN : (31.5 + Math.sin(i)) * 3.785411784));
 	const gs = Float64Array.from({ length: n }, (_, i) => 100 + i / 3);
 	const dtg = Float64Array.from({ length: n }, (_, i) => Math.max(0, 40 - i / 10));
-	const columns = { t, flow, gs, dtg, ...(withOptional ? { alt: Float64Array.from({ length: n }, (_, i) => (i === 2 ? NaN : 4500 + i)), wpt: Int32Array.from({ length: n }, (_, i) => (i < 2 ? WPT_NONE : i % 2)) } : {}) };
+	// Positions to 6 decimals, as recorders and our CSV files give them, one sample without.
+	const deg = (base: number, i: number) => (i === 4 ? NaN : Number((base + i * 0.000137).toFixed(6)));
+	const columns = {
+		t,
+		flow,
+		gs,
+		dtg,
+		...(withOptional
+			? {
+					alt: Float64Array.from({ length: n }, (_, i) => (i === 2 ? NaN : 4500 + i)),
+					wpt: Int32Array.from({ length: n }, (_, i) => (i < 2 ? WPT_NONE : i % 2)),
+					lat: Float64Array.from({ length: n }, (_, i) => deg(47.2, i)),
+					lon: Float64Array.from({ length: n }, (_, i) => deg(-31.4, i))
+				}
+			: {})
+	};
 	return {
 		version: PAYLOAD_VERSION,
 		flight: { id: 'f', title: 'a "quoted" title ✈', status: 'closed', source: 'upload', startedAt: '2025-05-14T09:00:00.123Z', endedAt: null, lastSeq: n - 1, declarationConfirmed: true },
@@ -21,6 +36,7 @@ function sample(n: number, withOptional = true): ReplayData {
 		count: n,
 		hasAlt: withOptional,
 		hasWpt: withOptional,
+		hasPos: withOptional,
 		columns,
 		seq: Int32Array.from({ length: n }, (_, i) => i * 2)
 	};
@@ -30,12 +46,13 @@ const same = (a: ArrayLike<number> | undefined, b: ArrayLike<number> | undefined
 
 describe('replay payload', () => {
 	for (const withOptional of [true, false]) {
-		it(`round-trips every value exactly through both encodings${withOptional ? '' : ' without altitude and waypoints'}`, () => {
+		it(`round-trips every value exactly through both encodings${withOptional ? '' : ' without altitude, waypoints and positions'}`, () => {
 			const data = sample(257, withOptional);
 			const viaJson = decodeJson(JSON.parse(JSON.stringify(encodeJson(data))));
 			const viaBinary = decodeBinary(encodeBinary(data).buffer);
 			for (const got of [viaJson, viaBinary]) {
-				for (const k of ['t', 'flow', 'gs', 'dtg', 'alt', 'wpt'] as const) same(got.columns[k], data.columns[k]);
+				for (const k of ['t', 'flow', 'gs', 'dtg', 'alt', 'wpt', 'lat', 'lon'] as const) same(got.columns[k], data.columns[k]);
+				expect(got.hasPos).toBe(withOptional);
 				same(got.seq, data.seq);
 				expect(got.flight).toEqual(data.flight);
 				expect(got.events).toEqual(data.events);
@@ -44,11 +61,29 @@ describe('replay payload', () => {
 		});
 	}
 
-	it('starts the binary columns on an 8-byte boundary and is 8 or 4 bytes a value', () => {
+	it('starts the binary columns on an 8-byte boundary and is 8 or 4 bytes a value (4 per coordinate)', () => {
 		const bytes = encodeBinary(sample(1000));
 		const header = new DataView(bytes.buffer).getUint32(4, true);
 		expect((8 + header) % 8).toBe(0);
-		expect(bytes.length).toBe(8 + header + 1000 * (5 * 8 + 2 * 4));
+		expect(bytes.length).toBe(8 + header + 1000 * (5 * 8 + 2 * 4 + 2 * 4));
+	});
+
+	it('keeps any position within half of 1e-7 degree in the binary form', () => {
+		const data = sample(300);
+		// Full doubles, as an interpolated or converted position could be.
+		data.columns.lat = Float64Array.from({ length: 300 }, (_, i) => 47.2 + Math.sin(i) / 3);
+		data.columns.lon = Float64Array.from({ length: 300 }, (_, i) => -179.9999999 + i * 1.2345678912);
+		const got = decodeBinary(encodeBinary(data));
+		for (const k of ['lat', 'lon'] as const) {
+			let worst = 0;
+			for (let i = 0; i < 300; i++) worst = Math.max(worst, Math.abs(got.columns[k]![i] - data.columns[k]![i]));
+			expect(worst).toBeLessThanOrEqual(0.5e-7 + 1e-12);
+		}
+	});
+
+	it('refuses to encode positions it was told about but not given', () => {
+		const data = sample(5, false);
+		expect(() => encodeBinary({ ...data, hasPos: true })).toThrow(PayloadError);
 	});
 
 	it('refuses data that is not a payload or is cut short', () => {

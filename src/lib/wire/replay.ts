@@ -1,12 +1,14 @@
 // The replay payload: a flight's samples as columns plus everything the fuel engine needs (the
 // aircraft's fuel setup, the declaration, the fuel events), so the browser runs the same engine
-// the server does. Two encodings of the same content: JSON arrays, and a binary Float64 layout.
+// the server does. Two encodings of the same content: JSON arrays, and a binary layout (Float64
+// columns, positions as Int32 in units of 1e-7 degree).
 // Pure code, used by the samples API (encode) and the replay and live pages (decode).
 import type { AircraftFuelSetup } from '$lib/flight-inputs';
 import { WPT_NONE, type Declaration, type FuelEventKind, type SampleColumns } from '$lib/fuel';
 import type { FuelUnit } from '$lib/units';
 
-export const PAYLOAD_VERSION = 1;
+/** 2: positions (hasPos, lat and lon columns). */
+export const PAYLOAD_VERSION = 2;
 /** First four bytes of the binary layout: "BDS1". */
 export const BINARY_MAGIC = 0x31534442;
 export const BINARY_CONTENT_TYPE = 'application/vnd.burndown.samples';
@@ -43,6 +45,8 @@ export interface PayloadMeta {
 	count: number;
 	hasAlt: boolean;
 	hasWpt: boolean;
+	/** Whether the samples carry positions (lat and lon columns, degrees WGS 84). */
+	hasPos: boolean;
 }
 
 /** What a decoded payload gives the page: the engine's columns plus the recorder sequence. */
@@ -62,6 +66,8 @@ export interface JsonPayload extends PayloadMeta {
 		dtg: (number | null)[];
 		alt?: (number | null)[];
 		wpt?: (number | null)[];
+		lat?: (number | null)[];
+		lon?: (number | null)[];
 	};
 }
 
@@ -92,6 +98,10 @@ export function encodeJson(data: ReplayData): JsonPayload {
 	};
 	if (c.alt) columns.alt = toJsonArray(c.alt);
 	if (c.wpt) columns.wpt = Array.from(c.wpt, (w) => (w === WPT_NONE ? null : w));
+	if (meta.hasPos && c.lat && c.lon) {
+		columns.lat = toJsonArray(c.lat);
+		columns.lon = toJsonArray(c.lon);
+	}
 	return { ...meta, t0Ms, columns };
 }
 
@@ -104,15 +114,30 @@ export function decodeJson(p: JsonPayload): ReplayData {
 	const columns: SampleColumns = { t, flow: fromJsonArray(j.flow), gs: fromJsonArray(j.gs), dtg: fromJsonArray(j.dtg) };
 	if (j.alt) columns.alt = fromJsonArray(j.alt);
 	if (j.wpt) columns.wpt = Int32Array.from(j.wpt, (w) => (w === null ? WPT_NONE : w));
-	return { ...meta, count: n, columns, seq: Int32Array.from(j.seq) };
+	if (j.lat && j.lon) {
+		columns.lat = fromJsonArray(j.lat);
+		columns.lon = fromJsonArray(j.lon);
+	}
+	return { ...meta, hasPos: Boolean(columns.lat), count: n, columns, seq: Int32Array.from(j.seq) };
 }
 
 /*
  * Binary layout, little-endian:
  *   u32 magic "BDS1" · u32 header length H · H bytes of header JSON (PayloadMeta), space-padded
  *   so the columns start on an 8-byte boundary · Float64 t (epoch s), flow, gs, dtg, [alt] ·
- *   Int32 seq, [wpt]. NaN means "not recorded"; [..] columns are present when hasAlt / hasWpt.
+ *   Int32 seq, [wpt], [lat, lon]. NaN means "not recorded"; [..] columns are present when
+ *   hasAlt / hasWpt / hasPos. Positions are Int32 in units of 1e-7 degree (POSITION_NONE for
+ *   none): half the bytes of Float64, about 1 cm on the ground, and exact for any position given
+ *   to 7 decimals or fewer (k ÷ 1e7 is the double nearest to the decimal, as parsing it gives).
  */
+
+/** Units of a binary position: 1e-7 degree (a common scale for positions in binary records; common practice). */
+export const POSITION_SCALE = 1e7;
+/** A sample without a position in the binary layout (the smallest Int32, like WPT_NONE). */
+export const POSITION_NONE = -2147483648;
+
+const toPositionInt = (deg: number): number => (Number.isFinite(deg) ? Math.round(deg * POSITION_SCALE) : POSITION_NONE);
+const fromPositionInt = (v: number): number => (v === POSITION_NONE ? NaN : v / POSITION_SCALE);
 export function encodeBinary(data: ReplayData): Uint8Array<ArrayBuffer> {
 	const { columns: c, seq, ...meta } = data;
 	const n = data.count;
@@ -124,7 +149,11 @@ export function encodeBinary(data: ReplayData): Uint8Array<ArrayBuffer> {
 		header = h;
 	}
 	const floats = [c.t, c.flow, c.gs, c.dtg, ...(meta.hasAlt && c.alt ? [c.alt] : [])];
-	const ints = [seq, ...(meta.hasWpt && c.wpt ? [c.wpt] : [])];
+	const ints: ArrayLike<number>[] = [seq, ...(meta.hasWpt && c.wpt ? [c.wpt] : [])];
+	if (meta.hasPos) {
+		if (!c.lat || !c.lon) throw new PayloadError('hasPos is set but the lat and lon columns are missing.');
+		ints.push(Array.from(c.lat.subarray(0, n), toPositionInt), Array.from(c.lon.subarray(0, n), toPositionInt));
+	}
 	const size = 8 + header.length + floats.length * n * 8 + ints.length * n * 4;
 	const buf = new ArrayBuffer(size);
 	const view = new DataView(buf);
@@ -159,7 +188,7 @@ export function decodeBinary(input: ArrayBuffer | Uint8Array): ReplayData {
 	if (meta.version !== PAYLOAD_VERSION) throw new PayloadError(`Replay data version ${meta.version} is not supported.`);
 	const n = meta.count;
 	const floatCount = meta.hasAlt ? 5 : 4;
-	const intCount = meta.hasWpt ? 2 : 1;
+	const intCount = 1 + (meta.hasWpt ? 1 : 0) + (meta.hasPos ? 2 : 0);
 	if (bytes.length !== 8 + headerLength + n * (floatCount * 8 + intCount * 4))
 		throw new PayloadError('Replay data length does not match its header.');
 	let at = 8 + headerLength;
@@ -179,5 +208,9 @@ export function decodeBinary(input: ArrayBuffer | Uint8Array): ReplayData {
 	if (meta.hasAlt) columns.alt = f64();
 	const seq = i32();
 	if (meta.hasWpt) columns.wpt = i32();
+	if (meta.hasPos) {
+		columns.lat = Float64Array.from(i32(), fromPositionInt);
+		columns.lon = Float64Array.from(i32(), fromPositionInt);
+	}
 	return { ...meta, columns, seq };
 }

@@ -19,12 +19,14 @@ export interface FlightSamples {
 	waypoints: string[];
 	hasAlt: boolean;
 	hasWpt: boolean;
-	/** Latitude and longitude (degrees, WGS 84) per sample, NaN where none; only when asked for, and null when no sample has one. */
+	/** Whether the samples carry positions: then columns.lat and columns.lon (degrees, WGS 84, NaN where none). */
+	hasPos: boolean;
+	/** The same positions, only when asked for (the export's log shows them), null when no sample has one. */
 	positions?: { lat: Float64Array; lon: Float64Array } | null;
 }
 
 export interface LoadOptions {
-	/** Also read each sample's position (the export's log shows it). */
+	/** Also give the positions as `positions` (they are in the columns either way). */
 	positions?: boolean;
 	/** Samples per query (tests read in odd-sized pages). */
 	pageRows?: number;
@@ -51,8 +53,8 @@ function intsOf(b64: string, n: number): Int32Array {
 }
 
 /** Float columns of a page; a null cell comes as NaN. */
-const PACKED = ['ms', 'flow', 'gs', 'dtg', 'alt'] as const;
-type PackedRow = { n: number; seq: string; has_alt: boolean | null; lat?: string | null; lon?: string | null; has_pos?: boolean | null } & Record<(typeof PACKED)[number], string>;
+const PACKED = ['ms', 'flow', 'gs', 'dtg', 'alt', 'lat', 'lon'] as const;
+type PackedRow = { n: number; seq: string; has_alt: boolean | null } & Record<(typeof PACKED)[number], string>;
 
 /**
  * The flight's samples in sequence order, through the engine's one rows→columns builder
@@ -68,18 +70,6 @@ export async function loadSampleColumns(flightId: string, q: Queryable = db, o: 
 	const expected = Math.max(1, Number(counted.rows[0]?.n ?? 0));
 	const builder = new ColumnBuilder(expected);
 	let after = -2147483648;
-	// Positions straight into typed columns (grown like the builder's when a live flight grew).
-	let lat = new Float64Array(o.positions ? expected : 0);
-	let lon = new Float64Array(o.positions ? expected : 0);
-	let at = 0;
-	let hasPosition = false;
-	const positions = o.positions
-		? sql`,
-					encode(string_agg(float8send(coalesce(lat, 'NaN')), ''::bytea), 'base64') as lat,
-					encode(string_agg(float8send(coalesce(lon, 'NaN')), ''::bytea), 'base64') as lon,
-					bool_or(lat is not null and lon is not null) as has_pos`
-		: sql``;
-	const positionCols = o.positions ? sql`, lat, lon` : sql``;
 	for (;;) {
 		// The page is read in seq order by the sorted subquery the aggregates consume (checked below).
 		// Epoch milliseconds as an exact integer: ms ÷ 1000 is the same double Date.getTime() ÷ 1000
@@ -93,8 +83,10 @@ export async function loadSampleColumns(flightId: string, q: Queryable = db, o: 
 					encode(string_agg(float8send(coalesce(gs, 'NaN')), ''::bytea), 'base64') as gs,
 					encode(string_agg(float8send(coalesce(dtg, 'NaN')), ''::bytea), 'base64') as dtg,
 					encode(string_agg(float8send(coalesce(alt, 'NaN')), ''::bytea), 'base64') as alt,
-					bool_or(alt is not null) as has_alt${positions}
-				from (select seq, t, flow, gs, dtg, alt${positionCols} from samples where flight_id = ${flightId} and seq > ${after} order by seq limit ${pageRows}) page`),
+					bool_or(alt is not null) as has_alt,
+					encode(string_agg(float8send(coalesce(lat, 'NaN')), ''::bytea), 'base64') as lat,
+					encode(string_agg(float8send(coalesce(lon, 'NaN')), ''::bytea), 'base64') as lon
+				from (select seq, t, flow, gs, dtg, alt, lat, lon from samples where flight_id = ${flightId} and seq > ${after} order by seq limit ${pageRows}) page`),
 			// The waypoint column as runs: the rows where the name changes ('' is no waypoint).
 			q.execute<{ seq: number; wpt: string | null }>(sql`
 				select seq, wpt from (
@@ -107,7 +99,6 @@ export async function loadSampleColumns(flightId: string, q: Queryable = db, o: 
 		if (n === 0) break;
 		let seq = intsOf(r.seq, n);
 		let cols = PACKED.map((k) => floatsOf(r[k], n));
-		if (o.positions) cols.push(floatsOf(r.lat ?? null, n), floatsOf(r.lon ?? null, n));
 		let ordered = true;
 		for (let i = 1; i < n && ordered; i++) ordered = seq[i] > seq[i - 1];
 		if (!ordered) {
@@ -134,25 +125,13 @@ export async function loadSampleColumns(flightId: string, q: Queryable = db, o: 
 			while (i < n && seq[i] < Number(runs[k].seq)) i++;
 			for (; i < n && seq[i] < until; i++) wpt[i] = id;
 		}
-		if (o.positions) {
-			if (at + n > lat.length) {
-				const size = Math.max(at + n, lat.length * 2);
-				const grown = [new Float64Array(size), new Float64Array(size)];
-				grown[0].set(lat);
-				grown[1].set(lon);
-				[lat, lon] = grown;
-			}
-			lat.set(cols[5], at);
-			lon.set(cols[6], at);
-			hasPosition ||= r.has_pos === true;
-		}
-		at += n;
-		builder.pushBlock({ seq, tMs: cols[0], flow: cols[1], gs: cols[2], dtg: cols[3], alt: cols[4], altRecorded: r.has_alt === true, wpt, names });
+		builder.pushBlock({ seq, tMs: cols[0], flow: cols[1], gs: cols[2], dtg: cols[3], alt: cols[4], lat: cols[5], lon: cols[6], altRecorded: r.has_alt === true, wpt, names });
 		if (n < pageRows) break;
 		after = seq[n - 1];
 	}
-	const out: FlightSamples = { columns: builder.columns(), seq: builder.seq(), waypoints: builder.waypoints(), hasAlt: builder.hasAlt, hasWpt: builder.hasWpt };
-	if (o.positions) out.positions = hasPosition ? { lat: lat.subarray(0, at), lon: lon.subarray(0, at) } : null;
+	const columns = builder.columns();
+	const out: FlightSamples = { columns, seq: builder.seq(), waypoints: builder.waypoints(), hasAlt: builder.hasAlt, hasWpt: builder.hasWpt, hasPos: builder.hasPos };
+	if (o.positions) out.positions = columns.lat && columns.lon ? { lat: columns.lat, lon: columns.lon } : null;
 	return out;
 }
 
@@ -216,6 +195,7 @@ export function replayDataOf(f: LoadedFlight): ReplayData {
 		count: samples.seq.length,
 		hasAlt: samples.hasAlt,
 		hasWpt: samples.hasWpt,
+		hasPos: samples.hasPos,
 		columns: samples.columns,
 		seq: samples.seq
 	};

@@ -98,11 +98,11 @@ export interface SampleRun extends SampleRunRows {
 }
 
 export async function readRun(flightId: string, after: number, upTo: number, limit: number, q: Queryable = db): Promise<SampleRun> {
-	const result = await q.execute<{ seq: number; ms: number; flow: number | null; gs: number | null; dtg: number | null; alt: number | null; wpt: string | null }>(sql`
-		select seq, (extract(epoch from t) * 1000)::float8 as ms, flow, gs, dtg, alt, wpt
+	const result = await q.execute<{ seq: number; ms: number; flow: number | null; gs: number | null; dtg: number | null; alt: number | null; wpt: string | null; lat: number | null; lon: number | null }>(sql`
+		select seq, (extract(epoch from t) * 1000)::float8 as ms, flow, gs, dtg, alt, wpt, lat, lon
 		from samples where flight_id = ${flightId} and seq > ${after} and seq <= ${upTo}
 		order by seq limit ${limit}`);
-	const run: SampleRun = { seq: [], tMs: [], flow: [], gs: [], dtg: [], alt: [], wpt: [] };
+	const run: SampleRun = { seq: [], tMs: [], flow: [], gs: [], dtg: [], alt: [], wpt: [], lat: [], lon: [] };
 	for (const r of result.rows) {
 		run.seq.push(Number(r.seq));
 		run.tMs.push(Math.round(Number(r.ms)));
@@ -111,6 +111,8 @@ export async function readRun(flightId: string, after: number, upTo: number, lim
 		run.dtg.push(r.dtg);
 		run.alt.push(r.alt);
 		run.wpt.push(r.wpt);
+		run.lat!.push(r.lat);
+		run.lon!.push(r.lon);
 	}
 	return run;
 }
@@ -123,6 +125,6 @@ export async function readRun(flightId: string, after: number, upTo: number, lim
 export function runColumns(run: SampleRun, ids: Map<string, number>): SampleColumns {
 	const n = run.seq.length;
 	const b = new ColumnBuilder(n, ids);
-	for (let i = 0; i < n; i++) b.push(run.seq[i], run.tMs[i], run.flow[i], run.gs[i], run.dtg[i], run.alt[i], run.wpt[i]);
+	for (let i = 0; i < n; i++) b.push(run.seq[i], run.tMs[i], run.flow[i], run.gs[i], run.dtg[i], run.alt[i], run.wpt[i], run.lat?.[i] ?? null, run.lon?.[i] ?? null);
 	return b.columns();
 }

@@ -5,6 +5,7 @@ import { aircraftOf } from '$lib/server/aircraft/lookup';
 import { aircraftAt } from '$lib/server/calibration/in-force';
 import { addFuelEvent, addNote, editNote, removeFuelEvent, removeNote, saveDeclaration } from '$lib/server/flights/edit';
 import { planOfFlight } from '$lib/server/plans';
+import { mapTiles } from '$lib/server/map-tiles';
 import { debriefOf } from '$lib/server/debriefs';
 import { listCorrections } from '$lib/server/flights/corrections';
 import { loadEvents } from '$lib/server/flights/load';
@@ -64,6 +65,8 @@ export const load = (async (event) => {
 		corrections,
 		droppedLines,
 		plan,
+		// Tiles behind the track, when the server has a source configured (none by default).
+		tiles: mapTiles(),
 		debriefStatus: debrief.status,
 		declarationValues: declarationFormValues(flight.declaration as Declaration, flight.previousOnBoardL, unit, a.densityKgPerL),
 		unit,

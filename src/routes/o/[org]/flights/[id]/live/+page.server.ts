@@ -14,6 +14,7 @@ import { idleCloseMinutes } from '$lib/server/live/config';
 import { setLiveDeclaration } from '$lib/server/live/declare';
 import { isWatching, setWatching } from '$lib/server/live/watches';
 import { planOfFlight } from '$lib/server/plans';
+import { mapTiles } from '$lib/server/map-tiles';
 import { declarationFormSchema, declarationFormValues, reasonFormSchema } from '$lib/schemas/flight';
 import { failForm, parseForm } from '$lib/schemas/form';
 import type { Actions, PageServerLoad } from './$types';
@@ -51,6 +52,7 @@ export const load = (async (event) => {
 		pilots: mayOnFlight(ctx, flight, 'setPilot') ? (await peopleChoices(flight.orgId)).pilots : [],
 		// The plan (made ahead, or added since): the legs passed so far set against it.
 		plan,
+		tiles: mapTiles(),
 		acked,
 		watchingFlight,
 		watchingAircraft,
