@@ -21,7 +21,13 @@ const envSchema = z.object({
 	MAIL_FROM: optional(z.string().default('Burndown <no-reply@burndown.invalid>')),
 	/** Demo mode: the mailbox page and the demo sign-ins. Never set in production. */
 	BURNDOWN_DEMO: optional(z.string().optional()).transform((v) => v === '1'),
-	MAILBOX_DIR: optional(z.string().optional())
+	MAILBOX_DIR: optional(z.string().optional()),
+	/**
+	 * Hours an open live flight stays open after its last batch when that batch ended with the
+	 * engine stopped on the ground: a planned stop between legs, not a forgotten recorder. Our
+	 * default, 4 h; a link lost with the engine running keeps the shorter idle time of live/config.ts.
+	 */
+	LIVE_STOP_OPEN_HOURS: optional(z.coerce.number().min(0.1).max(48).default(4))
 });
 
 export type ServerConfig = z.infer<typeof envSchema>;

@@ -5,6 +5,7 @@ import { aircraftOf } from '$lib/server/aircraft/lookup';
 import { aircraftAt } from '$lib/server/calibration/in-force';
 import { addFuelEvent, addNote, editNote, removeFuelEvent, removeNote, saveDeclaration } from '$lib/server/flights/edit';
 import { planOfFlight } from '$lib/server/plans';
+import { alarmAcksOf } from '$lib/server/live/acks';
 import { debriefOf } from '$lib/server/debriefs';
 import { listCorrections } from '$lib/server/flights/corrections';
 import { loadEvents } from '$lib/server/flights/load';
@@ -23,14 +24,15 @@ import type { Actions, PageServerLoad } from './$types';
 export const load = (async (event) => {
 	const ctx = await requireFlight(event, event.params.org, event.params.id, 'view');
 	const { flight, user, role } = ctx;
-	const [a, events, corrections, notes, plan, debrief, people] = await Promise.all([
+	const [a, events, corrections, notes, plan, debrief, people, alarmAcks] = await Promise.all([
 		aircraftOf(flight),
 		loadEvents(flight.id),
 		listCorrections(flight.id),
 		listNotes(flight.id),
 		planOfFlight(flight.id),
 		debriefOf(flight.id),
-		flightPeople(flight)
+		flightPeople(flight),
+		alarmAcksOf(flight.id)
 	]);
 	const mayEdit = mayOnFlight(ctx, flight, 'edit');
 	const unit = user.prefFuelUnit ?? a.displayUnit;
@@ -59,6 +61,8 @@ export const load = (async (event) => {
 		events: events.map((e) => ({ id: e.id, t: e.t.getTime() / 1000, kind: e.kind, amountL: e.amountL, note: e.note })),
 		notes,
 		corrections,
+		// Who acknowledged the alarms raised while it was followed live, for the timeline.
+		alarmAcks,
 		plan,
 		debriefStatus: debrief.status,
 		declarationValues: declarationFormValues(flight.declaration as Declaration, flight.previousOnBoardL, unit, a.densityKgPerL),
