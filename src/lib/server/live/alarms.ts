@@ -101,6 +101,8 @@ export async function syncAlarms(q: Queryable, flight: Flight, computed: Compute
 			}
 		} else if ((row.clearedAt?.getTime() ?? null) !== (clearedAt?.getTime() ?? null)) {
 			await q.update(flightAlarms).set({ clearedAt }).where(eq(flightAlarms.id, row.id));
+			// Later episodes of this batch compare with the row as it is now, not as first read.
+			row.clearedAt = clearedAt;
 			changed = true;
 		}
 	}
