@@ -10,8 +10,7 @@ import path from 'node:path';
 import { expect, test, type APIRequestContext, type Browser, type Page } from '@playwright/test';
 import { DEMO_ORG, DEMO_USERS, ORIGIN, signIn } from './support';
 
-// The trainer BD-KTR (scripts/demo-scenario.ts): low-fuel alarm below 10 US gal; the demo
-// instructor watches it, so its alarms e-mail one watcher.
+// The trainer BD-KTR (scripts/demo-scenario.ts): low-fuel alarm below 10 US gal.
 const TRAINER_TOKEN = 'bdr_demo_kestrel_trainer_0002';
 const US_GAL = 3.785411784; // NIST Handbook 44, Appendix C
 const PILOT_NAME = 'Theo Lindqvist';
@@ -113,9 +112,13 @@ test('an acknowledgement is shared: one acknowledges, the others see who and whe
 	const viewer = await signedInPage(browser, DEMO_USERS.viewer);
 	try {
 		for (const p of [pilot, instructor, viewer]) await p.goto(liveUrl(rec.flightId));
+		// The instructor watches this flight (the demo's watch of the aircraft may have been turned
+		// off by other tests): its alarms e-mail exactly one watcher.
+		await instructor.getByTestId('watch-flight').click();
+		await expect(instructor.getByTestId('watch-flight')).toHaveText('Watching ✓');
 		await rec.send(samplesFrom(0, 420, start));
 		for (const p of [pilot, instructor, viewer]) await expect(p.getByTestId('alarm-banner').filter({ hasText: 'Low fuel on board' })).toBeVisible({ timeout: 15_000 });
-		// The instructor watches this aircraft: the banner says one watcher was e-mailed, once it was.
+		// The banner says one watcher was e-mailed, once it was.
 		await expect(instructor.getByTestId('alarm-banner').filter({ hasText: 'Low fuel on board' })).toContainText('e-mailed to 1 watcher', { timeout: 15_000 });
 		// Read-only: the alarm, never the button.
 		await expect(viewer.getByTestId('ack-alarm')).toHaveCount(0);
