@@ -250,7 +250,9 @@ for (const size of SIZES)
 				const cockpit = (await page.getByTestId('cockpit').boundingBox())!;
 				expect(cockpit.y + cockpit.height).toBeLessThanOrEqual(size.height);
 				expect(cockpit.y).toBeLessThan((await page.getByTestId('caution-folded').boundingBox())!.y);
-				// The page header stays on one row.
+				// The site's header and the page's header each stay on one row.
+				expect((await page.locator('body > div header, header').first().boundingBox())!.height).toBeLessThan(70);
+				await expect(page.getByTestId('awake')).toBeVisible();
 				const registration = (await page.locator('h1').boundingBox())!;
 				const units = (await page.getByTestId('live-units').boundingBox())!;
 				expect(Math.abs(units.y + units.height / 2 - (registration.y + registration.height / 2))).toBeLessThan(12);
