@@ -157,7 +157,8 @@ export function ackWords(by: string, atS: number): string {
  * What the alarm banner says about e-mail: only that e-mails went out when they did, and to how
  * many watchers; nothing while the e-mail step has not run yet.
  */
-export function alarmMailWords(a: { emailed: boolean; mailedTo: number }): string {
+export function alarmMailWords(a: { emailed: boolean; mailedTo: number | null }): string {
+	if (a.mailedTo === null) return '';
 	if (a.mailedTo > 0) return `e-mailed to ${a.mailedTo} ${a.mailedTo === 1 ? 'watcher' : 'watchers'}`;
 	return a.emailed ? 'no watcher was e-mailed' : '';
 }

@@ -25,3 +25,17 @@ describe('the live page state', () => {
 		expect(liveState({ ...base, denied: true })).toBe('denied');
 	});
 });
+
+describe('what the alarm banner says about e-mail', () => {
+	it('says e-mails were sent only when they were, and to how many', async () => {
+		const { alarmMailWords, liveStateLabels } = await import('./labels');
+		expect(alarmMailWords({ emailed: true, mailedTo: 2 })).toBe('e-mailed to 2 watchers');
+		expect(alarmMailWords({ emailed: true, mailedTo: 1 })).toBe('e-mailed to 1 watcher');
+		expect(alarmMailWords({ emailed: true, mailedTo: 0 })).toBe('no watcher was e-mailed');
+		// Not yet known (still sending), or an alarm from before the count was kept: nothing said.
+		expect(alarmMailWords({ emailed: false, mailedTo: 0 })).toBe('');
+		expect(alarmMailWords({ emailed: true, mailedTo: null })).toBe('');
+		// Every state has its words, and no two states share them.
+		expect(new Set(Object.values(liveStateLabels)).size).toBe(Object.keys(liveStateLabels).length);
+	});
+});

@@ -34,8 +34,11 @@ export interface WireAlarm {
 	value: number | null;
 	/** The e-mail step ran for this episode (once, on one instance). */
 	emailed: boolean;
-	/** Watchers actually e-mailed about it: 0 when nobody watches, or all were in their quiet period. */
-	mailedTo: number;
+	/**
+	 * Watchers actually e-mailed about it: 0 when nobody watches, or all were in their quiet
+	 * period; null when not known (an alarm e-mailed before the count was kept).
+	 */
+	mailedTo: number | null;
 	/** Who acknowledged it and when (epoch seconds), oldest first; shared by every viewer. */
 	acks: { by: string; at: number }[];
 }

@@ -537,8 +537,11 @@ export const flightAlarms = pgTable(
 		value: doublePrecision(),
 		/** When the e-mail step claimed this crossing (at most once, across instances). */
 		emailedAt: tstz(),
-		/** Watchers actually e-mailed about this episode (alarm_mails rows whose message was sent). */
-		mailedCount: integer().notNull().default(0),
+		/**
+		 * Watchers actually e-mailed about this episode (alarm_mails rows whose message was sent);
+		 * null for alarms e-mailed before this was counted, when nobody knows.
+		 */
+		mailedCount: integer().default(0),
 		createdAt: tstz().notNull().defaultNow()
 	},
 	(t) => [uniqueIndex().on(t.flightId, t.kind, t.raisedAt)]

@@ -120,7 +120,7 @@ export async function syncAlarms(q: Queryable, flight: Flight, computed: Compute
 /** Copies the e-mail record and the acknowledgements of earlier rows of one episode onto its new row. */
 async function carryOver(q: Queryable, earlier: readonly FlightAlarm[], toId: string): Promise<void> {
 	const mailed = earlier.find((row) => row.emailedAt !== null);
-	if (mailed) await q.update(flightAlarms).set({ emailedAt: mailed.emailedAt, mailedCount: Math.max(...earlier.map((row) => row.mailedCount)) }).where(eq(flightAlarms.id, toId));
+	if (mailed) await q.update(flightAlarms).set({ emailedAt: mailed.emailedAt, mailedCount: mailed.mailedCount }).where(eq(flightAlarms.id, toId));
 	if (earlier.length === 0) return;
 	const ids = earlier.map((row) => row.id);
 	const acks = await q.select().from(alarmAcks).where(inArray(alarmAcks.alarmId, ids));
