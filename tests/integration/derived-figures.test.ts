@@ -8,7 +8,7 @@ import { beforeAll, describe, expect, it } from 'vitest';
 import type { RequestEvent } from '@sveltejs/kit';
 import { isHttpError } from '@sveltejs/kit';
 import { asc, desc, eq } from 'drizzle-orm';
-import type { CorrectionView, DeclarationSnapshot, EventSnapshot } from '$lib/corrections';
+import type { CorrectionView, DeclarationSnapshot, EventSnapshot } from '$lib/wire/corrections';
 import { db, pool } from '$lib/server/db';
 import { aircraft, calibrations, flightFigures, flightPhaseFigures, flights, fuelCorrections, fuelEvents, memberships, organisations, users } from '$lib/server/db/schema';
 import { loadFlight } from '$lib/server/flights/load';
@@ -22,7 +22,7 @@ import { actions as reconciliationActions } from '../../src/routes/o/[org]/aircr
 import { generateFlight, insertFlight } from './replay-fixture';
 
 const stamp = Date.now().toString(36);
-const person = (key: string, name: string) => ({ id: `df-${key}-${stamp}`, email: `${key}-${stamp}@derived.example`, name, prefFuelUnit: null });
+const person = (key: string, name: string) => ({ id: `df-${key}-${stamp}`, email: `${key}-${stamp}@derived.example`, name, prefFuelUnit: null, timeZone: null });
 const U = { admin: person('admin', 'Ada Admin'), pilot: person('pilot', 'Pia Pilot'), viewer: person('viewer', 'Vic Viewer'), outsider: person('out', 'Olga Outsider') };
 type TestUser = (typeof U)[keyof typeof U];
 
@@ -133,7 +133,7 @@ beforeAll(async () => {
 		displayUnit: 'usgal' as const,
 		lowFuelL: 10 * LITRES_PER_US_GALLON,
 		lowEnduranceMin: 45,
-		reserveRule: 'faa-91.151-vfr-day',
+		reserveRule: 'faa-91.151-vfr-day' as const,
 		baselineCruiseLph: 31,
 		lastOnBoardL: 30 * LITRES_PER_US_GALLON
 	});
