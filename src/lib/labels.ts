@@ -76,6 +76,7 @@ export const apiTokenScopeLabels: Record<ApiTokenScope, string> = {
 	read: 'Read only',
 	upload: 'Read and upload'
 };
+import type { LiveState } from '$lib/live-state';
 
 export const debriefStatusLabels: Record<DebriefStatus, string> = {
 	draft: 'Draft — not yet shown to the student',
@@ -217,6 +218,68 @@ export const bandPositionLabels = {
 	within: 'within usual',
 	above: 'above usual'
 } as const satisfies Record<BandPosition, string>;
+// The live page's states (src/lib/live-state.ts): the badge beside the registration.
+export const liveStateLabels: Record<LiveState, string> = {
+	connecting: 'connecting…',
+	'link-lost': 'your connection is lost',
+	denied: 'not yours to watch',
+	ended: 'flight finished',
+	'engine-stopped': 'engine stopped',
+	'no-data': 'no data from the aircraft',
+	live: 'live'
+};
+
+/** "acknowledged by Ann at 10:14:05 UTC", from epoch seconds. */
+export function ackWords(by: string, atS: number): string {
+	return `acknowledged by ${by} at ${new Date(Math.round(atS * 1000)).toISOString().slice(11, 19)} UTC`;
+}
+
+/**
+ * What the alarm banner says about e-mail: only that e-mails went out when they did, and to how
+ * many watchers; nothing while the e-mail step has not run yet.
+ */
+export function alarmMailWords(a: { emailed: boolean; mailedTo: number | null }): string {
+	if (a.mailedTo === null) return '';
+	if (a.mailedTo > 0) return `e-mailed to ${a.mailedTo} ${a.mailedTo === 1 ? 'watcher' : 'watchers'}`;
+	return a.emailed ? 'no watcher was e-mailed' : '';
+}
+
+/** The live page's scrubber: following the newest sample, and the one control back to it. */
+export const liveFollowWords = {
+	following: 'Following the newest sample',
+	backToNow: 'Back to now'
+} as const;
+
+/** The live page's large figures at the newest sample. */
+export const cockpitWords = {
+	title: 'Now, at the newest sample',
+	onBoard: 'Fuel on board',
+	endurance: 'Endurance at this flow',
+	arrival: 'Left on arrival',
+	againstReserve: 'against the reserve',
+	flow: 'Fuel flow'
+} as const;
+
+/** The live page's own sentences, beside its states. */
+export const liveWords = {
+	watch: 'Watch (alarm e-mails)',
+	watching: 'Watching ✓',
+	watchTitle: 'Alarm e-mails for this flight: on or off',
+	units: 'Units',
+	soundOff: 'Alarm sound: off',
+	soundOn: 'Alarm sound: on',
+	awake: 'screen kept on while following',
+	ack: 'Acknowledge',
+	acking: 'Acknowledging…',
+	cautionRead: 'I have read this',
+	cautionMore: 'Tap for the whole caution.',
+	finished: 'This flight is finished and kept with everything received.',
+	stoppedTitle: (since: string) => `Engine stopped on the ground since ${since} UTC`,
+	stoppedText: (hours: number) =>
+		`A stop between legs, or the end of the trip. The flight stays open for up to ${hours} h without data, so the next leg joins it; the recorder's close call can end it sooner.`,
+	lastDataAgo: (ago: string) => `Last data received ${ago} ago.`,
+	idleText: (minutes: number) => `If nothing comes for ${minutes} minutes, the flight is closed and kept with what was received.`
+} as const;
 
 /** The time-zone preference on the account page. */
 export const timeZoneWords = {

@@ -23,9 +23,10 @@ test("the viewer's own lost connection is named as such, and the page recovers w
 	await expect(page.getByTestId('last-sample')).toHaveText('Nothing received yet: your connection to Burndown is down.');
 	await expect(page.getByText('Waiting for the first samples from the recorder')).toHaveCount(0);
 
-	// The link comes back: the samples arrive and the badge says the flight has closed.
+	// The link comes back: the samples arrive and the badge says the flight is finished.
 	await page.unroute(stream);
 	await expect(page.getByTestId('last-sample')).toHaveText(/11,457 samples/, { timeout: 20_000 });
-	await expect(status).toHaveText('closed');
+	await expect(status).toHaveText('flight finished');
+	await expect(status).toHaveAttribute('data-state', 'ended');
 	await expect(page.getByTestId('link-banner')).toHaveCount(0);
 });

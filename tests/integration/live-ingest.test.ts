@@ -249,9 +249,9 @@ describe('opening and closing', () => {
 	it('closes flights idle for longer than the idle time, once', async () => {
 		const r = await call('samples', w.tokenA, { samples: samples(0, 3) });
 		const flightId = r.body.flightId;
-		expect(await sweepIdleFlights(new Date(), 30)).not.toContain(flightId);
+		expect(await sweepIdleFlights(new Date(), { idleMinutes: 30 })).not.toContain(flightId);
 		await db.update(flights).set({ updatedAt: new Date(Date.now() - 31 * 60_000) }).where(eq(flights.id, flightId));
-		const [first, second] = await Promise.all([sweepIdleFlights(new Date(), 30), sweepIdleFlights(new Date(), 30)]);
+		const [first, second] = await Promise.all([sweepIdleFlights(new Date(), { idleMinutes: 30 }), sweepIdleFlights(new Date(), { idleMinutes: 30 })]);
 		expect([...first, ...second].filter((id) => id === flightId)).toHaveLength(1);
 		const [f] = await db.select().from(flights).where(eq(flights.id, flightId));
 		expect(f.status).toBe('closed');

@@ -25,6 +25,7 @@
 //   waypoint.ts     endurance, time/fuel to the next waypoint, specific range
 //   window.ts       largest value over a trailing time window (margins that held)
 //   phases.ts       stopped / taxi / climb / cruise / descent
+//   standstill.ts   one sample on the ground with the engine stopped (flow and ground speed about zero)
 //   alarms.ts       low fuel, low endurance, arrival below the reserve: persistence, hysteresis
 //   reserve.ts      legal reserve rules as data, the normal-cruise flow and the reserve amount
 //   summary.ts      summarize(): the flight summary for the debrief
@@ -70,6 +71,7 @@ export {
 	phaseNames,
 	type PhaseName
 } from './phases';
+export { engineStoppedOnGround, STANDING_GS_KT, STOPPED_FLOW_LPH } from './standstill';
 export { DEFAULT_HYSTERESIS, DEFAULT_PERSIST_S, enduranceJudgeFlow } from './alarms';
 export { arrivalCode } from './stages/arrival';
 export {

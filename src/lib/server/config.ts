@@ -37,6 +37,12 @@ const envSchema = z.object({
 	/** Demo mode: the mailbox page and the demo sign-ins. Never set in production. */
 	BURNDOWN_DEMO: optional(z.string().optional()).transform((v) => v === '1'),
 	MAILBOX_DIR: optional(z.string().optional()),
+	/**
+	 * Hours an open live flight stays open after its last batch when that batch ended with the
+	 * engine stopped on the ground: a planned stop between legs, not a forgotten recorder. Our
+	 * default, 4 h; a link lost with the engine running keeps the shorter idle time of live/config.ts.
+	 */
+	LIVE_STOP_OPEN_HOURS: optional(z.coerce.number().min(0.1).max(48).default(4)),
 	/** Map tiles behind the track; none by default (the track draws on a plain background). */
 	MAP_TILE_URL: optional(z.string().refine(isTileTemplate, 'must be an http(s) URL template with {z}, {x} and {y} (and {s} only as the first label of the host)').optional()),
 	/** Who the tiles are from, shown on the map as plain text; required with MAP_TILE_URL. */

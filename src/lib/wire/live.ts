@@ -32,7 +32,25 @@ export interface WireAlarm {
 	raisedAt: number;
 	clearedAt: number | null;
 	value: number | null;
+	/** The e-mail step ran for this episode (once, on one instance). */
 	emailed: boolean;
+	/**
+	 * Watchers actually e-mailed about it: 0 when nobody watches, or all were in their quiet
+	 * period; null when not known (an alarm e-mailed before the count was kept).
+	 */
+	mailedTo: number | null;
+	/** Who acknowledged it and when (epoch seconds), oldest first; shared by every viewer. */
+	acks: { by: string; at: number }[];
+}
+
+/** One acknowledgement of a stored alarm, for the timeline of the live and replay pages. */
+export interface AlarmAck {
+	alarmId: string;
+	kind: AlarmKind;
+	/** Epoch seconds, as WireAlarm.raisedAt. */
+	raisedAt: number;
+	by: string;
+	at: number;
 }
 
 /** Everything about the flight but its samples; sent on connect and after every change. */

@@ -599,7 +599,13 @@ export const flightAlarms = pgTable(
 		raisedAt: tstz().notNull(),
 		clearedAt: tstz(),
 		value: doublePrecision(),
+		/** When the e-mail step claimed this crossing (at most once, across instances). */
 		emailedAt: tstz(),
+		/**
+		 * Watchers actually e-mailed about this episode (alarm_mails rows whose message was sent);
+		 * null for alarms e-mailed before this was counted, when nobody knows.
+		 */
+		mailedCount: integer().default(0),
 		createdAt: tstz().notNull().defaultNow()
 	},
 	(t) => [uniqueIndex().on(t.flightId, t.kind, t.raisedAt)]
@@ -618,6 +624,24 @@ export const alarmAcks = pgTable(
 		at: tstz().notNull().defaultNow()
 	},
 	(t) => [primaryKey({ columns: [t.alarmId, t.userId] })]
+);
+
+/**
+ * One row per alarm episode and watcher e-mailed: never two e-mails for one episode to one
+ * watcher, and the quiet period (alarms.ts) looks here for the watcher's last alarm e-mail.
+ */
+export const alarmMails = pgTable(
+	'alarm_mails',
+	{
+		alarmId: uuid()
+			.notNull()
+			.references(() => flightAlarms.id, { onDelete: 'cascade' }),
+		userId: text()
+			.notNull()
+			.references(() => users.id, { onDelete: 'cascade' }),
+		sentAt: tstz().notNull().defaultNow()
+	},
+	(t) => [primaryKey({ columns: [t.alarmId, t.userId] }), index().on(t.userId)]
 );
 
 /** A member watching an aircraft (owner) or one flight (instructor) for alarm e-mails. */

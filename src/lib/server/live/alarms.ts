@@ -2,16 +2,17 @@
 // retried batch or a second instance never raises one twice), and one e-mail per episode to each
 // member watching the aircraft or the flight, with the figures at that moment. The engine decides
 // what an episode is (persistence and hysteresis, src/lib/fuel/alarms.ts).
-import { and, eq, inArray, isNull, or } from 'drizzle-orm';
+import { and, eq, gt, inArray, isNull, lte, ne, or } from 'drizzle-orm';
 import { mayOnFlight } from '../access';
 import { db } from '../db';
-import { aircraft, flightAlarms, flights, memberships, organisations, users, watches, type Aircraft, type Flight } from '../db/schema';
+import { aircraft, alarmAcks, alarmMails, flightAlarms, flights, memberships, organisations, users, watches, type Aircraft, type Flight, type FlightAlarm } from '../db/schema';
 import { link, sendMail } from '../mail';
 import { dateTimeText, formatDuration, fuel, fuelFlow, fuelMargin, signedMinutes } from '$lib/format';
 import { alarmLabels, MARGIN_ROUNDING_NOTE } from '$lib/labels';
 import type { AlarmKind } from '$lib/fuel';
 import { fromLitres } from '$lib/units';
 import type { Computed } from './computation';
+import { notify } from './flights';
 import type { Queryable } from './samples';
 
 export type { AlarmKind };
@@ -55,8 +56,8 @@ export async function syncAlarms(q: Queryable, flight: Flight, computed: Compute
 	const toMail: NewAlarm[] = [];
 	// One e-mail per episode: a recomputed flight (a corrected declaration) can move an episode's
 	// raise time; when an e-mailed row of the same kind overlaps the new one, it is the same episode.
-	const mailedOverlap = (kind: string, from: number, to: number | null) =>
-		rows.some((row) => row.kind === kind && row.emailedAt !== null && row.raisedAt.getTime() <= (to ?? Infinity) && (row.clearedAt?.getTime() ?? Infinity) >= from);
+	const overlapping = (kind: string, from: number, to: number | null) =>
+		rows.filter((row) => row.kind === kind && row.raisedAt.getTime() <= (to ?? Infinity) && (row.clearedAt?.getTime() ?? Infinity) >= from);
 	let changed = false;
 	const lastT = r.length > 0 ? r.stats.lastT : null;
 	for (const ep of r.alarms) {
@@ -73,7 +74,10 @@ export async function syncAlarms(q: Queryable, flight: Flight, computed: Compute
 				.returning({ id: flightAlarms.id });
 			if (!inserted) continue;
 			changed = true;
-			const sameEpisode = mailedOverlap(ep.kind, Math.round(ep.belowSince * 1000), ep.clearedAt === null ? null : Math.round(ep.clearedAt * 1000));
+			const earlier = overlapping(ep.kind, Math.round(ep.belowSince * 1000), ep.clearedAt === null ? null : Math.round(ep.clearedAt * 1000));
+			const sameEpisode = earlier.some((row) => row.emailedAt !== null);
+			// The same episode keeps what was already said and done about it: e-mails and acknowledgements.
+			await carryOver(q, earlier, inserted.id);
 			if (!sameEpisode && (ep.clearedAt === null || ep.raisedIndex >= computed.newFrom)) {
 				const i = ep.raisedIndex;
 				const w = r.length > i ? computed.comp.columns().wpt?.[i] : undefined;
@@ -96,6 +100,8 @@ export async function syncAlarms(q: Queryable, flight: Flight, computed: Compute
 			}
 		} else if ((row.clearedAt?.getTime() ?? null) !== (clearedAt?.getTime() ?? null)) {
 			await q.update(flightAlarms).set({ clearedAt }).where(eq(flightAlarms.id, row.id));
+			// Later episodes of this batch compare with the row as it is now, not as first read.
+			row.clearedAt = clearedAt;
 			changed = true;
 		}
 	}
@@ -108,6 +114,18 @@ export async function syncAlarms(q: Queryable, flight: Flight, computed: Compute
 		changed = true;
 	}
 	return { changed, toMail };
+}
+
+/** Copies the e-mail record and the acknowledgements of earlier rows of one episode onto its new row. */
+async function carryOver(q: Queryable, earlier: readonly FlightAlarm[], toId: string): Promise<void> {
+	const mailed = earlier.find((row) => row.emailedAt !== null);
+	if (mailed) await q.update(flightAlarms).set({ emailedAt: mailed.emailedAt, mailedCount: mailed.mailedCount }).where(eq(flightAlarms.id, toId));
+	if (earlier.length === 0) return;
+	const ids = earlier.map((row) => row.id);
+	const acks = await q.select().from(alarmAcks).where(inArray(alarmAcks.alarmId, ids));
+	if (acks.length > 0) await q.insert(alarmAcks).values(acks.map((a) => ({ alarmId: toId, userId: a.userId, at: a.at }))).onConflictDoNothing();
+	const mails = await q.select().from(alarmMails).where(inArray(alarmMails.alarmId, ids));
+	if (mails.length > 0) await q.insert(alarmMails).values(mails.map((m) => ({ alarmId: toId, userId: m.userId, sentAt: m.sentAt }))).onConflictDoNothing();
 }
 
 // The words the replay and live pages use for the same alarms.
@@ -167,8 +185,38 @@ export async function watchersOf(flight: Flight): Promise<{ id: string; email: s
 }
 
 /**
+ * A watcher e-mailed about an alarm of a flight is not e-mailed again about the same kind of
+ * alarm on that flight raised less than this long after (flight time): an alarm that clears and
+ * comes back around its threshold is one worry, not a stream of messages. Our choice.
+ */
+export const ALARM_MAIL_QUIET_S = 15 * 60;
+
+/** Whether the watcher was e-mailed about this kind of alarm on this flight raised within the quiet period before `raisedAt`. */
+async function inQuietPeriod(flightId: string, kind: AlarmKind, raisedAt: Date, userId: string, alarmId: string): Promise<boolean> {
+	const [hit] = await db
+		.select({ id: flightAlarms.id })
+		.from(alarmMails)
+		.innerJoin(flightAlarms, eq(flightAlarms.id, alarmMails.alarmId))
+		.where(
+			and(
+				eq(alarmMails.userId, userId),
+				eq(flightAlarms.flightId, flightId),
+				eq(flightAlarms.kind, kind),
+				ne(flightAlarms.id, alarmId),
+				lte(flightAlarms.raisedAt, raisedAt),
+				gt(flightAlarms.raisedAt, new Date(raisedAt.getTime() - ALARM_MAIL_QUIET_S * 1000))
+			)
+		)
+		.limit(1);
+	return !!hit;
+}
+
+/**
  * Sends the e-mails of alarms just committed. Each alarm is claimed first (emailed_at set where it
- * was null), so two instances, or a retry after a crash, never mail one crossing twice.
+ * was null), so two instances, or a retry after a crash, never mail one crossing twice; each
+ * watcher gets an alarm_mails row before the message goes out (one per episode per watcher), none
+ * within the quiet period. The alarm's mailed_count is the watchers actually e-mailed, which the
+ * live page shows; viewers are told once it is known.
  */
 export async function mailAlarms(flightId: string, alarms: readonly NewAlarm[]): Promise<number> {
 	if (alarms.length === 0) return 0;
@@ -184,23 +232,33 @@ export async function mailAlarms(flightId: string, alarms: readonly NewAlarm[]):
 		.update(flightAlarms)
 		.set({ emailedAt: new Date() })
 		.where(and(inArray(flightAlarms.id, alarms.map((a) => a.id)), isNull(flightAlarms.emailedAt)))
-		.returning({ id: flightAlarms.id });
-	const mine = new Set(claimed.map((c) => c.id));
+		.returning({ id: flightAlarms.id, raisedAt: flightAlarms.raisedAt });
+	const mine = new Map(claimed.map((c) => [c.id, c.raisedAt]));
 	const recipients = mine.size > 0 ? await watchersOf(row.flight) : [];
 	let sent = 0;
 	const url = link(`/o/${row.slug}/flights/${flightId}/live`);
 	for (const a of alarms) {
-		if (!mine.has(a.id)) continue;
+		const raisedAt = mine.get(a.id);
+		if (!raisedAt) continue;
+		let count = 0;
 		for (const r of recipients) {
+			if (await inQuietPeriod(flightId, a.figures.kind, raisedAt, r.id, a.id)) continue;
+			const [mark] = await db.insert(alarmMails).values({ alarmId: a.id, userId: r.id }).onConflictDoNothing().returning({ userId: alarmMails.userId });
+			if (!mark) continue;
 			const mail = alarmMail(a.figures, { registration: row.registration, displayUnit: row.displayUnit, densityKgPerL: row.densityKgPerL, url, timeZone: r.timeZone });
 			try {
 				await sendMail({ to: r.email, ...mail });
-				sent++;
+				count++;
 			} catch (error) {
-				// At most once: the crossing stays marked as mailed; the failure is in the log.
+				// At most once: the crossing stays claimed; the watcher is not counted as e-mailed.
+				await db.delete(alarmMails).where(and(eq(alarmMails.alarmId, a.id), eq(alarmMails.userId, r.id)));
 				console.error(`[live] alarm mail to ${r.email} failed:`, (error as Error).message);
 			}
 		}
+		sent += count;
+		if (count > 0) await db.update(flightAlarms).set({ mailedCount: count }).where(eq(flightAlarms.id, a.id));
 	}
+	// The banner says whether e-mails went out, and to how many: tell the viewers.
+	if (mine.size > 0) await notify(db, { f: flightId, s: row.flight.lastSeq, at: Date.now(), m: 1 });
 	return sent;
 }

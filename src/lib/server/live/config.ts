@@ -15,9 +15,10 @@ export const MAX_BATCH_BYTES = 512 * 1024;
 export const MAX_BATCH_LABEL = '512 KiB';
 
 /**
- * An open live flight with no batch received for this long is closed by the sweeper: longer than
- * a link outage over open country (the recorder sends its backlog when it reconnects), short
- * enough that a flight forgotten at shutdown closes before the next one the same day.
+ * An open live flight with no batch received for this long, the engine running at its last sample,
+ * is closed by the sweeper: longer than a link outage over open country (the recorder sends its
+ * backlog when it reconnects). With the engine stopped on the ground at the last sample it is a
+ * planned stop, kept open for LIVE_STOP_OPEN_HOURS instead (src/lib/server/config.ts, sweeper.ts).
  */
 export function idleCloseMinutes(): number {
 	return num('LIVE_IDLE_CLOSE_MINUTES', 30, 1, 24 * 60);

@@ -4,15 +4,17 @@ import { asc, eq } from 'drizzle-orm';
 import { db } from '../db';
 import { flightAlarms, flights, fuelEvents } from '../db/schema';
 import type { MetaEvent } from '$lib/wire/live';
+import { alarmAcksOf } from './acks';
 
 export type FlightMeta = Omit<MetaEvent, 'v' | 'serverTime'>;
 
 export async function loadMeta(flightId: string): Promise<FlightMeta | null> {
 	const [f] = await db.select().from(flights).where(eq(flights.id, flightId)).limit(1);
 	if (!f) return null;
-	const [events, alarms] = await Promise.all([
+	const [events, alarms, acks] = await Promise.all([
 		db.select().from(fuelEvents).where(eq(fuelEvents.flightId, flightId)).orderBy(asc(fuelEvents.t), asc(fuelEvents.createdAt)),
-		db.select().from(flightAlarms).where(eq(flightAlarms.flightId, flightId)).orderBy(asc(flightAlarms.raisedAt))
+		db.select().from(flightAlarms).where(eq(flightAlarms.flightId, flightId)).orderBy(asc(flightAlarms.raisedAt)),
+		alarmAcksOf(flightId)
 	]);
 	return {
 		flight: {
@@ -35,7 +37,9 @@ export async function loadMeta(flightId: string): Promise<FlightMeta | null> {
 			raisedAt: a.raisedAt.getTime() / 1000,
 			clearedAt: a.clearedAt ? a.clearedAt.getTime() / 1000 : null,
 			value: a.value,
-			emailed: a.emailedAt !== null
+			emailed: a.emailedAt !== null,
+			mailedTo: a.mailedCount,
+			acks: acks.filter((k) => k.alarmId === a.id).map((k) => ({ by: k.by, at: k.at }))
 		}))
 	};
 }

@@ -6,6 +6,7 @@ import { utcDay } from '$lib/server/live/flights';
 import { peopleChoices } from '$lib/server/flights/details';
 import { flyingTodayFormSchema } from '$lib/schemas/flight';
 import { idleCloseMinutes } from '$lib/server/live/config';
+import { stopOpenHours } from '$lib/server/live/sweeper';
 import { failForm, parseForm } from '$lib/schemas/form';
 import { plainText } from '$lib/schemas/text';
 import type { Actions, PageServerLoad } from './$types';
@@ -24,7 +25,7 @@ export const load = (async (event) => {
 		peopleChoices(org.id),
 		listAircraft(org.id)
 	]);
-	return { recorders: list, pilots: people.pilots, today: utcDay(new Date()), fleet: fleet.map((a) => ({ id: a.id, registration: a.registration })), idleCloseMinutes: idleCloseMinutes() };
+	return { recorders: list, pilots: people.pilots, today: utcDay(new Date()), fleet: fleet.map((a) => ({ id: a.id, registration: a.registration })), idleCloseMinutes: idleCloseMinutes(), stopOpenHours: stopOpenHours() };
 }) satisfies PageServerLoad;
 
 // The new token is in the action's answer only: it is never stored and never shown again.

@@ -6,6 +6,7 @@ import { aircraftAt } from '$lib/server/calibration/in-force';
 import { addFuelEvent, addNote, editNote, removeFuelEvent, removeNote, saveDeclaration } from '$lib/server/flights/edit';
 import { planOfFlight } from '$lib/server/plans';
 import { mapTiles } from '$lib/server/map-tiles';
+import { alarmAcksOf } from '$lib/server/live/acks';
 import { debriefOf } from '$lib/server/debriefs';
 import { listCorrections } from '$lib/server/flights/corrections';
 import { loadEvents } from '$lib/server/flights/load';
@@ -26,7 +27,7 @@ import type { Actions, PageServerLoad } from './$types';
 export const load = (async (event) => {
 	const ctx = await requireFlight(event, event.params.org, event.params.id, 'view');
 	const { flight, user, role } = ctx;
-	const [a, events, corrections, notes, plan, debrief, people, droppedLines] = await Promise.all([
+	const [a, events, corrections, notes, plan, debrief, people, droppedLines, alarmAcks] = await Promise.all([
 		aircraftOf(flight),
 		loadEvents(flight.id),
 		listCorrections(flight.id),
@@ -34,7 +35,8 @@ export const load = (async (event) => {
 		planOfFlight(flight.id),
 		debriefOf(flight.id),
 		flightPeople(flight),
-		droppedLinesOf(flight)
+		droppedLinesOf(flight),
+		alarmAcksOf(flight.id)
 	]);
 	const mayEdit = mayOnFlight(ctx, flight, 'edit');
 	const unit = user.prefFuelUnit ?? a.displayUnit;
@@ -64,6 +66,8 @@ export const load = (async (event) => {
 		notes,
 		corrections,
 		droppedLines,
+		// Who acknowledged the alarms raised while it was followed live, for the timeline.
+		alarmAcks,
 		plan,
 		// Tiles behind the track, when the server has a source configured (none by default).
 		tiles: mapTiles(),

@@ -9,8 +9,9 @@ import { mayOnFlight, requireFlight } from '$lib/server/access';
 import { aircraftOf } from '$lib/server/aircraft/lookup';
 import { aircraftAt } from '$lib/server/calibration/in-force';
 import { flightPeople } from '$lib/server/flights/people';
-import { acknowledgeAlarm, alarmsAckedBy } from '$lib/server/live/acks';
+import { acknowledgeAlarm } from '$lib/server/live/acks';
 import { idleCloseMinutes } from '$lib/server/live/config';
+import { stopOpenHours } from '$lib/server/live/sweeper';
 import { setLiveDeclaration } from '$lib/server/live/declare';
 import { isWatching, setWatching } from '$lib/server/live/watches';
 import { planOfFlight } from '$lib/server/plans';
@@ -19,17 +20,16 @@ import { declarationFormSchema, declarationFormValues, reasonFormSchema } from '
 import { failForm, parseForm } from '$lib/schemas/form';
 import type { Actions, PageServerLoad } from './$types';
 
-// The flight's fixed facts and this member's own state (acknowledgements, watches); samples,
-// declaration changes and alarms arrive through the stream.
+// The flight's fixed facts and this member's own watches; samples, declaration changes, alarms
+// and who acknowledged them arrive through the stream.
 export const load = (async (event) => {
 	const ctx = await requireFlight(event, event.params.org, event.params.id, 'view');
 	const { flight, user } = ctx;
 	const a = await aircraftOf(flight);
 	const unit = user.prefFuelUnit ?? a.displayUnit;
-	const [people, plan, acked, watchingFlight, watchingAircraft] = await Promise.all([
+	const [people, plan, watchingFlight, watchingAircraft] = await Promise.all([
 		flightPeople(flight),
 		planOfFlight(flight.id),
-		alarmsAckedBy(user.id, flight.id),
 		isWatching(user.id, { flightId: flight.id }),
 		isWatching(user.id, { aircraftId: a.id })
 	]);
@@ -53,10 +53,10 @@ export const load = (async (event) => {
 		// The plan (made ahead, or added since): the legs passed so far set against it.
 		plan,
 		tiles: mapTiles(),
-		acked,
 		watchingFlight,
 		watchingAircraft,
 		idleCloseMinutes: idleCloseMinutes(),
+		stopOpenHours: stopOpenHours(),
 		streamUrl: `/api/v1/flights/${flight.id}/stream`
 	};
 }) satisfies PageServerLoad;
@@ -76,7 +76,8 @@ export const actions = {
 		await setLiveDeclaration(flight.id, form.data.declaration, form.data.previousOnBoardL, { userId: user.id, reason: why.data.reason });
 		return { action: 'declaration', saved: true };
 	},
-	// The flight's pilot, instructors and admins acknowledge (read-only viewers see alarms only); the alarm stays on the timeline for everyone.
+	// The flight's pilot, instructors and admins acknowledge (read-only viewers see alarms only); every
+	// viewer sees who and when, and the alarm stays on the timeline for everyone.
 	ack: async (event) => {
 		const { flight, user } = await requireFlight(event, event.params.org, event.params.id, 'acknowledge');
 		const form = parseForm(alarmIdSchema, await event.request.formData());
