@@ -139,13 +139,14 @@ export async function handleSamples(request: Request, url: URL, recorder: Record
 
 /**
  * The recorder's aircraft as a batch is read with (its density converts mass flows), remembered
- * for a second per instance: at one batch a second per recorder, one query fewer per batch. The
- * answer that counts is given where the batch is stored (the aircraft not archived, checked in
- * its transaction), so an archived aircraft is never remembered and a restored one records at once;
- * a density changed in that second reads the batch as a batch sent a moment earlier would be.
+ * for a few seconds per instance: longer than a recorder's usual interval, so one query fewer per
+ * batch. The answer that counts is given where the batch is stored (the aircraft not archived,
+ * checked in its transaction), so archiving takes effect at once and a restored aircraft records
+ * at once; a density changed within those seconds reads a mass-flow batch as one sent just before
+ * the change would have been (the aircraft was always read outside the storing transaction).
  */
 const parseAircraft = new Map<string, { a: Aircraft; at: number }>();
-const PARSE_AIRCRAFT_MS = 1000;
+const PARSE_AIRCRAFT_MS = 5000;
 
 async function aircraftForReading(recorder: Recorder): Promise<Aircraft> {
 	const now = Date.now();
