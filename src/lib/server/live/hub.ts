@@ -4,13 +4,15 @@
 // flights due in the same turn of the event loop in one query — and hands every viewer exactly
 // the run after its own cursor, as one pre-encoded SSE frame shared by the viewers at the same
 // cursor. A viewer's cursor only moves by whole contiguous runs, so nothing is lost or repeated.
+import { drizzle } from 'drizzle-orm/node-postgres';
 import pg from 'pg';
 import { serverConfig } from '../config';
+import { db } from '../db';
 import { NEAR_HEAD, PAGE_SAMPLES } from './config';
 import { loadMeta, type FlightMeta } from './meta';
 import { EVENT_META, EVENT_SAMPLES, samplesEventOf, type MetaEvent } from '$lib/wire/live';
 import { NOTIFY_CHANNEL, noticesOf, type AccessNotice } from './protocol';
-import { readRuns, type RunRequest, type SampleRun } from './samples';
+import { readRuns, type Queryable, type RunRequest, type SampleRun } from './samples';
 import { sseFrame } from './sse';
 
 /** One connected viewer: its cursor (last sequence delivered) and how to send it an event. */
@@ -71,6 +73,10 @@ export class LiveHub {
 	/** Streams to ask again when the database reports an access change for their user. */
 	private accessWatchers = new Map<string, Set<() => void>>();
 	private client: pg.Client | null = null;
+	/** The LISTEN connection as a query runner for the samples reads; null while it is down. */
+	private readDb: Queryable | null = null;
+	/** Reads on the LISTEN connection run one at a time (one connection runs one query). */
+	private readChain: Promise<void> = Promise.resolve();
 	private connecting: Promise<void> | null = null;
 	private retryMs = 250;
 	private retryTimer: ReturnType<typeof setTimeout> | null = null;
@@ -187,16 +193,32 @@ export class LiveHub {
 		});
 	}
 
+	/**
+	 * The reads go over the LISTEN connection while it is up, one after another: viewers' samples
+	 * then never wait behind ingest for a pooled connection. Without it, the pool serves them.
+	 */
 	private async flushReads(): Promise<void> {
 		const due = this.pendingReads;
 		this.pendingReads = [];
+		const turn = this.readChain;
+		let release = () => {};
+		this.readChain = new Promise<void>((r) => (release = r));
+		await turn;
+		try {
+			await this.readAll(due);
+		} finally {
+			release();
+		}
+	}
+
+	private async readAll(due: typeof this.pendingReads): Promise<void> {
 		for (let i = 0; i < due.length; i += READS_PER_QUERY) {
 			const part = due.slice(i, i + READS_PER_QUERY);
 			this.counters.queries++;
 			this.counters.reads++;
 			this.counters.runsRead += part.length;
 			try {
-				const runs = await readRuns(part.map((p) => p.req));
+				const runs = await readRuns(part.map((p) => p.req), this.readDb ?? db);
 				part.forEach((p, k) => p.resolve(runs[k]));
 			} catch (error) {
 				for (const p of part) p.reject(error);
@@ -320,11 +342,14 @@ export class LiveHub {
 			return;
 		}
 		this.client = client;
+		this.readDb = drizzle(client) as unknown as Queryable;
 		this.retryMs = 250;
 		const reconnected = this.everConnected;
 		this.everConnected = true;
 		this.heartbeat = setInterval(() => {
-			client.query('select 1').catch((error) => this.lost(client, error));
+			// In turn with the reads: one connection runs one query at a time.
+			const turn = this.readChain;
+			this.readChain = turn.then(() => client.query('select 1').then(() => {}, (error) => this.lost(client, error)));
 		}, this.options.heartbeatMs ?? 20_000);
 		this.heartbeat.unref?.();
 		if (reconnected) {
@@ -340,6 +365,7 @@ export class LiveHub {
 	private lost(client: pg.Client, error?: Error): void {
 		if (this.client !== client) return;
 		this.client = null;
+		this.readDb = null;
 		if (this.heartbeat) clearInterval(this.heartbeat);
 		this.heartbeat = null;
 		client.end().catch(() => {});
@@ -369,6 +395,7 @@ export class LiveHub {
 		if (this.heartbeat) clearInterval(this.heartbeat);
 		const c = this.client;
 		this.client = null;
+		this.readDb = null;
 		this.flights.clear();
 		this.accessWatchers.clear();
 		if (c) await c.end().catch(() => {});
