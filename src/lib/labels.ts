@@ -135,3 +135,42 @@ export const calibrationSourceLabels = {
 	hand: 'Set by hand',
 	initial: 'Factors before dated history'
 } as const;
+
+/** The time-zone preference on the account page. */
+export const timeZoneWords = {
+	field: 'Local time beside UTC',
+	hint: 'UTC stays the main clock; this zone’s time follows it in brackets.',
+	browser: "This browser's zone",
+	example: 'Now:'
+} as const;
+
+/** The site header's words. */
+export const headerWords = {
+	organisation: 'Organisation',
+	chooseOrganisation: 'Choose organisation…',
+	menu: 'Menu',
+	themeToggle: 'Switch between day and night colours',
+	day: 'Day',
+	night: 'Night',
+	signOut: 'Sign out',
+	signIn: 'Sign in'
+} as const;
+
+/** The marks under the time scrubber, named in its legend. */
+export const scrubMarkLabels = { gap: 'Data gap', alarm: 'Alarm', event: 'Fuel event', note: 'Note' } as const;
+
+/** The time scrubber's words. */
+export const scrubWords = {
+	legend: 'Marks under the slider',
+	back: 'One sample back',
+	on: 'One sample on',
+	keys: 'Arrow keys: one sample · Shift + arrows: one minute · Page Up/Down: ten minutes · Space: play or pause'
+} as const;
+
+/** The caution on the replay page, short first; the rest behind "more". */
+export const cautionWords = {
+	short: 'These figures come from the flow sensor and the fuel declared at engine start; they do not replace a look in the tanks, the flight manual or the pilot in command’s judgement.',
+	meterFactor: 'the one in force at engine start (the aircraft’s calibration history).',
+	more: 'More about these figures and the reserve rule',
+	long: 'They are only as good as the sensor and the declaration, and Burndown is not a certified instrument.'
+} as const;

@@ -1,6 +1,8 @@
 import { describe, expect, it } from 'vitest';
-import { clean, fixed, round, signedDown } from './rounding';
-import { formatDuration } from './units';
+import { clean, round } from './rounding';
+import { formatDuration, num as fixed, signedNum } from './format';
+
+const signedDown = (x: number) => signedNum(x, 0, 'down');
 
 describe('display rounding', () => {
 	it('shows an exact boundary as itself, whatever the float noise', () => {

@@ -1,4 +1,4 @@
-// The one place figures are rounded for display. Floating-point noise is removed first (a value
+// The one place figures are rounded for display ($lib/format writes them). Floating-point noise is removed first (a value
 // computed as 179.9999999 is 180), then the figure is rounded to nearest — or down, for margins,
 // so a screen never shows more margin (or fuel) than the engine computed.
 
@@ -23,18 +23,4 @@ export function round(x: number, digits = 0, mode: RoundMode = 'nearest'): numbe
 	const r = mode === 'down' ? Math.floor(scaled) : Math.sign(scaled) * Math.round(Math.abs(scaled));
 	// −0 reads as "-0" in some formatters.
 	return (r === 0 ? 0 : r) / f;
-}
-
-/** x as text with `digits` decimals, rounded as `round` does; `missing` for NaN and ±Infinity. */
-export function fixed(x: number | null | undefined, digits = 0, mode: RoundMode = 'nearest', missing = '—'): string {
-	if (x === null || x === undefined || !Number.isFinite(x)) return missing;
-	return round(x, digits, mode).toFixed(digits);
-}
-
-/** A margin, rounded down (never more than exists), with its sign: "+12", "−7". */
-export function signedDown(x: number | null | undefined, digits = 0, missing = '—'): string {
-	if (x === null || x === undefined || !Number.isFinite(x)) return missing;
-	const r = round(x, digits, 'down');
-	const text = Math.abs(r).toFixed(digits);
-	return r > 0 ? `+${text}` : r < 0 ? `−${text}` : text;
 }

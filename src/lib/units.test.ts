@@ -14,8 +14,6 @@ import {
 	distanceUnits,
 	flowUnitLabels,
 	flowUnits,
-	formatDuration,
-	formatSeconds,
 	fromKnots,
 	fromLitres,
 	fromLitresPerHour,
@@ -133,26 +131,3 @@ describe('conversions', () => {
 	});
 });
 
-describe('formatDuration', () => {
-	it('shows hours as h:mm', () => {
-		// FAA-H-8083-25, Navigation chapter: 210 NM at 140 kt takes 1 h 30 min.
-		expect(formatDuration(210 / 140)).toBe('1:30');
-		expect(formatDuration(4)).toBe('4:00');
-		expect(formatDuration(0.05)).toBe('0:03');
-		expect(formatDuration(12.25)).toBe('12:15');
-	});
-
-	it('rounds to the nearest minute, or down for what is left', () => {
-		expect(formatDuration(1 + 59.6 / 60)).toBe('2:00');
-		expect(formatDuration(1 + 59.6 / 60, { round: 'down' })).toBe('1:59');
-		expect(formatDuration(1.5, { round: 'down' })).toBe('1:30');
-	});
-
-	it('keeps the sign and marks missing values', () => {
-		expect(formatDuration(-0.5)).toBe('-0:30');
-		expect(formatDuration(-0.001)).toBe('0:00');
-		expect(formatDuration(NaN)).toBe('–:––');
-		expect(formatDuration(Infinity, { missing: '—' })).toBe('—');
-		expect(formatSeconds(5400)).toBe('1:30');
-	});
-});

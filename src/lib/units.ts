@@ -1,7 +1,6 @@
 // Unit constants and conversions for every quantity Burndown shows, in one place.
 // Internally the engine works in litres, litres per hour, knots, nautical miles, feet and seconds;
 // everything else is converted at the edges with the exact factors below.
-import { round as roundFigure } from './rounding';
 
 /** 1 US gallon = 231 in³ = 3.785411784 L exactly (NIST Handbook 44, Appendix C). */
 export const LITRES_PER_US_GALLON = 3.785411784;
@@ -93,6 +92,11 @@ export function flowUnitVolume(unit: FlowUnit): FuelUnit {
 		case 'kg/h':
 			return 'kg';
 	}
+}
+
+/** The flow unit that is "per hour" of a fuel unit: usgal → usgal/h. */
+export function flowUnitOf(unit: FuelUnit): FlowUnit {
+	return `${unit}/h`;
 }
 
 function checkDensity(densityKgPerL: number | undefined, unit: string): number {
@@ -204,32 +208,4 @@ export function fromNmPerLitre(
 
 export function specificRangeLabel(distance: DistanceUnit, fuel: FuelUnit): string {
 	return `${distanceUnitLabels[distance]}/${fuelUnitLabels[fuel]}`;
-}
-
-export interface DurationFormatOptions {
-	/**
-	 * 'nearest' for elapsed times; 'down' for what is left (endurance), so the display never
-	 * promises a minute that is not there.
-	 */
-	round?: 'nearest' | 'down';
-	/** Shown for a missing value (NaN or infinite). */
-	missing?: string;
-}
-
-/** A duration in hours as h:mm, e.g. 1.5 → "1:30"; negative durations keep their sign. */
-export function formatDuration(hours: number, options: DurationFormatOptions = {}): string {
-	const { round = 'nearest', missing = '–:––' } = options;
-	if (!Number.isFinite(hours)) return missing;
-	const sign = hours < 0 ? '-' : '';
-	// One rounding for every screen (rounding.ts): noise removed first, so 3 h computed as
-	// 2.9999999999 shows 3:00 rounded down too.
-	const totalMinutes = roundFigure(Math.abs(hours) * 60, 0, round);
-	const h = Math.floor(totalMinutes / 60);
-	const m = totalMinutes - h * 60;
-	return `${totalMinutes === 0 ? '' : sign}${h}:${m < 10 ? '0' : ''}${m}`;
-}
-
-/** A duration in seconds as h:mm. */
-export function formatSeconds(seconds: number, options: DurationFormatOptions = {}): string {
-	return formatDuration(seconds / 3600, options);
 }

@@ -32,7 +32,7 @@ test('the owner sees the rich trip marked, and its difference from the leaned tr
 	await expect(page.getByTestId('compare-flow').locator('canvas').first()).toBeVisible();
 	// Newest first in the history, so the rich trip is the reference and the leaned one burns less.
 	const cruise = page.getByTestId('compare-cruise');
-	await expect(cruise.getByTestId('compare-delta')).toContainText(/−[\d.]+ US gal, flow −\d+ %/);
+	await expect(cruise.getByTestId('compare-delta')).toContainText(/−[\d.]+ US gal, flow −\d+\.\d %/);
 	await page.screenshot({ path: 'test-results/owner-compare-rich-leaned.png', fullPage: true });
 });
 
@@ -49,7 +49,7 @@ test('the owner records two fills, reconciles, applies the factor and sees the f
 	const usedInList = async () => {
 		await page.goto(`/o/${DEMO_ORG}/flights`);
 		const row = page.getByTestId('flight-row').filter({ hasText: LONG });
-		return (await row.locator('td').nth(4).textContent())?.trim() ?? '';
+		return (await row.getByTestId('flight-used').textContent())?.trim() ?? '';
 	};
 	await signIn(page, DEMO_USERS.admin);
 	const before = await usedInList();

@@ -12,7 +12,7 @@ import { computeFlight, WPT_NONE, type FlightComputation, type SampleColumns } f
 import { engineInputsOf, fuelSetupOf, type AircraftFuelSetup } from '../../src/lib/flight-inputs';
 import { nearestIndex } from '../../src/lib/components/replay/series';
 import { phaseLabels } from '../../src/lib/labels';
-import { formatDuration } from '../../src/lib/units';
+import { count, formatDuration } from '../../src/lib/format';
 import { DEMO_AIRCRAFT, DEMO_ORG, DEMO_USERS, signIn } from './support';
 
 const DIESEL_FILE = path.resolve('samples/kestrel-diesel-panel-log.csv');
@@ -137,14 +137,14 @@ test('map another recorder’s columns, save the profile, upload with progress, 
 	const firstCells = cellsAt(dieselText, 3);
 	await expect(trial.locator('tbody tr').first().locator('td')).toHaveText([
 		'3',
-		'2026-08-14 23:05:00Z',
+		'2026-08-14 23:05:00',
 		num(firstCells[1]).toFixed(1),
-		(num(firstCells[2]) / 1.852).toFixed(1),
-		(num(firstCells[3]) / 1.852).toFixed(2),
+		(num(firstCells[2]) / 1.852).toFixed(0),
+		(num(firstCells[3]) / 1.852).toFixed(1),
 		(num(firstCells[4]) / 0.3048).toFixed(0),
 		firstCells[5]
 	]);
-	await expect(page.getByTestId('columns-section')).toContainText(`All ${rows.length.toLocaleString('en-US')} samples of the file read cleanly.`);
+	await expect(page.getByTestId('columns-section')).toContainText(`All ${count(rows.length)} samples of the file read cleanly.`);
 	await page.getByTestId('columns-section').scrollIntoViewIfNeeded();
 	await page.screenshot({ path: 'test-results/upload-mapper.png', fullPage: true });
 
@@ -204,7 +204,7 @@ test('map another recorder’s columns, save the profile, upload with progress, 
 	// them once the body is sent), so only the end is certain; the rest goes into the report.
 	test.info().annotations.push({ type: 'server progress seen', description: seen.labels.join(' → ') });
 	expect(seen.labels.at(-1)).toBe('Done');
-	expect(seen.stored).toContain(`Stored ${rows.length.toLocaleString('en-US')} samples. Opening the flight…`);
+	expect(seen.stored).toContain(`Stored ${count(rows.length)} samples. Opening the flight…`);
 
 	// Stored as mapped: the clock rolled past midnight into the next day, the amount read with its comma.
 	const after = await storedFor(DEMO_AIRCRAFT.diesel);
@@ -247,7 +247,7 @@ test('map another recorder’s columns, save the profile, upload with progress, 
 	// the waypoint as named, and the fuel used as the trapezoid sum of the flow cells up to here.
 	near(await figure(page, 'fig-flow'), num(cells[1]), 1);
 	await expect(card(page, 'Ground speed').locator('p.text-figure')).toHaveText(`${(num(cells[2]) / 1.852).toFixed(0)}kt`);
-	await expect(card(page, 'Altitude').locator('p.text-figure')).toHaveText(`${Math.round(num(cells[4]) / 0.3048).toLocaleString('en-US')}ft`);
+	await expect(card(page, 'Altitude').locator('p.text-figure')).toHaveText(`${count(Math.round(num(cells[4]) / 0.3048))}ft`);
 	await expect(page.getByTestId('fig-wpt-name')).toHaveText(cells[5]);
 	await expect(page.getByTestId('fig-waypoint')).toContainText(`${(num(cells[3]) / 1.852).toFixed(1)} NM to go`);
 	const flowCells = dieselText.split(/\r?\n/).slice(2, 2 + i + 1).map((l) => num(l.split(';')[1]));

@@ -14,7 +14,7 @@ import { load, actions } from '../../src/routes/o/[org]/aircraft/[id]/history/+p
 import { generateFlight, insertFlight } from './replay-fixture';
 
 const stamp = Date.now().toString(36);
-const person = (key: string, name: string) => ({ id: `ah-${key}-${stamp}`, email: `${key}-${stamp}@history.example`, name, prefFuelUnit: null });
+const person = (key: string, name: string) => ({ id: `ah-${key}-${stamp}`, email: `${key}-${stamp}@history.example`, name, prefFuelUnit: null, timeZone: null });
 const U = { admin: person('admin', 'Ada Admin'), pilot: person('pilot', 'Pia Pilot'), other: person('other', 'Otto Other'), viewer: person('viewer', 'Vic Viewer') };
 type TestUser = (typeof U)[keyof typeof U];
 

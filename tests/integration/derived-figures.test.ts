@@ -22,7 +22,7 @@ import { actions as reconciliationActions } from '../../src/routes/o/[org]/aircr
 import { generateFlight, insertFlight } from './replay-fixture';
 
 const stamp = Date.now().toString(36);
-const person = (key: string, name: string) => ({ id: `df-${key}-${stamp}`, email: `${key}-${stamp}@derived.example`, name, prefFuelUnit: null });
+const person = (key: string, name: string) => ({ id: `df-${key}-${stamp}`, email: `${key}-${stamp}@derived.example`, name, prefFuelUnit: null, timeZone: null });
 const U = { admin: person('admin', 'Ada Admin'), pilot: person('pilot', 'Pia Pilot'), viewer: person('viewer', 'Vic Viewer'), outsider: person('out', 'Olga Outsider') };
 type TestUser = (typeof U)[keyof typeof U];
 

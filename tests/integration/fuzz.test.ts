@@ -59,7 +59,7 @@ async function outcome(run: () => unknown): Promise<number> {
 
 function formEvent(route: string, path: string, params: Record<string, string>, form: FormData): RequestEvent {
 	const url = new URL(`http://127.0.0.1:4173${path}`);
-	const user = { id: w.admin.id, email: w.admin.email, name: w.admin.name, prefFuelUnit: null };
+	const user = { id: w.admin.id, email: w.admin.email, name: w.admin.name, prefFuelUnit: null, timeZone: null };
 	return { request: new Request(url, { method: 'POST', body: form }), url, params, locals: { user, session: null, authVia: 'session' }, route: { id: route } } as unknown as RequestEvent;
 }
 

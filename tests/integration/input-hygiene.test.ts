@@ -9,7 +9,7 @@ import { actions as orgActions } from '../../src/routes/orgs/+page.server';
 import { requireMember } from '$lib/server/access';
 
 const stamp = Date.now().toString(36);
-const user = { id: `ih-${stamp}`, email: `ih-${stamp}@hygiene.example`, name: 'Hana Hygiene', prefFuelUnit: null };
+const user = { id: `ih-${stamp}`, email: `ih-${stamp}@hygiene.example`, name: 'Hana Hygiene', prefFuelUnit: null, timeZone: null };
 
 function post(route: string, form: Record<string, string>) {
 	const url = new URL(`http://127.0.0.1:4173${route}`);

@@ -17,7 +17,7 @@ async function makeUser(name = 'Test User') {
 	const id = `iv${Date.now().toString(36)}${n++}`;
 	const email = `${id}@example.org`;
 	await db.insert(users).values({ id, email, name, passwordHash: await hashPassword('a good passphrase') });
-	return { id, email, name, prefFuelUnit: null };
+	return { id, email, name, prefFuelUnit: null, timeZone: null };
 }
 
 async function setUp() {

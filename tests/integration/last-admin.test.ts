@@ -14,7 +14,7 @@ let n = 0;
 async function makeUser() {
 	const id = `la${Date.now().toString(36)}${n++}`;
 	await db.insert(users).values({ id, email: `${id}@example.org`, name: `Admin ${id}`, passwordHash: await hashPassword('a good passphrase') });
-	return { id, email: `${id}@example.org`, name: `Admin ${id}`, prefFuelUnit: null };
+	return { id, email: `${id}@example.org`, name: `Admin ${id}`, prefFuelUnit: null, timeZone: null };
 }
 
 async function twoAdmins() {

@@ -26,7 +26,7 @@ function routeFetch(user: Member | null): typeof fetch {
 			request: new Request(url, { headers: { ...(init?.headers as Record<string, string>), ...(user ? { authorization: `Bearer ${user.apiToken}` } : {}) } }),
 			url,
 			params: { id },
-			locals: { user: user && { id: user.id, email: user.email, name: user.name, prefFuelUnit: null }, session: null, authVia: user ? 'token' : null },
+			locals: { user: user && { id: user.id, email: user.email, name: user.name, prefFuelUnit: null, timeZone: null }, session: null, authVia: user ? 'token' : null },
 			route: { id: '/api/v1/flights/[id]/stream' }
 		};
 		let res: Response;
@@ -300,7 +300,7 @@ describe('a stream whose viewer loses access', () => {
 			request: new Request(flightUrl, { headers: session ? {} : { authorization: `Bearer ${user.apiToken}` } }),
 			url: flightUrl,
 			params: { id: currentFlight },
-			locals: { user: { id: user.id, email: user.email, name: user.name, prefFuelUnit: null }, session: session ?? null, authVia: session ? 'session' : 'token' },
+			locals: { user: { id: user.id, email: user.email, name: user.name, prefFuelUnit: null, timeZone: null }, session: session ?? null, authVia: session ? 'session' : 'token' },
 			route: { id: '/api/v1/flights/[id]/stream' }
 		};
 		const res = await streamGet(event as never);

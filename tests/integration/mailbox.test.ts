@@ -12,7 +12,7 @@ const bob = `bob-${stamp}@example.org`;
 
 type LoadEvent = Parameters<typeof load>[0];
 function eventFor(email: string | null): LoadEvent {
-	const user = email ? { id: `id-${email}`, email, name: 'Someone', prefFuelUnit: null } : null;
+	const user = email ? { id: `id-${email}`, email, name: 'Someone', prefFuelUnit: null, timeZone: null } : null;
 	return { locals: { user, session: null, authVia: user ? 'session' : null }, url: new URL('http://127.0.0.1:4173/dev/mailbox'), route: { id: '/dev/mailbox' } } as unknown as LoadEvent;
 }
 

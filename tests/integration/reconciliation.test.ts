@@ -17,7 +17,7 @@ import { load, actions } from '../../src/routes/o/[org]/aircraft/[id]/reconcilia
 import { generateFlight, insertFlight } from './replay-fixture';
 
 const stamp = Date.now().toString(36);
-const person = (key: string, name: string) => ({ id: `rc-${key}-${stamp}`, email: `${key}-${stamp}@reconcile.example`, name, prefFuelUnit: null });
+const person = (key: string, name: string) => ({ id: `rc-${key}-${stamp}`, email: `${key}-${stamp}@reconcile.example`, name, prefFuelUnit: null, timeZone: null });
 const U = { admin: person('admin', 'Ada Admin'), pilot: person('pilot', 'Pia Pilot'), viewer: person('viewer', 'Vic Viewer') };
 type TestUser = (typeof U)[keyof typeof U];
 const K_OLD = 68_000;

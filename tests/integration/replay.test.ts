@@ -24,10 +24,11 @@ interface TestUser {
 	email: string;
 	name: string;
 	prefFuelUnit: null;
+	timeZone: null;
 }
 
 const stamp = Date.now().toString(36);
-const person = (key: string, name: string): TestUser => ({ id: `rp-${key}-${stamp}`, email: `${key}-${stamp}@replay.example`, name, prefFuelUnit: null });
+const person = (key: string, name: string): TestUser => ({ id: `rp-${key}-${stamp}`, email: `${key}-${stamp}@replay.example`, name, prefFuelUnit: null, timeZone: null });
 const U = {
 	admin: person('admin', 'Ada Admin'),
 	instructor: person('instr', 'Ivo Instructor'),

@@ -21,7 +21,7 @@ export async function makeUser(name: string): Promise<AuthUser> {
 	const id = `u_${uid()}`;
 	const email = `${id}@example.org`;
 	await db.insert(users).values({ id, email, name, passwordHash: 'not-used-here' });
-	return { id, email, name, prefFuelUnit: null } as AuthUser;
+	return { id, email, name, prefFuelUnit: null, timeZone: null } as AuthUser;
 }
 
 export interface Club {

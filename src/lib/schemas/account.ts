@@ -1,5 +1,6 @@
 // Sign-up, sign-in and password-reset fields.
 import { z } from 'zod';
+import { isTimeZone } from '$lib/format/time';
 import { fuelUnits } from '$lib/units';
 import { plainText } from './text';
 
@@ -37,5 +38,12 @@ export const changePasswordSchema = z
 	.refine((v) => v.password === v.confirm, { message: 'The two passwords differ.', path: ['confirm'] });
 
 export const preferencesSchema = z.object({
-	prefFuelUnit: z.enum(['', ...fuelUnits]).transform((v) => (v === '' ? null : v))
+	prefFuelUnit: z.enum(['', ...fuelUnits]).transform((v) => (v === '' ? null : v)),
+	// An IANA zone the platform knows (Intl.supportedValuesOf), or '' for the browser's own zone.
+	timeZone: z
+		.string()
+		.max(64, 'Choose a time zone from the list.')
+		.default('')
+		.refine((v) => v === '' || isTimeZone(v), 'Choose a time zone from the list.')
+		.transform((v) => (v === '' ? null : v))
 });

@@ -27,7 +27,7 @@ const SCHEMAS: [string, z.ZodType, string[], string[]][] = [
 	['sign-in', signInSchema, ['email', 'password'], []],
 	['reset request', resetRequestSchema, ['email'], []],
 	['reset password', resetPasswordSchema, ['password', 'confirm'], []],
-	['preferences', preferencesSchema, ['prefFuelUnit'], []],
+	['preferences', preferencesSchema, ['prefFuelUnit', 'timeZone'], []],
 	['organisation', organisationSchema, ['name'], ['name']],
 	['invitation', invitationSchema, ['email', 'role'], []],
 	['member role', memberRoleSchema, ['userId', 'role'], []],

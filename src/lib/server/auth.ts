@@ -32,7 +32,8 @@ export const lucia = new Lucia(new DrizzlePostgreSQLAdapter(db, sessions, users)
 	getUserAttributes: (attributes) => ({
 		email: attributes.email,
 		name: attributes.name,
-		prefFuelUnit: attributes.prefFuelUnit
+		prefFuelUnit: attributes.prefFuelUnit,
+		timeZone: attributes.timeZone
 	})
 });
 

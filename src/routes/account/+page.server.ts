@@ -2,7 +2,7 @@ import { redirect } from '@sveltejs/kit';
 import { requireUser } from '$lib/server/access';
 import { endAllSessions, endOtherSessions, listSessions } from '$lib/server/auth';
 import { createApiToken, listApiTokens, revokeApiToken } from '$lib/server/accounts/api-tokens';
-import { setPreferredFuelUnit } from '$lib/server/accounts/preferences';
+import { setPreferences } from '$lib/server/accounts/preferences';
 import { failForm, parseForm } from '$lib/schemas/form';
 import { plainText } from '$lib/schemas/text';
 import { changePasswordSchema, preferencesSchema } from '$lib/schemas/account';
@@ -16,7 +16,8 @@ const tokenNameSchema = z.object({ name: plainText(60, { required: 'Name the tok
 export const load = (async (event) => {
 	const user = requireUser(event);
 	const [tokens, sessions] = await Promise.all([listApiTokens(user.id), listSessions(user.id, event.locals.session?.id ?? null)]);
-	return { tokens, sessions };
+	// The list comes from the server so that server and browser render the same options.
+	return { tokens, sessions, timeZones: Intl.supportedValuesOf('timeZone') };
 }) satisfies PageServerLoad;
 
 export const actions = {
@@ -24,7 +25,7 @@ export const actions = {
 		const user = requireUser(event);
 		const form = parseForm(preferencesSchema, await event.request.formData());
 		if (!form.ok) return failForm(400, form.errors, form.values, 'preferences');
-		await setPreferredFuelUnit(user.id, form.data.prefFuelUnit);
+		await setPreferences(user.id, form.data);
 		return { action: 'preferences', saved: true };
 	},
 	createToken: async (event) => {

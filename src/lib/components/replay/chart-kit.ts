@@ -55,29 +55,64 @@ export function font(u: uPlot, sizeCss = 11, weight = 500): string {
 	return `${weight} ${Math.round(px(u, sizeCss))}px "Inter Variable", system-ui, sans-serif`;
 }
 
-/** A horizontal line at `value` on scale `y`, with a label at its left end. */
-export function hLine(u: uPlot, value: number, colour: string, label: string, opts: { dash?: number[]; y?: string; labelRight?: boolean } = {}) {
+export interface Box {
+	x: number;
+	y: number;
+	w: number;
+	h: number;
+}
+
+/**
+ * Where a horizontal reference line's label goes and the pieces of the line either side of it:
+ * the label sits on the line (kept inside the plot), on a plate, and the line stops `pad` short of
+ * the plate on both sides, so a line never crosses its own words — wherever the line is, even
+ * when the label had to be moved inside the plot at the top or bottom edge.
+ */
+export function referenceLabelLayout(plot: Box, y: number, text: { w: number; h: number }, right: boolean, pad: number): { plate: Box; segments: [number, number][] } {
+	const w = text.w + 2 * pad;
+	const h = text.h + pad;
+	const x = right ? plot.x + plot.w - pad - w : plot.x + pad;
+	const top = Math.max(plot.y, Math.min(plot.y + plot.h - h, y - h / 2));
+	const segments = ([[plot.x, x - pad], [x + w + pad, plot.x + plot.w]] as [number, number][]).filter(([a, b]) => b > a);
+	return { plate: { x, y: top, w, h }, segments };
+}
+
+/** A horizontal line at `value` on scale `y`, labelled at its left (or right) end; see referenceLabelLayout. */
+export function hLine(u: uPlot, value: number, colour: string, label: string, opts: { dash?: number[]; y?: string; labelRight?: boolean; plate?: string } = {}) {
 	const scale = opts.y ?? 'y';
 	if (!Number.isFinite(value)) return;
 	const y = u.valToPos(value, scale, true);
 	const { ctx, bbox } = u;
 	if (y < bbox.top - 1 || y > bbox.top + bbox.height + 1) return;
 	clip(u, () => {
+		ctx.font = font(u);
+		const plot = { x: bbox.left, y: bbox.top, w: bbox.width, h: bbox.height };
+		const layout = label
+			? referenceLabelLayout(plot, y, { w: ctx.measureText(label).width, h: px(u, 14) }, opts.labelRight ?? false, px(u, 4))
+			: { plate: null, segments: [[bbox.left, bbox.left + bbox.width]] as [number, number][] };
 		ctx.strokeStyle = colour;
 		ctx.lineWidth = px(u, 1.5);
 		ctx.setLineDash((opts.dash ?? [6, 4]).map((d) => px(u, d)));
 		ctx.beginPath();
-		ctx.moveTo(bbox.left, y);
-		ctx.lineTo(bbox.left + bbox.width, y);
+		for (const [a, b] of layout.segments) {
+			ctx.moveTo(a, y);
+			ctx.lineTo(b, y);
+		}
 		ctx.stroke();
 		ctx.setLineDash([]);
-		if (label) {
-			ctx.font = font(u);
+		if (layout.plate) {
+			const p = layout.plate;
+			if (opts.plate) {
+				ctx.fillStyle = opts.plate;
+				ctx.fillRect(p.x, p.y, p.w, p.h);
+			}
+			ctx.strokeStyle = colour;
+			ctx.lineWidth = px(u, 1);
+			ctx.strokeRect(p.x, p.y, p.w, p.h);
 			ctx.fillStyle = colour;
-			ctx.textBaseline = 'bottom';
-			ctx.textAlign = opts.labelRight ? 'right' : 'left';
-			const x = opts.labelRight ? bbox.left + bbox.width - px(u, 4) : bbox.left + px(u, 4);
-			ctx.fillText(label, x, y - px(u, 2));
+			ctx.textBaseline = 'middle';
+			ctx.textAlign = 'center';
+			ctx.fillText(label, p.x + p.w / 2, p.y + p.h / 2);
 		}
 	});
 }

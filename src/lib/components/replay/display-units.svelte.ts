@@ -1,10 +1,11 @@
 // The units the replay and live pages show figures in, switchable on the page and remembered in
 // the browser. The engine works in litres, L/h, knots and NM; conversion happens only here.
-import { fixed, signedDown, type RoundMode } from '$lib/rounding';
+import { altitudeFigure, distance, flowFigure, fuelFigure, fuelMarginFigure, speed, speedFigure, specificRange, specificRangeFigure, type RoundMode } from '$lib/format';
 import {
 	distanceUnitLabels,
 	distanceUnits,
 	flowUnitLabels,
+	flowUnitOf,
 	fromKnots,
 	fromLitres,
 	fromLitresPerHour,
@@ -22,11 +23,6 @@ import {
 } from '$lib/units';
 
 const KEY = 'burndown-replay-units';
-
-const FLOW_OF: Record<FuelUnit, FlowUnit> = { usgal: 'usgal/h', l: 'l/h', impgal: 'impgal/h', lb: 'lb/h', kg: 'kg/h' };
-
-/** Decimals that read well for each fuel unit (a litre is small, a US gallon is not). */
-const FUEL_DIGITS: Record<FuelUnit, number> = { usgal: 1, l: 0, impgal: 1, lb: 0, kg: 0 };
 
 export class DisplayUnits {
 	fuel = $state<FuelUnit>('l');
@@ -60,7 +56,7 @@ export class DisplayUnits {
 	}
 
 	get flow(): FlowUnit {
-		return FLOW_OF[this.fuel];
+		return flowUnitOf(this.fuel);
 	}
 	get fuelLabel(): string {
 		return fuelUnitLabels[this.fuel];
@@ -76,9 +72,6 @@ export class DisplayUnits {
 	}
 	get rangeLabel(): string {
 		return specificRangeLabel(this.distance, this.fuel);
-	}
-	get fuelDigits(): number {
-		return FUEL_DIGITS[this.fuel];
 	}
 
 	toFuel(litres: number): number {
@@ -100,15 +93,39 @@ export class DisplayUnits {
 	/** "12.3 US gal": for the engine's warning messages (an arrow, so it can be handed over). */
 	fuelWithUnit = (litres: number): string => `${this.fuelText(litres)} ${this.fuelLabel}`;
 
-	/** "12.3" in the fuel unit, or "—" for a missing value; rounded down for margins. */
-	fuelText(litres: number | null | undefined, extraDigits = 0, mode: RoundMode = 'nearest'): string {
-		return litres === null || litres === undefined || !Number.isFinite(litres) ? '—' : fixed(this.toFuel(litres), this.fuelDigits + extraDigits, mode);
+	// Figures at the one precision of their quantity and unit ($lib/format's PRECISION).
+
+	/** "12.3" in the fuel unit, or "—" for a missing value; rounded down for what is left. */
+	fuelText(litres: number | null | undefined, mode: RoundMode = 'nearest'): string {
+		return litres === null || litres === undefined ? '—' : fuelFigure(this.toFuel(litres), this.fuel, mode);
 	}
 	/** A margin in the fuel unit with its sign, rounded down: never more than exists. */
-	marginText(litres: number | null | undefined, extraDigits = 0): string {
-		return litres === null || litres === undefined || !Number.isFinite(litres) ? '—' : signedDown(this.toFuel(litres), this.fuelDigits + extraDigits);
+	marginText(litres: number | null | undefined): string {
+		return litres === null || litres === undefined ? '—' : fuelMarginFigure(this.toFuel(litres), this.fuel);
 	}
 	flowText(lph: number | null | undefined): string {
-		return lph === null || lph === undefined || !Number.isFinite(lph) ? '—' : fixed(this.toFlow(lph), this.fuelDigits + 1);
+		return lph === null || lph === undefined ? '—' : flowFigure(this.toFlow(lph), this.flow);
+	}
+	/** "12.4 NM" */
+	distanceText(nm: number | null | undefined): string {
+		return nm === null || nm === undefined ? '—' : distance(this.toDistance(nm), this.distance);
+	}
+	/** "104 kt" */
+	speedText(kt: number | null | undefined): string {
+		return kt === null || kt === undefined ? '—' : speed(this.toSpeed(kt), this.speed);
+	}
+	/** "2.41 NM/US gal" */
+	rangeText(nmPerL: number | null | undefined): string {
+		return nmPerL === null || nmPerL === undefined ? '—' : specificRange(this.toRange(nmPerL), this.rangeLabel);
+	}
+	// The same without the unit, for tiles that set the unit apart.
+	speedFigure(kt: number): string {
+		return speedFigure(this.toSpeed(kt));
+	}
+	rangeFigure(nmPerL: number): string {
+		return specificRangeFigure(this.toRange(nmPerL));
+	}
+	altitudeFigure(ft: number | null | undefined): string {
+		return altitudeFigure(ft);
 	}
 }

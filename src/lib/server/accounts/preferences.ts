@@ -3,7 +3,10 @@ import { eq } from 'drizzle-orm';
 import { db } from '../db';
 import { users, type User } from '../db/schema';
 
-/** The fuel unit the user reads figures in (null: each aircraft's own). */
-export async function setPreferredFuelUnit(userId: string, unit: User['prefFuelUnit']): Promise<void> {
-	await db.update(users).set({ prefFuelUnit: unit }).where(eq(users.id, userId));
+/**
+ * The fuel unit the user reads figures in (null: each aircraft's own) and the time zone of the
+ * local time shown beside UTC (null: the browser's own zone).
+ */
+export async function setPreferences(userId: string, prefs: Pick<User, 'prefFuelUnit' | 'timeZone'>): Promise<void> {
+	await db.update(users).set({ prefFuelUnit: prefs.prefFuelUnit, timeZone: prefs.timeZone }).where(eq(users.id, userId));
 }

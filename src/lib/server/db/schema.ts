@@ -55,6 +55,8 @@ export const users = pgTable('users', {
 	passwordHash: text().notNull(),
 	/** Preferred display unit for fuel; null = each aircraft's own unit. */
 	prefFuelUnit: fuelUnitEnum(),
+	/** IANA time zone the user reads local times in beside UTC; null = the browser's own zone. */
+	timeZone: text(),
 	createdAt: tstz().notNull().defaultNow()
 });
 export type User = typeof users.$inferSelect;

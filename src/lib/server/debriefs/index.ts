@@ -1,6 +1,7 @@
 // Debriefs: the one home of their queries. The report (flight, summary, plan against actual,
 // notes, sign-off) is built from the stored inputs with the same engine the replay runs; the
 // debrief row holds only what the instructor wrote and decided. Publishing mails the student.
+import { dateTimeText } from '$lib/format';
 import { and, asc, eq, gt, inArray, isNull } from 'drizzle-orm';
 import { findLeaningMoments } from '$lib/fuel';
 import { planReport } from '$lib/plan-report';
@@ -114,11 +115,11 @@ export async function publishDebrief(flightId: string, origin: string): Promise<
 	if (!pilot) return { ok: true, mailedTo: null };
 	const orgSlug = await slugOf(flightId);
 	const url = link(`/o/${orgSlug}/flights/${flightId}/debrief`, origin);
-	const when = report.flight.startedAt.toISOString().slice(0, 16).replace('T', ' ');
+	const when = dateTimeText(report.flight.startedAt, pilot.timeZone);
 	await sendMail({
 		to: pilot.email,
-		subject: `Debrief of your flight in ${report.aircraft.registration} on ${when} UTC`,
-		text: `Hello ${pilot.name},\n\n${report.flight.instructor ?? 'Your instructor'} has published the debrief of your flight in ${report.aircraft.registration} on ${when} UTC.\n\nRead it here: ${url}\n\nBurndown's figures are advisory: they do not replace a look in the tanks, the flight manual or the pilot in command's judgement.\n`
+		subject: `Debrief of your flight in ${report.aircraft.registration} on ${when}`,
+		text: `Hello ${pilot.name},\n\n${report.flight.instructor ?? 'Your instructor'} has published the debrief of your flight in ${report.aircraft.registration} on ${when}.\n\nRead it here: ${url}\n\nBurndown's figures are advisory: they do not replace a look in the tanks, the flight manual or the pilot in command's judgement.\n`
 	});
 	return { ok: true, mailedTo: pilot.email };
 }

@@ -1,6 +1,7 @@
 // Changes to a flight's fuel inputs and notes. Each change, its line in the audit trail and the
 // recomputed summary commit in one transaction, so the lists never show figures from before a
 // correction and no correction goes unrecorded.
+import { utcDateTime } from '$lib/format';
 import { and, eq, max, min } from 'drizzle-orm';
 import type { DeclarationInput, FuelEventInput, NoteInput } from '$lib/schemas/flight';
 import { db } from '../db';
@@ -36,7 +37,7 @@ export async function addFuelEvent(flight: Pick<Flight, 'id' | 'startedAt'>, inp
 	const last = range?.last ?? flight.startedAt;
 	const margin = EVENT_MARGIN_H * 3600_000;
 	if (input.t.getTime() < first.getTime() - margin || input.t.getTime() > last.getTime() + margin) {
-		const fmt = (d: Date) => d.toISOString().slice(0, 16).replace('T', ' ');
+		const fmt = (d: Date) => utcDateTime(d);
 		return { ok: false, field: 'at', message: `Choose a time between ${fmt(new Date(first.getTime() - margin))} and ${fmt(new Date(last.getTime() + margin))} UTC (this flight's samples, ± ${EVENT_MARGIN_H} h).` };
 	}
 	await db.transaction(async (tx) => {

@@ -23,8 +23,8 @@ export const authenticate: Handle = async ({ event, resolve }) => {
 			.where(and(eq(apiTokens.tokenHash, hashToken(bearer)), isNull(apiTokens.revokedAt)))
 			.limit(1);
 		if (row) {
-			const { id, email, name, prefFuelUnit } = row.user;
-			event.locals.user = { id, email, name, prefFuelUnit };
+			const { id, email, name, prefFuelUnit, timeZone } = row.user;
+			event.locals.user = { id, email, name, prefFuelUnit, timeZone };
 			event.locals.authVia = 'token';
 			await db.update(apiTokens).set({ lastUsedAt: new Date() }).where(eq(apiTokens.id, row.tokenId));
 		}

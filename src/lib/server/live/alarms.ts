@@ -7,11 +7,10 @@ import { mayOnFlight } from '../access';
 import { db } from '../db';
 import { aircraft, flightAlarms, flights, memberships, organisations, users, watches, type Aircraft, type Flight } from '../db/schema';
 import { link, sendMail } from '../mail';
-import { fuel } from '$lib/format';
+import { dateTimeText, formatDuration, fuel, fuelFlow, fuelMargin, signedMinutes } from '$lib/format';
 import { alarmLabels, MARGIN_ROUNDING_NOTE } from '$lib/labels';
 import type { AlarmKind } from '$lib/fuel';
-import { signedDown } from '$lib/rounding';
-import { formatDuration, fromLitres, fromLitresPerHour, flowUnitLabels, fuelUnitLabels, type FlowUnit } from '$lib/units';
+import { fromLitres } from '$lib/units';
 import type { Computed } from './computation';
 import type { Queryable } from './samples';
 
@@ -114,19 +113,21 @@ export async function syncAlarms(q: Queryable, flight: Flight, computed: Compute
 // The words the replay and live pages use for the same alarms.
 const TITLES: Record<AlarmKind, string> = alarmLabels;
 
-function flowText(lph: number, unit: string, density: number): string {
-	if (!Number.isFinite(lph)) return '—';
-	const flowUnit = ({ usgal: 'usgal/h', l: 'l/h', impgal: 'impgal/h', lb: 'lb/h', kg: 'kg/h' } as Record<string, FlowUnit>)[unit] ?? 'l/h';
-	return `${fromLitresPerHour(lph, flowUnit, density).toFixed(1)} ${flowUnitLabels[flowUnit]}`;
-}
-
-export function alarmMail(a: AlarmFigures, ctx: { registration: string; displayUnit: Aircraft['displayUnit']; densityKgPerL: number; url: string }): { subject: string; text: string } {
+/**
+ * The e-mail of one alarm. `timeZone` is the recipient's preference: their local time follows the
+ * UTC one (an e-mail has no browser to ask).
+ */
+export function alarmMail(
+	a: AlarmFigures,
+	ctx: { registration: string; displayUnit: Aircraft['displayUnit']; densityKgPerL: number; url: string; timeZone?: string | null }
+): { subject: string; text: string } {
 	const f = (l: number) => fuel(l, ctx.displayUnit, ctx.densityKgPerL);
 	// Rounded down: the e-mail never shows more fuel, or more margin, than the figure it was raised on.
-	const down = (l: number) => fuel(l, ctx.displayUnit, ctx.densityKgPerL, 1, 'down');
-	const marginOf = (l: number) => (Number.isFinite(l) ? `${signedDown(fromLitres(l, ctx.displayUnit, ctx.densityKgPerL), 1)} ${fuelUnitLabels[ctx.displayUnit]}` : '—');
+	const down = (l: number) => fuel(l, ctx.displayUnit, ctx.densityKgPerL, 'down');
+	const flowText = (lph: number) => fuelFlow(lph, ctx.displayUnit, ctx.densityKgPerL);
+	const marginOf = (l: number) => fuelMargin(fromLitres(l, ctx.displayUnit, ctx.densityKgPerL), ctx.displayUnit);
 	const hasReserve = Number.isFinite(a.reserveL);
-	const when = new Date(Math.round(a.t * 1000)).toISOString().slice(0, 19).replace('T', ' ');
+	const when = dateTimeText(a.t, ctx.timeZone ?? null, true);
 	const threshold =
 		a.kind === 'lowFuel'
 			? `below ${f(a.threshold)}`
@@ -136,14 +137,14 @@ export function alarmMail(a: AlarmFigures, ctx: { registration: string; displayU
 					? `below the reserve of ${f(a.reserveL)}`
 					: 'the fuel runs out first';
 	const lines = [
-		`${TITLES[a.kind]} on ${ctx.registration} at ${when} UTC (${threshold}).`,
+		`${TITLES[a.kind]} on ${ctx.registration} at ${when} (${threshold}).`,
 		'',
 		`Fuel on board:            ${down(a.onBoardL)}`,
-		`Fuel flow:                ${flowText(a.flowLph, ctx.displayUnit, ctx.densityKgPerL)}`,
+		`Fuel flow:                ${flowText(a.flowLph)}`,
 		`Endurance at flow:        ${formatDuration(a.enduranceH, { round: 'down' })} (h:mm)`,
 		`Left on arrival:          ${Number.isFinite(a.arrivalL) ? down(a.arrivalL) : '—'}${a.waypoint ? ` (next waypoint ${a.waypoint})` : ''}`,
-		`Reserve amount:           ${hasReserve ? `${f(a.reserveL)} (at ${flowText(a.cruiseFlowLph, ctx.displayUnit, ctx.densityKgPerL)} normal cruise)` : '—'}`,
-		`Against the reserve:      ${hasReserve && Number.isFinite(a.arrivalL) ? `${marginOf(a.arrivalL - a.reserveL)}${Number.isFinite(a.arrivalMarginMin) ? `, ${signedDown(a.arrivalMarginMin)} min at normal cruise` : ''}` : '—'}`,
+		`Reserve amount:           ${hasReserve ? `${f(a.reserveL)} (at ${flowText(a.cruiseFlowLph)} normal cruise)` : '—'}`,
+		`Against the reserve:      ${hasReserve && Number.isFinite(a.arrivalL) ? `${marginOf(a.arrivalL - a.reserveL)}${Number.isFinite(a.arrivalMarginMin) ? `, ${signedMinutes(a.arrivalMarginMin)} at normal cruise` : ''}` : '—'}`,
 		MARGIN_ROUNDING_NOTE,
 		'',
 		`Watch the flight live: ${ctx.url}`,
@@ -155,9 +156,9 @@ export function alarmMail(a: AlarmFigures, ctx: { registration: string; displayU
 }
 
 /** Members who watch the flight or its aircraft and may see the flight. */
-export async function watchersOf(flight: Flight): Promise<{ id: string; email: string; name: string }[]> {
+export async function watchersOf(flight: Flight): Promise<{ id: string; email: string; name: string; timeZone: string | null }[]> {
 	const rows = await db
-		.selectDistinct({ id: users.id, email: users.email, name: users.name, prefFuelUnit: users.prefFuelUnit, role: memberships.role })
+		.selectDistinct({ id: users.id, email: users.email, name: users.name, prefFuelUnit: users.prefFuelUnit, timeZone: users.timeZone, role: memberships.role })
 		.from(watches)
 		.innerJoin(users, eq(users.id, watches.userId))
 		.innerJoin(memberships, and(eq(memberships.userId, users.id), eq(memberships.orgId, flight.orgId)))
@@ -190,8 +191,8 @@ export async function mailAlarms(flightId: string, alarms: readonly NewAlarm[]):
 	const url = link(`/o/${row.slug}/flights/${flightId}/live`);
 	for (const a of alarms) {
 		if (!mine.has(a.id)) continue;
-		const mail = alarmMail(a.figures, { registration: row.registration, displayUnit: row.displayUnit, densityKgPerL: row.densityKgPerL, url });
 		for (const r of recipients) {
+			const mail = alarmMail(a.figures, { registration: row.registration, displayUnit: row.displayUnit, densityKgPerL: row.densityKgPerL, url, timeZone: r.timeZone });
 			try {
 				await sendMail({ to: r.email, ...mail });
 				sent++;

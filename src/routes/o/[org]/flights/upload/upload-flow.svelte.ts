@@ -2,6 +2,7 @@
 // import profile, or the mapper) with the browser's trial parse of the file's first part, the fuel
 // declared at engine start, and the transfer with the server's own progress and its answer.
 // The page holds only markup; everything it shows or binds is here.
+import { count, fileSize, flowFigure } from '$lib/format';
 import { goto } from '$app/navigation';
 import { parseRecorderText, previewCsv, type ColumnMapping, type ParseSummary, type Preview, type RecorderRow, type RowProblem } from '$lib/csv';
 import { fromLitresPerHour, type FlowUnit, type FuelUnit } from '$lib/units';
@@ -26,9 +27,7 @@ const STEP_SHARE: Record<string, [number, string]> = {
 };
 
 /** A byte count as KB or MB. */
-export const mb = (n: number) => (n < 1024 * 1024 ? `${Math.max(1, Math.round(n / 1024))} KB` : `${(n / 1024 / 1024).toFixed(1)} MB`);
-/** A table cell of the trial rows: the figure, or a dash. */
-export const cell = (v: number | null, digits = 1) => (v === null ? '—' : v.toFixed(digits));
+export const mb = fileSize;
 
 export class UploadFlow {
 	// The page's own choices start from the loaded data and then belong to the user.
@@ -92,7 +91,7 @@ export class UploadFlow {
 		const hidden = (this.trial?.problems.length ?? 0) - this.trialProblems.length;
 		const n = (this.trial?.problemCount ?? 0) - hidden;
 		const listed = n > this.trialProblems.length ? ` (the first ${this.trialProblems.length} below)` : '';
-		return `${n.toLocaleString('en-US')} ${n === 1 ? 'problem' : 'problems'} ${this.whole ? 'in this file' : 'in its first part'}${listed}. Burndown stores nothing of a file with problems: correct the file or the column mapping first.`;
+		return `${count(n)} ${n === 1 ? 'problem' : 'problems'} ${this.whole ? 'in this file' : 'in its first part'}${listed}. Burndown stores nothing of a file with problems: correct the file or the column mapping first.`;
 	});
 
 	readonly ready = $derived(
@@ -108,7 +107,7 @@ export class UploadFlow {
 	readonly serverLabel = $derived.by(() => {
 		if (this.outcome) return 'Done';
 		if (!this.server) return this.phase === 'sending' ? 'Waiting for the server' : '';
-		if (this.server.phase === 'reading') return `Reading and checking: ${this.server.rows.toLocaleString()} samples`;
+		if (this.server.phase === 'reading') return `Reading and checking: ${count(this.server.rows)} samples`;
 		return STEP_SHARE[this.server.step]?.[1] ?? 'Storing';
 	});
 	readonly sentPercent = $derived(this.total > 0 ? (this.sent / this.total) * 100 : 0);
@@ -146,7 +145,7 @@ export class UploadFlow {
 
 	/** A flow from the trial rows in the aircraft's flow unit. */
 	flowCell(lph: number | null): string {
-		return lph === null ? '—' : `${fromLitresPerHour(lph, this.flowUnit, this.ac?.densityKgPerL).toFixed(1)}`;
+		return lph === null ? '—' : flowFigure(fromLitresPerHour(lph, this.flowUnit, this.ac?.densityKgPerL), this.flowUnit);
 	}
 
 	chooseFile = async (e: Event): Promise<void> => {
@@ -160,7 +159,7 @@ export class UploadFlow {
 		this.detected = null;
 		if (!f) return;
 		if (f.size > maxBytes) {
-			this.fileError = `This file is ${(f.size / 1024 / 1024).toFixed(1)} MB; the limit is ${maxLabel}.`;
+			this.fileError = `This file is ${fileSize(f.size)}; the limit is ${maxLabel}.`;
 			return;
 		}
 		this.whole = f.size <= SAMPLE_BYTES;
