@@ -66,7 +66,7 @@ export async function computationsFor(q: Queryable, asked: readonly ComputationA
 	const [inForce, allEvents, recents] = [
 		await aircraftAtAll(asked.map((x) => ({ aircraft: x.aircraft, at: x.flight.startedAt })), q),
 		await q.select().from(fuelEvents).where(inArray(fuelEvents.flightId, ids)).orderBy(asc(fuelEvents.t), asc(fuelEvents.createdAt)),
-		await recentCruiseFlowsLph(asked.map((x, i) => ({ aircraftId: x.aircraft.id, before: x.flight })), q)
+		await recentCruiseFlowsLph(asked.map((x) => ({ aircraftId: x.aircraft.id, before: x.flight })), q)
 	];
 	const out: Computed[] = [];
 	for (let i = 0; i < asked.length; i++) {
@@ -111,6 +111,8 @@ export async function computationsFor(q: Queryable, asked: readonly ComputationA
 			c.processedSeq = run.seq[run.seq.length - 1];
 		}
 		c.usedAt = Date.now();
+		// A caller other than the grouped appends writes alarm rows its own way: sync again next time.
+		if (!appended) c.syncedAlarms = null;
 		out.push({ comp: c.comp, newFrom, waypoints: [...c.waypointIds.keys()] });
 	}
 	sweepCache();
