@@ -14,6 +14,8 @@ import {
 	type FuelEvent,
 	type SampleColumns
 } from '../src/lib/fuel/index';
+// The same deterministic generator as the engine's tests, so every run benchmarks the same data.
+import { rng } from '../src/lib/fuel/test-fixtures';
 
 const SAMPLES = Number(process.env.BENCH_SAMPLES ?? 1_000_000);
 const WARMUP_RUNS = 3;
@@ -23,17 +25,6 @@ const TARGET_SAMPLES_PER_S = 10_000_000;
 const TARGET_MS_PER_MILLION = 100;
 /** Our reading of "appends of 10 samples in microseconds": well under a millisecond. */
 const TARGET_APPEND_US = 100;
-
-/** Small deterministic generator so every run benchmarks the same data. */
-function rng(seed: number): () => number {
-	let s = seed >>> 0;
-	return () => {
-		s = (s + 0x6d2b79f5) >>> 0;
-		let x = Math.imul(s ^ (s >>> 15), 1 | s);
-		x = (x + Math.imul(x ^ (x >>> 7), 61 | x)) ^ x;
-		return ((x ^ (x >>> 14)) >>> 0) / 4294967296;
-	};
-}
 
 /**
  * Repeated legs of an invented touring trip at 1 Hz: taxi out, climb, cruise, descent, taxi in,

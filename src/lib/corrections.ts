@@ -1,36 +1,9 @@
-// The audit trail of a flight's fuel inputs, as stored and as shown: the snapshots written before
-// and after each correction (canonical litres) and the one wording the replay page uses for them.
-// Shared by the server (which writes them) and the page (which lists them in the viewer's unit).
-import type { Declaration, FuelEventKind } from '$lib/fuel';
+// The audit trail of a flight's fuel inputs as shown: the one wording the replay page uses for each
+// correction (the snapshots themselves are in $lib/wire/corrections). Shared by the server (which
+// limits reasons) and the page (which lists them in the viewer's unit).
+import type { FuelEventKind } from '$lib/fuel';
 import { declarationKindLabels } from '$lib/schemas/declaration';
-
-export type CorrectionKind = 'declaration' | 'eventAdded' | 'eventRemoved';
-
-export interface DeclarationSnapshot {
-	declaration: Declaration;
-	previousOnBoardL: number | null;
-	/** False while the start fuel was only assumed (a live flight opened without a declaration). */
-	confirmed: boolean;
-}
-
-export interface EventSnapshot {
-	/** ISO time of the event. */
-	t: string;
-	kind: FuelEventKind;
-	amountL: number | null;
-	note: string;
-}
-
-export interface CorrectionView {
-	id: string;
-	at: Date;
-	/** The member's name; null once the account is gone. */
-	by: string | null;
-	kind: CorrectionKind;
-	before: DeclarationSnapshot | EventSnapshot | null;
-	after: DeclarationSnapshot | EventSnapshot | null;
-	reason: string;
-}
+import { isDeclarationSnapshot, type CorrectionView, type DeclarationSnapshot, type EventSnapshot } from '$lib/wire/corrections';
 
 /** Most a reason may say; the form and the server share it. */
 export const REASON_MAX = 200;
@@ -60,16 +33,7 @@ function eventText(s: EventSnapshot, fuel: FuelText): string {
 
 /** One line of the "Corrections" list: what changed, from what, to what. */
 export function describeCorrection(c: Pick<CorrectionView, 'kind' | 'before' | 'after'>, fuel: FuelText): { what: string; from: string; to: string } {
-	if (c.kind === 'declaration') {
-		return {
-			what: 'Fuel at engine start',
-			from: c.before ? declarationText(c.before as DeclarationSnapshot, fuel) : '—',
-			to: c.after ? declarationText(c.after as DeclarationSnapshot, fuel) : '—'
-		};
-	}
-	return {
-		what: c.kind === 'eventAdded' ? 'Fuel event added' : 'Fuel event removed',
-		from: c.before ? eventText(c.before as EventSnapshot, fuel) : 'none',
-		to: c.after ? eventText(c.after as EventSnapshot, fuel) : 'none'
-	};
+	const text = (s: CorrectionView['before'], none: string) => (s === null ? none : isDeclarationSnapshot(s) ? declarationText(s, fuel) : eventText(s, fuel));
+	if (c.kind === 'declaration') return { what: 'Fuel at engine start', from: text(c.before, '—'), to: text(c.after, '—') };
+	return { what: c.kind === 'eventAdded' ? 'Fuel event added' : 'Fuel event removed', from: text(c.before, 'none'), to: text(c.after, 'none') };
 }

@@ -12,7 +12,8 @@ export interface AircraftFuelSetup {
 	baselineCruiseLph: number | null;
 	lowFuelL: number | null;
 	lowEnduranceMin: number | null;
-	reserveRule: string;
+	/** Null when the stored rule is not one Burndown knows (the figures then have no reserve). */
+	reserveRule: ReserveRuleId | null;
 	reserveCustomMin: number | null;
 	/**
 	 * The aircraft's recent median cruise flow, L/h, from the stored summaries of its earlier
@@ -49,8 +50,8 @@ export function thresholdsOf(a: AircraftFuelSetup): AlarmThresholds {
 	return { lowFuelL: a.lowFuelL, lowEnduranceMin: a.lowEnduranceMin, arrivalBelowReserve: true };
 }
 
-export function reserveOf(a: AircraftFuelSetup): ReserveSetting {
-	return { ruleId: a.reserveRule as ReserveRuleId, customMinutes: a.reserveCustomMin ?? undefined };
+export function reserveOf(a: AircraftFuelSetup): ReserveSetting | null {
+	return a.reserveRule === null ? null : { ruleId: a.reserveRule, customMinutes: a.reserveCustomMin ?? undefined };
 }
 
 const epochSeconds = (t: Date | string | number) => (typeof t === 'number' ? t : new Date(t).getTime() / 1000);

@@ -8,7 +8,7 @@ import { beforeAll, describe, expect, it } from 'vitest';
 import type { RequestEvent } from '@sveltejs/kit';
 import { isHttpError } from '@sveltejs/kit';
 import { asc, desc, eq } from 'drizzle-orm';
-import type { CorrectionView, DeclarationSnapshot, EventSnapshot } from '$lib/corrections';
+import type { CorrectionView, DeclarationSnapshot, EventSnapshot } from '$lib/wire/corrections';
 import { db, pool } from '$lib/server/db';
 import { aircraft, calibrations, flightFigures, flightPhaseFigures, flights, fuelCorrections, fuelEvents, memberships, organisations, users } from '$lib/server/db/schema';
 import { loadFlight } from '$lib/server/flights/load';
@@ -133,7 +133,7 @@ beforeAll(async () => {
 		displayUnit: 'usgal' as const,
 		lowFuelL: 10 * LITRES_PER_US_GALLON,
 		lowEnduranceMin: 45,
-		reserveRule: 'faa-91.151-vfr-day',
+		reserveRule: 'faa-91.151-vfr-day' as const,
 		baselineCruiseLph: 31,
 		lastOnBoardL: 30 * LITRES_PER_US_GALLON
 	});

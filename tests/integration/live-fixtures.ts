@@ -68,7 +68,7 @@ export async function liveWorld(): Promise<LiveWorld> {
 		displayUnit: 'usgal' as const,
 		lowFuelL: 10 * US_GAL,
 		lowEnduranceMin: 45,
-		reserveRule: 'faa-91.151-vfr-day',
+		reserveRule: 'faa-91.151-vfr-day' as const,
 		baselineCruiseLph: 8.2 * US_GAL,
 		lastOnBoardL: 36 * US_GAL
 	});

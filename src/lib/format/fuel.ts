@@ -1,15 +1,19 @@
 // Fuel amounts in a chosen unit from the engine's litres, and the reserve rules' labels.
-import { reserveRules } from '$lib/fuel';
+import { reserveRules, type ReserveRuleId } from '$lib/fuel';
 import type { RoundMode } from '$lib/rounding';
 import { flowUnitOf, fromLitres, fromLitresPerHour, type FuelUnit } from '$lib/units';
 import { flowRate, fuelAmount, fuelMargin } from './numbers';
 
-export function reserveRuleLabel(id: string, customMin: number | null): string {
+/** A stored rule that is not one Burndown knows reads as null (src/lib/schemas/reserve.ts). */
+export const UNKNOWN_RESERVE_RULE = 'Unknown (the stored rule is not one Burndown knows: no reserve in these figures; choose the rule on the aircraft’s page)';
+
+export function reserveRuleLabel(id: ReserveRuleId | null, customMin: number | null): string {
+	if (id === null) return UNKNOWN_RESERVE_RULE;
 	if (id === 'custom') return customMin === null ? 'Custom' : `Custom (${customMin} min)`;
 	return reserveRules.find((r) => r.id === id)?.label ?? id;
 }
 
-export function reserveRuleCitation(id: string): string {
+export function reserveRuleCitation(id: ReserveRuleId | null): string {
 	return reserveRules.find((r) => r.id === id)?.citation ?? '';
 }
 

@@ -1,103 +1,64 @@
-// The single pass that turns samples into per-sample fuel state. Batch and live both run this
-// loop over index ranges, carrying every running value in an EngineState, which is why a live
-// flight gives exactly the numbers of a replay of the same samples.
+// The single pass that turns samples into per-sample fuel state. Batch and live both run it over
+// index ranges, carrying every running value in an EngineState, which is why a live flight gives
+// exactly the numbers of a replay of the same samples.
+//
+// The pass is a chain of named stages (stages/), each a plain loop over a block of samples that
+// reads the input columns and what earlier stages wrote into the output arrays, and keeps its own
+// running values. runKernel runs them in order over blocks of KERNEL_BLOCK samples, so a block's
+// arrays are still in the processor's cache when the next stage reads them:
+//   1 accept.ts     row checks (bad rows reported and skipped by every later stage); flow reading
+//                   × meter factor, a blank cell holding the last reading
+//   2 phase.ts      the flight phase (phases.ts)
+//   3 burn.ts       fuel used (integrate.ts), dropouts (gaps.ts) and the end of blank-flow stretches;
+//                   time, fuel and distance per phase; moving and engine time; normal-cruise flow
+//   4 on-board.ts   fuel events, fuel on board and used, endurance, engine-running figures
+//   5 arrival.ts    reserve amount, when on board first reaches it, waypoint figures, arrival state
+//   6 margin.ts     the thinnest airborne margin that held (window.ts)
+//   7 alarm.ts      alarm values and episodes (alarms.ts)
+//   8 refill.ts     samples of the blank-flow stretches that ended rewritten at the fill flow
+// A stage only reads what stages before it wrote for the same or earlier samples, and stage 8
+// only rewrites samples every stage is done with, so the order of blocks does not change a
+// single bit: a live append of ten samples is one short block.
 
-import { arrivalPersistS, createAlarmTracks, updateAlarm, type AlarmTrack } from './alarms';
+import { arrivalPersistS, createAlarmTracks, type AlarmTrack } from './alarms';
 import { checkProfile, litresText, resolveDeclaration } from './declaration';
-import { eventDelta, normalizeEvents } from './events';
-import { createGapTracker, gapThresholdFor, type GapTracker } from './gaps';
-import { gapFillFlow, segmentLitres } from './integrate';
-import { createPhaseTracker, PHASE_CLIMB, PHASE_COUNT, PHASE_CRUISE, PHASE_STOPPED, PHASE_TAXI, trackPhase, type PhaseTracker } from './phases';
-import {
-	BASIS_BASELINE,
-	BASIS_MEASURED,
-	BASIS_NONE,
-	BASIS_RECENT,
-	MIN_MEASURED_CRUISE_S,
-	reserveAmount,
-	reserveMinutesOf,
-	type ReserveSetting
-} from './reserve';
-import { createTrailingMax, pushTrailingMax, resetTrailingMax, type TrailingMax } from './window';
-import {
-	ARRIVAL_EATS_INTO,
-	ARRIVAL_KEEPS,
-	ARRIVAL_NO_RESERVE,
-	ARRIVAL_NONE,
-	ARRIVAL_RUNS_OUT,
-	FLAG_ENDURANCE,
-	FLAG_EVENT,
-	FLAG_FLOW_FILLED,
-	FLAG_FLOW_HELD,
-	FLAG_GAP_FILLED,
-	FLAG_REJECTED,
-	FLAG_WAYPOINT,
-	WPT_NONE,
-	type AlarmEpisode,
-	type AlarmThresholds,
-	type DataGap,
-	type DataProblem,
-	type EngineOptions,
-	type EngineWarning,
-	type FlightComputation,
-	type FlightInput,
-	type FlightStats,
-	type FuelEvent,
-	type ResolvedDeclaration,
-	type ResolvedEvent,
-	type SampleColumns,
-	type UsableProfile
+import { normalizeEvents } from './events';
+import { createGapTracker, type GapTracker } from './gaps';
+import { createPhaseTracker, PHASE_COUNT, PHASE_CRUISE, type PhaseTracker } from './phases';
+import { reserveAmount, reserveMinutesOf, type ReserveSetting } from './reserve';
+import { acceptStage, createAcceptState, type AcceptState } from './stages/accept';
+import { alarmStage } from './stages/alarm';
+import { arrivalStage, type ArrivalState } from './stages/arrival';
+import { burnStage, createBurnState, type BlankStretch, type BurnState } from './stages/burn';
+import { marginStage } from './stages/margin';
+import { createOnBoardState, onBoardStage, type OnBoardState } from './stages/on-board';
+import { phaseStage } from './stages/phase';
+import { refillStage } from './stages/refill';
+import type {
+	AlarmEpisode,
+	AlarmThresholds,
+	DataGap,
+	DataProblem,
+	EngineOptions,
+	EngineWarning,
+	FlightComputation,
+	FlightInput,
+	FlightStats,
+	FuelEvent,
+	ResolvedDeclaration,
+	ResolvedEvent,
+	SampleColumns,
+	UsableProfile
 } from './types';
-import { DEFAULT_LIMITS, describeProblem, problemField, rowProblem, type RowLimits } from './validate';
-import {
-	enduranceH,
-	fuelToWaypointL,
-	specificRangeNmPerL,
-	timeToWaypointH
-} from './waypoint';
-
+import { createTrailingMax, type TrailingMax } from './window';
+import { DEFAULT_LIMITS, type RowLimits } from './validate';
 
 /*
- * Module-level copies of what the kernel uses per sample: an imported binding can compile to a
- * getter call (CommonJS interop in tsx and the test runner), which at a million samples costs as
- * much as the arithmetic. Same values, read directly.
+ * The stage modules keep module-level copies of what they use per sample: an imported binding
+ * can compile to a getter call (CommonJS interop in tsx and the test runner), which at a million
+ * samples costs as much as the arithmetic. Same values, read directly.
  */
-const K_PHASE_STOPPED = PHASE_STOPPED;
-const K_PHASE_TAXI = PHASE_TAXI;
-const K_PHASE_CLIMB = PHASE_CLIMB;
-const K_PHASE_CRUISE = PHASE_CRUISE;
-const K_BASIS_NONE = BASIS_NONE;
-const K_BASIS_BASELINE = BASIS_BASELINE;
-const K_BASIS_MEASURED = BASIS_MEASURED;
-const K_BASIS_RECENT = BASIS_RECENT;
-const K_MIN_MEASURED_CRUISE_S = MIN_MEASURED_CRUISE_S;
-const K_ARRIVAL_NONE = ARRIVAL_NONE;
-const K_ARRIVAL_KEEPS = ARRIVAL_KEEPS;
-const K_ARRIVAL_EATS_INTO = ARRIVAL_EATS_INTO;
-const K_ARRIVAL_RUNS_OUT = ARRIVAL_RUNS_OUT;
-const K_ARRIVAL_NO_RESERVE = ARRIVAL_NO_RESERVE;
-const K_FLAG_REJECTED = FLAG_REJECTED;
-const K_FLAG_FLOW_HELD = FLAG_FLOW_HELD;
-const K_FLAG_FLOW_FILLED = FLAG_FLOW_FILLED;
-const K_FLAG_GAP_FILLED = FLAG_GAP_FILLED;
-const K_FLAG_EVENT = FLAG_EVENT;
-const K_FLAG_ENDURANCE = FLAG_ENDURANCE;
-const K_FLAG_WAYPOINT = FLAG_WAYPOINT;
-const K_WPT_NONE = WPT_NONE;
-const kRowProblem = rowProblem;
-const kTrackPhase = trackPhase;
-const kGapThresholdFor = gapThresholdFor;
-const kSegmentLitres = segmentLitres;
-const kGapFillFlow = gapFillFlow;
-const kEnduranceH = enduranceH;
-const kTimeToWaypointH = timeToWaypointH;
-const kFuelToWaypointL = fuelToWaypointL;
-const kSpecificRangeNmPerL = specificRangeNmPerL;
-const kPushTrailingMax = pushTrailingMax;
-const kResetTrailingMax = resetTrailingMax;
-const kUpdateAlarm = updateAlarm;
-const kEventDelta = eventDelta;
-const kDescribeProblem = describeProblem;
+
 
 /** Option defaults (our choice). */
 export const DEFAULT_OPTIONS = {
@@ -188,7 +149,7 @@ export function prepare(input: EngineInputs): EngineSetup {
 }
 
 
-const FLOAT_OUTPUTS = [
+export const FLOAT_OUTPUTS = [
 	'flow',
 	'used',
 	'onBoard',
@@ -201,7 +162,7 @@ const FLOAT_OUTPUTS = [
 	'reserveL',
 	'cruiseFlow'
 ] as const;
-const BYTE_OUTPUTS = ['phase', 'alarmState', 'flags', 'arrivalState', 'reserveBasis'] as const;
+export const BYTE_OUTPUTS = ['phase', 'alarmState', 'flags', 'arrivalState', 'reserveBasis'] as const;
 
 /** The per-sample result arrays; live mode allocates them with spare room and grows them. */
 export type Outputs = Pick<FlightComputation, (typeof FLOAT_OUTPUTS)[number] | (typeof BYTE_OUTPUTS)[number]>;
@@ -223,37 +184,22 @@ export function growOutputs(o: Outputs, used: number, capacity: number): Outputs
 
 export interface EngineState {
 	setup: EngineSetup;
-	gap: GapTracker;
-	phase: PhaseTracker;
-	alarmTracks: [AlarmTrack, AlarmTrack, AlarmTrack];
+	/** The last accepted sample (a live flight applies a later event without recomputing). */
 	lastT: number;
 	lastIdx: number;
-	/** Flow at the last accepted sample (after the meter factor, blanks held). */
-	lastFlow: number;
-	lastGs: number;
-	lastPhase: number;
-	lastRealFlowT: number;
-	lastRealFlowIdx: number;
-	/** The last real (not blank) flow reading, after the meter factor. */
-	lastRealFlow: number;
-	flowHeld: boolean;
-	/** The last real ground speed and its time, to bridge distance across blank cells. */
-	lastRealGs: number;
-	lastRealGsT: number;
+	/** Each stage's own running values (stages/). */
+	accept: AcceptState;
+	phase: PhaseTracker;
+	gap: GapTracker;
+	burn: BurnState;
+	fuel: OnBoardState;
+	arrival: ArrivalState;
 	/** The arrival margin held over the persistence time, for the thinnest airborne margin. */
 	marginWindow: TrailingMax;
-	usedTotal: number;
-	usedOffset: number;
-	/**
-	 * Fuel on board is anchored at the last event: anchorOnBoard − (usedTotal − anchorUsed). At
-	 * the event itself that is the anchor exactly, so "filled to full" reads the capacity, not
-	 * the capacity give or take a rounding error.
-	 */
-	anchorOnBoard: number;
-	anchorUsed: number;
-	eventIdx: number;
+	alarmTracks: [AlarmTrack, AlarmTrack, AlarmTrack];
 	alarmBits: number;
-	belowZeroWarned: boolean;
+	/** Blank-flow stretches that ended in the current block, for stage 8. */
+	blankStretches: BlankStretch[];
 	stats: FlightStats;
 	gaps: DataGap[];
 	problems: DataProblem[];
@@ -300,7 +246,9 @@ export function createState(setup: EngineSetup): EngineState {
 	const o = setup.options;
 	return {
 		setup,
-		gap: createGapTracker(o.gapFloorS, o.gapFactor, o.gapThresholdS),
+		lastT: NaN,
+		lastIdx: -1,
+		accept: createAcceptState(),
 		phase: createPhaseTracker({
 			minFlowLph: o.minFlowLph,
 			minGsKt: o.minGsKt,
@@ -309,26 +257,14 @@ export function createState(setup: EngineSetup): EngineState {
 			// Without a set normal-cruise flow, the aircraft's recent cruise is the next best reference.
 			baselineLph: setup.profile.baselineCruiseFlowLph ?? (setup.recentCruiseLph === setup.recentCruiseLph ? setup.recentCruiseLph : null)
 		}),
-		alarmTracks: createAlarmTracks(setup.thresholds),
-		lastT: NaN,
-		lastIdx: -1,
-		lastFlow: NaN,
-		lastGs: NaN,
-		lastPhase: 0,
-		lastRealFlowT: NaN,
-		lastRealFlowIdx: -1,
-		lastRealFlow: NaN,
-		flowHeld: false,
-		lastRealGs: NaN,
-		lastRealGsT: NaN,
+		gap: createGapTracker(o.gapFloorS, o.gapFactor, o.gapThresholdS),
+		burn: createBurnState(),
+		fuel: createOnBoardState(setup.declaration.onBoardL),
+		arrival: { lastIdx: -1 },
 		marginWindow: createTrailingMax(arrivalPersistS(setup.thresholds)),
-		usedTotal: 0,
-		usedOffset: 0,
-		anchorOnBoard: setup.declaration.onBoardL,
-		anchorUsed: 0,
-		eventIdx: 0,
+		alarmTracks: createAlarmTracks(setup.thresholds),
 		alarmBits: 0,
-		belowZeroWarned: false,
+		blankStretches: [],
 		stats: emptyStats(),
 		gaps: [],
 		problems: [],
@@ -338,465 +274,28 @@ export function createState(setup: EngineSetup): EngineState {
 	};
 }
 
-function problemValue(code: number, t: number, flow: number, gs: number, dtg: number, alt: number): number {
-	switch (problemField(code)) {
-		case 't':
-			return t;
-		case 'flow':
-			return flow;
-		case 'gs':
-			return gs;
-		case 'dtg':
-			return dtg;
-		default:
-			return alt;
-	}
-}
+/** Samples per block: the arrays a block touches (about 170 bytes a sample) stay in L1/L2 cache. */
+export const KERNEL_BLOCK = 512;
 
 /**
- * Processes samples [from, to). Running values live in locals inside the loop (fast in V8) and
- * are written back to the state at the end, so the next call continues exactly where this one
- * stopped. Nothing is allocated per sample except for rare timeline entries.
+ * Processes samples [from, to): every stage over one block, then the next block. The state
+ * carries every running value, so the next call continues exactly where this one stopped.
+ * Nothing is allocated per sample except for rare timeline entries.
  */
 export function runKernel(s: EngineState, cols: SampleColumns, out: Outputs, from: number, to: number): void {
-	const { t, flow, gs, dtg } = cols;
-	const alt = cols.alt;
-	const wpt = cols.wpt;
-	const setup = s.setup;
-	const profile = setup.profile;
-	const o = setup.options;
-	const lim = o.limits;
-	const maxFlowLim = lim.maxFlowLph;
-	const maxGsLim = lim.maxGsKt;
-	const maxDtgLim = lim.maxDtgNm;
-	const minAltLim = lim.minAltFt;
-	const maxAltLim = lim.maxAltFt;
-	const minFlow = o.minFlowLph;
-	const minGs = o.minGsKt;
-	const wptGs = o.waypointMinGsKt;
-	const mf = profile.meterFactor;
-	const events = setup.events;
-	const nEv = events.length;
-	const gap = s.gap;
-	const ph = s.phase;
-	const alarmFuel = s.alarmTracks[0];
-	const alarmEndurance = s.alarmTracks[1];
-	const alarmArrival = s.alarmTracks[2];
-	const episodes = s.alarms;
-	// NaN (alarm off) never compares below, so an off alarm costs nothing here.
-	const fuelThreshold = alarmFuel.threshold;
-	const enduranceThreshold = alarmEndurance.threshold;
-	const arrivalThreshold = alarmArrival.threshold;
-	const airborneGs = o.airborneGsKt;
-	const reserveMin = setup.reserveMinutes;
-	const baselineRaw = profile.baselineCruiseFlowLph;
-	const baseline = baselineRaw !== null && baselineRaw > 0 ? baselineRaw : NaN;
-	const recent = setup.recentCruiseLph;
-	const win = s.marginWindow;
-	const st = s.stats;
-	const phaseTime = st.phaseTimeS;
-	const phaseFuel = st.phaseFuelL;
-	const phaseDist = st.phaseDistanceNm;
-	const oFlow = out.flow;
-	const oUsed = out.used;
-	const oOnBoard = out.onBoard;
-	const oEndurance = out.endurance;
-	const oTime = out.timeToWpt;
-	const oFuel = out.fuelToWpt;
-	const oArrival = out.arrivalL;
-	const oMarginMin = out.arrivalMarginMin;
-	const oRange = out.specificRange;
-	const oReserveL = out.reserveL;
-	const oCruise = out.cruiseFlow;
-	const oPhase = out.phase;
-	const oAlarm = out.alarmState;
-	const oFlags = out.flags;
-	const oArrivalState = out.arrivalState;
-	const oBasis = out.reserveBasis;
-
-	let lastT = s.lastT;
-	let lastIdx = s.lastIdx;
-	let lastFlow = s.lastFlow;
-	let lastGs = s.lastGs;
-	let lastPhase = s.lastPhase;
-	let lastRealT = s.lastRealFlowT;
-	let lastRealIdx = s.lastRealFlowIdx;
-	let lastRealFlow = s.lastRealFlow;
-	let lastRealGs = s.lastRealGs;
-	let lastRealGsT = s.lastRealGsT;
-	let held = s.flowHeld;
-	let usedTotal = s.usedTotal;
-	let usedOffset = s.usedOffset;
-	let anchorOnBoard = s.anchorOnBoard;
-	let anchorUsed = s.anchorUsed;
-	let eventIdx = s.eventIdx;
-	// Events are sorted: one compare per sample against the next one's time.
-	let nextEventT = eventIdx < nEv ? events[eventIdx].t : Infinity;
-	let alarmBits = s.alarmBits;
-	let belowZeroWarned = s.belowZeroWarned;
-	let accepted = st.acceptedCount;
-	let engineTime = st.engineTimeS;
-	let moving = st.movingTimeS;
-	let distance = st.distanceNm;
-	let maxFlow = st.maxFlowLph;
-	let firstRunT = st.firstRunT;
-	let lastRunT = st.lastRunT;
-	let lastRunIdx = st.lastRunIndex;
-	let lastRunOnBoard = st.lastRunOnBoardL;
-	let lastRunFlow = st.lastRunFlowLph;
-	let firstMoveT = st.firstMoveT;
-	let lastMoveT = st.lastMoveT;
-	let thinnest = st.thinnestMarginL;
-	// Whether an alarm not yet raised has a value below its threshold (counting its persistence).
-	let pendingBelow =
-		alarmFuel.belowSince === alarmFuel.belowSince ||
-		alarmEndurance.belowSince === alarmEndurance.belowSince ||
-		alarmArrival.belowSince === alarmArrival.belowSince;
-
-	for (let i = from; i < to; i++) {
-		const ti = t[i];
-		const rawFlow = flow[i];
-		const g = gs[i];
-		const d = dtg[i];
-		const a = alt !== undefined ? alt[i] : NaN;
-
-		// Fast path for a good row; kRowProblem says exactly what is wrong with the others.
-		const suspect =
-			!(ti > lastT && ti < Infinity) ||
-			rawFlow < 0 ||
-			rawFlow > maxFlowLim ||
-			g < 0 ||
-			g > maxGsLim ||
-			d < 0 ||
-			d > maxDtgLim ||
-			a < minAltLim ||
-			a > maxAltLim;
-		const problem = suspect ? kRowProblem(ti, lastT, rawFlow, g, d, a, lim) : 0;
-		if (problem !== 0) {
-			s.problems.push(kDescribeProblem(problem, i, problemValue(problem, ti, rawFlow, g, d, a), lastT));
-			// A skipped sample carries the running totals so the arrays stay aligned with the input.
-			oFlow[i] = NaN;
-			oUsed[i] = usedTotal - usedOffset;
-			oOnBoard[i] = anchorOnBoard - (usedTotal - anchorUsed);
-			oEndurance[i] = NaN;
-			oTime[i] = NaN;
-			oFuel[i] = NaN;
-			oArrival[i] = NaN;
-			oMarginMin[i] = NaN;
-			oRange[i] = NaN;
-			oReserveL[i] = lastIdx >= 0 ? oReserveL[lastIdx] : NaN;
-			oCruise[i] = lastIdx >= 0 ? oCruise[lastIdx] : NaN;
-			oBasis[i] = lastIdx >= 0 ? oBasis[lastIdx] : K_BASIS_NONE;
-			oArrivalState[i] = K_ARRIVAL_NONE;
-			oPhase[i] = 0;
-			oAlarm[i] = alarmBits;
-			oFlags[i] = K_FLAG_REJECTED;
-			continue;
-		}
-
-		let flags = 0;
-		let f: number;
-		if (rawFlow === rawFlow) f = rawFlow * mf;
-		else {
-			// A blank flow cell holds the last reading for now (a live flight cannot see the next
-			// one); when the next reading comes, the stretch is filled with the higher of the two.
-			f = lastRealFlow;
-			if (f === f) flags |= K_FLAG_FLOW_HELD;
-		}
-		const p = kTrackPhase(ph, ti, f, g, a);
-
-		if (lastIdx >= 0) {
-			const dt = ti - lastT;
-			const threshold = kGapThresholdFor(gap, dt);
-			const isGap = dt > threshold;
-			let inc = kSegmentLitres(lastFlow, f, dt, isGap);
-			if (isGap) {
-				flags |= K_FLAG_GAP_FILLED;
-				s.gaps.push({
-					kind: 'time',
-					start: lastT,
-					end: ti,
-					startIndex: lastIdx,
-					endIndex: i,
-					filledFlowLph: kGapFillFlow(lastFlow, f)
-				});
-			}
-			if (rawFlow === rawFlow && held && lastRealIdx >= 0 && lastRealFlow === lastRealFlow) {
-				// End of a stretch of blank flow cells: the same rule as missing rows, the higher
-				// adjacent real reading over the whole stretch. Fuel used so far counted the held
-				// reading; this segment takes the difference, and the samples inside are rewritten.
-				const fill = f > lastRealFlow ? f : lastRealFlow;
-				inc = (fill * (ti - lastRealT) - lastRealFlow * (lastT - lastRealT)) / 3600;
-				const extraLph = fill - lastRealFlow;
-				for (let j = lastRealIdx + 1; j < i; j++) {
-					if (oFlags[j] & K_FLAG_REJECTED) {
-						// A skipped sample carries the totals of the one before it.
-						oUsed[j] = oUsed[j - 1];
-						oOnBoard[j] = oOnBoard[j - 1];
-						continue;
-					}
-					const extra = (extraLph * (t[j] - lastRealT)) / 3600;
-					const ob = oOnBoard[j] - extra;
-					oFlow[j] = fill;
-					oUsed[j] += extra;
-					oOnBoard[j] = ob;
-					oEndurance[j] = kEnduranceH(ob, fill, minFlow);
-					const fuelJ = fill * oTime[j];
-					oFuel[j] = fuelJ;
-					const arr = ob - fuelJ;
-					oArrival[j] = arr;
-					oMarginMin[j] = ((arr - oReserveL[j]) / oCruise[j]) * 60;
-					oArrivalState[j] = arrivalCode(arr, oReserveL[j]);
-					oFlags[j] = (oFlags[j] & ~K_FLAG_FLOW_HELD) | K_FLAG_FLOW_FILLED;
-					if (extraLph > 0) phaseFuel[oPhase[j]] += (extraLph * (t[j] - t[j - 1])) / 3600;
-				}
-				if (ti - lastRealT > threshold)
-					s.gaps.push({ kind: 'flow', start: lastRealT, end: ti, startIndex: lastRealIdx, endIndex: i, filledFlowLph: fill });
-			}
-			usedTotal += inc;
-			// The segment belongs to the sample's phase, except the last stretch before the engine
-			// stops, which belongs to the phase it ended.
-			const seg = p <= K_PHASE_STOPPED && lastPhase > p ? lastPhase : p;
-			phaseTime[seg] += dt;
-			phaseFuel[seg] += inc;
-			// Distance bridges blank ground-speed cells and missing rows alike: the trapezoid
-			// between the adjacent real readings.
-			if (g === g && lastRealGs === lastRealGs) {
-				const dd = ((g + lastRealGs) * (ti - lastRealGsT)) / 7200;
-				distance += dd;
-				phaseDist[seg] += dd;
-			}
-			moving += ((lastGs >= minGs ? 0.5 : 0) + (g >= minGs ? 0.5 : 0)) * dt;
-			if (lastFlow > minFlow || f > minFlow) engineTime += dt;
-		} else {
-			st.firstT = ti;
-		}
-
-		while (ti >= nextEventT) {
-			const ev = events[eventIdx++];
-			nextEventT = eventIdx < nEv ? events[eventIdx].t : Infinity;
-			const before = anchorOnBoard - (usedTotal - anchorUsed);
-			flags |= K_FLAG_EVENT;
-			if (ev.kind === 'resetUsed') {
-				s.resolvedEvents.push({
-					event: ev,
-					index: i,
-					deltaL: 0,
-					onBoardBeforeL: before,
-					onBoardAfterL: before,
-					usedBeforeL: usedTotal - usedOffset
-				});
-				usedOffset = usedTotal;
-			} else {
-				const r = kEventDelta(ev, before, profile, s.setup.options.formatFuel);
-				if (r.warning) s.warnings.push({ ...r.warning, index: i });
-				anchorOnBoard = r.afterL;
-				anchorUsed = usedTotal;
-				s.resolvedEvents.push({
-					event: ev,
-					index: i,
-					deltaL: r.deltaL,
-					onBoardBeforeL: before,
-					onBoardAfterL: r.afterL,
-					usedBeforeL: usedTotal - usedOffset
-				});
-			}
-		}
-
-		const ob = anchorOnBoard - (usedTotal - anchorUsed);
-		oFlow[i] = f;
-		oUsed[i] = usedTotal - usedOffset;
-		oOnBoard[i] = ob;
-		if (ob < 0 && !belowZeroWarned) {
-			belowZeroWarned = true;
-			s.warnings.push({
-				code: 'onBoardBelowZero',
-				message:
-					'Computed fuel on board went below zero: the declared starting fuel or the meter factor is probably wrong.',
-				index: i,
-				t: ti
-			});
-		}
-
-		const endurance = kEnduranceH(ob, f, minFlow);
-		oEndurance[i] = endurance;
-		if (f > minFlow) {
-			flags |= K_FLAG_ENDURANCE;
-			if (f > maxFlow) maxFlow = f;
-			if (firstRunT !== firstRunT) firstRunT = ti;
-			lastRunT = ti;
-			lastRunIdx = i;
-			lastRunOnBoard = ob;
-			lastRunFlow = f;
-		}
-		if (g >= minGs) {
-			if (firstMoveT !== firstMoveT) firstMoveT = ti;
-			lastMoveT = ti;
-		}
-
-		// The normal-cruise flow in force, with the precedence of reserve.ts normalCruiseFlow():
-		// set baseline, else this flight's cruise so far (once long enough), else recent flights.
-		let cruise: number;
-		let basis: number;
-		const cruiseTime = phaseTime[K_PHASE_CRUISE];
-		if (baseline === baseline) {
-			cruise = baseline;
-			basis = K_BASIS_BASELINE;
-		} else if (cruiseTime >= K_MIN_MEASURED_CRUISE_S && phaseFuel[K_PHASE_CRUISE] > 0) {
-			cruise = (phaseFuel[K_PHASE_CRUISE] / cruiseTime) * 3600;
-			basis = K_BASIS_MEASURED;
-		} else if (recent === recent) {
-			cruise = recent;
-			basis = K_BASIS_RECENT;
-		} else {
-			cruise = NaN;
-			basis = K_BASIS_NONE;
-		}
-		// The one reserve amount every statement compares fuel against.
-		const reserveL = (reserveMin / 60) * cruise;
-		oReserveL[i] = reserveL;
-		oCruise[i] = cruise;
-		oBasis[i] = basis;
-		if (ob < reserveL && st.reserveReachedIndex < 0) {
-			st.reserveReachedIndex = i;
-			st.reserveReachedT = ti;
-		}
-
-		// No waypoint figures on the ground (a taxi or take-off roll would divide by a low speed)
-		// nor below the waypoint ground speed: NaN by construction, never Infinity.
-		const onGround = p === K_PHASE_TAXI || p === K_PHASE_STOPPED;
-		const airborne = p >= K_PHASE_CLIMB && g >= airborneGs;
-		const hours = onGround ? NaN : kTimeToWaypointH(d, g, wptGs);
-		const fuel = kFuelToWaypointL(f, hours);
-		const arrival = ob - fuel;
-		const marginL = arrival - reserveL;
-		oTime[i] = hours;
-		oFuel[i] = fuel;
-		oArrival[i] = arrival;
-		oMarginMin[i] = (marginL / cruise) * 60;
-		// arrivalCode() written out: one more call per sample would push trackPhase and friends out
-		// of V8's inlining budget (see phases.ts). properties.test.ts checks the two agree.
-		oArrivalState[i] =
-			arrival !== arrival
-				? K_ARRIVAL_NONE
-				: arrival < 0
-					? K_ARRIVAL_RUNS_OUT
-					: reserveL !== reserveL
-						? K_ARRIVAL_NO_RESERVE
-						: arrival >= reserveL
-							? K_ARRIVAL_KEEPS
-							: K_ARRIVAL_EATS_INTO;
-		oRange[i] = kSpecificRangeNmPerL(g, f, wptGs, minFlow);
-		if (arrival === arrival) flags |= K_FLAG_WAYPOINT;
-		if (airborne) {
-			st.airborne = true;
-			if (marginL >= thinnest) {
-				// A window holding this sample cannot hold less than the thinnest so far: start the
-				// next window after it (exact, and it keeps the queue empty most of the flight).
-				if (win.runStart === win.runStart) kResetTrailingMax(win);
-			} else if (marginL === marginL) {
-				const kept = kPushTrailingMax(win, ti, marginL);
-				if (kept < thinnest) {
-					thinnest = kept;
-					st.thinnestMarginMin = (kept / cruise) * 60;
-					st.thinnestMarginT = ti;
-					st.thinnestMarginIndex = i;
-					const w = wpt !== undefined ? wpt[i] : K_WPT_NONE;
-					st.thinnestMarginWpt = w === K_WPT_NONE ? null : w;
-				}
-			} else if (win.runStart === win.runStart) kResetTrailingMax(win);
-		} else if (win.runStart === win.runStart) kResetTrailingMax(win);
-
-		// The values alarms judge: endurance at the flow of alarms.ts enduranceJudgeFlow() (written
-		// out for the same inlining reason; properties.test.ts checks they agree); the arrival
-		// margin against the reserve (against empty tanks when there is no reserve), airborne only.
-		const judgeFlow = !(f > minFlow)
-			? NaN
-			: cruise !== cruise
-				? p === K_PHASE_CLIMB
-					? NaN
-					: f
-				: p === K_PHASE_CLIMB || cruise > f
-					? cruise
-					: f;
-		const enduranceMin = (ob / judgeFlow) * 60;
-		const arrivalValue = airborne ? (reserveL === reserveL ? marginL : arrival) : NaN;
-		// Most samples are nowhere near an alarm: one compare each before the full update.
-		if (alarmBits !== 0 || pendingBelow || ob < fuelThreshold || enduranceMin < enduranceThreshold || arrivalValue < arrivalThreshold) {
-			alarmBits =
-				kUpdateAlarm(alarmFuel, ob, ti, i, episodes) |
-				kUpdateAlarm(alarmEndurance, enduranceMin, ti, i, episodes) |
-				kUpdateAlarm(alarmArrival, arrivalValue, ti, i, episodes);
-			pendingBelow =
-				alarmFuel.belowSince === alarmFuel.belowSince ||
-				alarmEndurance.belowSince === alarmEndurance.belowSince ||
-				alarmArrival.belowSince === alarmArrival.belowSince;
-		}
-
-		oPhase[i] = p;
-		oAlarm[i] = alarmBits;
-		oFlags[i] = flags;
-
-		accepted++;
-		lastT = ti;
-		lastIdx = i;
-		lastFlow = f;
-		lastGs = g;
-		lastPhase = p;
-		if (g === g) {
-			lastRealGs = g;
-			lastRealGsT = ti;
-		}
-		if (rawFlow === rawFlow) {
-			lastRealT = ti;
-			lastRealIdx = i;
-			lastRealFlow = f;
-			held = false;
-		} else held = true;
+	for (let b = from; b < to; b += KERNEL_BLOCK) {
+		const e = to - b > KERNEL_BLOCK ? b + KERNEL_BLOCK : to;
+		acceptStage(s, cols, out, b, e);
+		phaseStage(s, cols, out, b, e);
+		burnStage(s, cols, out, b, e);
+		onBoardStage(s, cols, out, b, e);
+		arrivalStage(s, cols, out, b, e);
+		marginStage(s, cols, out, b, e);
+		alarmStage(s, cols, out, b, e);
+		if (s.blankStretches.length > 0) refillStage(s, cols, out);
 	}
-
-	s.lastT = lastT;
-	s.lastIdx = lastIdx;
-	s.lastFlow = lastFlow;
-	s.lastGs = lastGs;
-	s.lastPhase = lastPhase;
-	s.lastRealFlowT = lastRealT;
-	s.lastRealFlowIdx = lastRealIdx;
-	s.lastRealFlow = lastRealFlow;
-	s.lastRealGs = lastRealGs;
-	s.lastRealGsT = lastRealGsT;
-	s.flowHeld = held;
-	s.usedTotal = usedTotal;
-	s.usedOffset = usedOffset;
-	s.anchorOnBoard = anchorOnBoard;
-	s.anchorUsed = anchorUsed;
-	s.eventIdx = eventIdx;
-	s.alarmBits = alarmBits;
-	s.belowZeroWarned = belowZeroWarned;
-	st.acceptedCount = accepted;
-	st.lastT = lastT;
-	st.lastIndex = lastIdx;
-	st.usedTotalL = usedTotal;
-	st.engineTimeS = engineTime;
-	st.movingTimeS = moving;
-	st.distanceNm = distance;
-	st.maxFlowLph = maxFlow;
-	st.firstRunT = firstRunT;
-	st.lastRunT = lastRunT;
-	st.lastRunIndex = lastRunIdx;
-	st.lastRunOnBoardL = lastRunOnBoard;
-	st.lastRunFlowLph = lastRunFlow;
-	st.firstMoveT = firstMoveT;
-	st.lastMoveT = lastMoveT;
-	st.thinnestMarginL = thinnest;
-}
-
-/** ARRIVAL_* code from the fuel left on arrival and the reserve amount (either may be NaN). */
-export function arrivalCode(arrivalL: number, reserveL: number): number {
-	if (arrivalL !== arrivalL) return K_ARRIVAL_NONE;
-	if (arrivalL < 0) return K_ARRIVAL_RUNS_OUT;
-	if (reserveL !== reserveL) return K_ARRIVAL_NO_RESERVE;
-	return arrivalL >= reserveL ? K_ARRIVAL_KEEPS : K_ARRIVAL_EATS_INTO;
+	s.lastT = s.accept.lastT;
+	s.lastIdx = s.accept.lastIdx;
 }
 
 function view<T extends Float64Array | Uint8Array>(a: T, n: number): T {
@@ -811,8 +310,10 @@ export function snapshot(s: EngineState, out: Outputs, n: number, extraWarnings:
 	const setup = s.setup;
 	const pending: ResolvedEvent[] = [];
 	const pendingWarnings: EngineWarning[] = [];
-	const onBoardNow = s.anchorOnBoard - (s.usedTotal - s.anchorUsed);
-	for (let k = s.eventIdx; k < setup.events.length; k++) {
+	const fb = s.fuel;
+	const usedTotal = s.burn.usedTotal;
+	const onBoardNow = fb.anchorOnBoard - (usedTotal - fb.anchorUsed);
+	for (let k = fb.eventIdx; k < setup.events.length; k++) {
 		const ev = setup.events[k];
 		pending.push({
 			event: ev,
@@ -820,7 +321,7 @@ export function snapshot(s: EngineState, out: Outputs, n: number, extraWarnings:
 			deltaL: 0,
 			onBoardBeforeL: onBoardNow,
 			onBoardAfterL: onBoardNow,
-			usedBeforeL: s.usedTotal - s.usedOffset
+			usedBeforeL: usedTotal - fb.usedOffset
 		});
 		pendingWarnings.push({
 			code: 'eventAfterLastSample',

@@ -6,7 +6,17 @@
 //   columns.ts      ColumnBuilder: stored or received sample rows → input columns (every path)
 //   compute.ts      computeFlight(): batch run over a whole flight
 //   live.ts         createLiveComputation(): incremental run for a flight in progress
-//   engine.ts       the single pass both of them run, and its running state
+//   engine.ts       the single pass both of them run (runKernel: the stages in order, block by
+//                   block), its running state, the setup checked once, and the result snapshot
+//   stages/         the pass's named stages, one module each, in the order they run:
+//     accept.ts     row checks, flow reading (meter factor, blank held)
+//     phase.ts      phase of every accepted sample
+//     burn.ts       fuel used, dropouts, blank-flow stretch ends, per-phase totals, cruise flow
+//     on-board.ts   fuel events, fuel on board and used, endurance, engine-running figures
+//     arrival.ts    reserve amount, waypoint figures, arrival state (and arrivalCode)
+//     margin.ts     thinnest airborne margin that held
+//     alarm.ts      alarm values and episodes
+//     refill.ts     blank-flow stretches rewritten at the fill flow
 //   declaration.ts  start-of-flight declaration → litres on board; profile checks
 //   events.ts       fuel added/removed/filled and "used" resets on the timeline
 //   integrate.ts    fuel used between two samples (trapezoid; higher flow across a dropout)
@@ -60,7 +70,7 @@ export {
 	type PhaseName
 } from './phases';
 export { DEFAULT_HYSTERESIS, DEFAULT_PERSIST_S, enduranceJudgeFlow } from './alarms';
-export { arrivalCode } from './engine';
+export { arrivalCode } from './stages/arrival';
 export {
 	MIN_MEASURED_CRUISE_S,
 	RESERVE_CAUTION,
@@ -71,6 +81,7 @@ export {
 	type CruiseBasis,
 	reserveRule,
 	reserveRules,
+	RESERVE_RULE_IDS,
 	type ReserveAmount,
 	type ReserveRule,
 	type ReserveRuleId,

@@ -2,68 +2,15 @@ import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { computeFlight } from './compute';
 import { createLiveComputation } from './live';
-import { firstDifference, profile, slice, T0 } from './test-fixtures';
-import type { FlightInput, FuelEvent, SampleColumns } from './types';
+import { buildRandomFlight, firstDifference, randomFlight, slice } from './test-fixtures';
+import type { FlightInput } from './types';
 import { FLAG_REJECTED } from './types';
 import { enduranceJudgeFlow } from './alarms';
-import { arrivalCode } from './engine';
+import { arrivalCode } from './stages/arrival';
 import { PHASE_CLIMB } from './phases';
 
-// Random flights: mostly regular intervals with dropouts, repeated and backward times now and
-// then, blank cells in every column, and fuel events anywhere in (or beyond) the flight.
-const interval = fc.oneof(
-	{ weight: 12, arbitrary: fc.double({ min: 0.2, max: 5, noNaN: true }) },
-	{ weight: 2, arbitrary: fc.double({ min: 5, max: 900, noNaN: true }) },
-	{ weight: 1, arbitrary: fc.constant(0) },
-	{ weight: 1, arbitrary: fc.double({ min: -30, max: -0.1, noNaN: true }) }
-);
-const maybe = (arb: fc.Arbitrary<number>) => fc.oneof({ weight: 9, arbitrary: arb }, { weight: 1, arbitrary: fc.constant(NaN) });
-const sample = fc.record({
-	dt: interval,
-	flow: maybe(fc.double({ min: 0, max: 150, noNaN: true })),
-	gs: maybe(fc.double({ min: 0, max: 160, noNaN: true })),
-	dtg: maybe(fc.double({ min: 0, max: 300, noNaN: true })),
-	alt: maybe(fc.double({ min: 0, max: 12_000, noNaN: true }))
-});
-const event = fc.record({
-	at: fc.double({ min: -0.1, max: 1.1, noNaN: true }),
-	kind: fc.constantFrom<FuelEvent['kind']>('added', 'removed', 'toFull', 'toLower'),
-	amountL: fc.double({ min: 0, max: 120, noNaN: true })
-});
-const flight = fc.record({
-	samples: fc.array(sample, { maxLength: 250 }),
-	events: fc.array(event, { maxLength: 5 }),
-	declaredL: fc.double({ min: 0, max: 200, noNaN: true }),
-	meterFactor: fc.double({ min: 0.8, max: 1.2, noNaN: true }),
-	withAlt: fc.boolean()
-});
-
-type Flight = typeof flight extends fc.Arbitrary<infer T> ? T : never;
-
-function build(f: Flight): FlightInput {
-	const n = f.samples.length;
-	const cols: SampleColumns = { t: new Float64Array(n), flow: new Float64Array(n), gs: new Float64Array(n), dtg: new Float64Array(n) };
-	if (f.withAlt) cols.alt = new Float64Array(n);
-	let t = T0;
-	f.samples.forEach((s, i) => {
-		t += s.dt;
-		cols.t[i] = t;
-		cols.flow[i] = s.flow;
-		cols.gs[i] = s.gs;
-		cols.dtg[i] = s.dtg;
-		if (cols.alt) cols.alt[i] = s.alt;
-	});
-	const span = Math.max(1, t - T0);
-	return {
-		columns: cols,
-		profile: profile({ meterFactor: f.meterFactor }),
-		declaration: { kind: 'onBoard', amountL: f.declaredL },
-		events: f.events.map((e) => ({ t: T0 + e.at * span, kind: e.kind, amountL: e.amountL })),
-		thresholds: { lowFuelL: 30, lowEnduranceMin: 45 },
-		reserve: { ruleId: 'faa-91.151-vfr-day' },
-		recentCruiseFlowLph: 28
-	};
-}
+const flight = randomFlight();
+const build = buildRandomFlight;
 
 function runLive(input: FlightInput, sizes: number[]) {
 	const { columns: cols, ...rest } = input;

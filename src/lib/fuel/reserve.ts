@@ -3,14 +3,17 @@
 // its set baseline; else this flight's measured cruise; else the aircraft's recent median cruise.
 // Rules differ by country and change: show the one used, and the basis of the flow.
 
-export type ReserveRuleId =
-	| 'faa-91.151-vfr-day'
-	| 'faa-91.151-vfr-night'
-	| 'faa-91.167-ifr'
-	| 'easa-nco.op.125-vfr-day'
-	| 'easa-nco.op.125-vfr-night'
-	| 'easa-nco.op.125-ifr'
-	| 'custom';
+/** The one list of reserve rule ids (stored on aircraft and plans; zod and the forms take it). */
+export const RESERVE_RULE_IDS = [
+	'faa-91.151-vfr-day',
+	'faa-91.151-vfr-night',
+	'faa-91.167-ifr',
+	'easa-nco.op.125-vfr-day',
+	'easa-nco.op.125-vfr-night',
+	'easa-nco.op.125-ifr',
+	'custom'
+] as const;
+export type ReserveRuleId = (typeof RESERVE_RULE_IDS)[number];
 
 export interface ReserveRule {
 	id: ReserveRuleId;
@@ -135,7 +138,7 @@ export function reserveMinutesOf(setting: ReserveSetting | null | undefined): nu
 
 /**
  * The normal-cruise flow and its basis. The engine runs the same precedence inline per sample
- * (engine.ts, without allocating); tests check that the two agree.
+ * (stages/burn.ts, without allocating); tests check that the two agree.
  */
 export function normalCruiseFlow(
 	baselineCruiseFlowLph: number | null | undefined,

@@ -1,7 +1,9 @@
 // Builders shared by the engine's unit tests: sample columns from rows, a typical profile, and
 // an invented cross-country flight (taxi, climb, cruise, descent, taxi) at 1 Hz.
 
-import type { FlightComputation, FlightInput, FuelProfile, SampleColumns } from './types';
+import fc from 'fast-check';
+import { BYTE_OUTPUTS, FLOAT_OUTPUTS } from './engine';
+import type { FlightComputation, FlightInput, FuelEvent, FuelProfile, SampleColumns } from './types';
 
 export interface Row {
 	t: number;
@@ -103,24 +105,8 @@ export function crossCountry(options: { withAlt?: boolean; noise?: () => number 
 	});
 }
 
-const ARRAY_KEYS = [
-	'flow',
-	'used',
-	'onBoard',
-	'endurance',
-	'timeToWpt',
-	'fuelToWpt',
-	'arrivalL',
-	'arrivalMarginMin',
-	'specificRange',
-	'reserveL',
-	'cruiseFlow',
-	'phase',
-	'alarmState',
-	'flags',
-	'arrivalState',
-	'reserveBasis'
-] as const;
+/** Every per-sample array of a computation (the engine's own list). */
+const ARRAY_KEYS = [...FLOAT_OUTPUTS, ...BYTE_OUTPUTS];
 
 /**
  * The first difference between two computations, or null when they are identical: every array
@@ -156,3 +142,72 @@ export function slice(cols: SampleColumns, from: number, to: number): SampleColu
 	if (cols.wpt) s.wpt = cols.wpt.subarray(from, to);
 	return s;
 }
+
+/** Small deterministic generator (mulberry32) for generated flights: the same numbers every run. */
+export function rng(seed: number): () => number {
+	let s = seed >>> 0;
+	return () => {
+		s = (s + 0x6d2b79f5) >>> 0;
+		let x = Math.imul(s ^ (s >>> 15), 1 | s);
+		x = (x + Math.imul(x ^ (x >>> 7), 61 | x)) ^ x;
+		return ((x ^ (x >>> 14)) >>> 0) / 4294967296;
+	};
+}
+
+// Random flights: mostly regular intervals with dropouts, repeated and backward times now and
+// then, blank cells in every column, and fuel events anywhere in (or beyond) the flight.
+const interval = fc.oneof(
+	{ weight: 12, arbitrary: fc.double({ min: 0.2, max: 5, noNaN: true }) },
+	{ weight: 2, arbitrary: fc.double({ min: 5, max: 900, noNaN: true }) },
+	{ weight: 1, arbitrary: fc.constant(0) },
+	{ weight: 1, arbitrary: fc.double({ min: -30, max: -0.1, noNaN: true }) }
+);
+const maybe = (arb: fc.Arbitrary<number>) => fc.oneof({ weight: 9, arbitrary: arb }, { weight: 1, arbitrary: fc.constant(NaN) });
+const sample = fc.record({
+	dt: interval,
+	flow: maybe(fc.double({ min: 0, max: 150, noNaN: true })),
+	gs: maybe(fc.double({ min: 0, max: 160, noNaN: true })),
+	dtg: maybe(fc.double({ min: 0, max: 300, noNaN: true })),
+	alt: maybe(fc.double({ min: 0, max: 12_000, noNaN: true }))
+});
+const eventOf = (kinds: FuelEvent['kind'][]) => fc.record({
+	at: fc.double({ min: -0.1, max: 1.1, noNaN: true }),
+	kind: fc.constantFrom(...kinds),
+	amountL: fc.double({ min: 0, max: 120, noNaN: true })
+});
+/** Random flights for fast-check; `resetUsed` adds "used" resets to the fuel events. */
+export const randomFlight = (o: { resetUsed?: boolean } = {}) => fc.record({
+	samples: fc.array(sample, { maxLength: 250 }),
+	events: fc.array(eventOf(o.resetUsed ? ['added', 'removed', 'toFull', 'toLower', 'resetUsed'] : ['added', 'removed', 'toFull', 'toLower']), { maxLength: 5 }),
+	declaredL: fc.double({ min: 0, max: 200, noNaN: true }),
+	meterFactor: fc.double({ min: 0.8, max: 1.2, noNaN: true }),
+	withAlt: fc.boolean()
+});
+
+export type RandomFlight = ReturnType<typeof randomFlight> extends fc.Arbitrary<infer T> ? T : never;
+
+export function buildRandomFlight(f: RandomFlight): FlightInput {
+	const n = f.samples.length;
+	const cols: SampleColumns = { t: new Float64Array(n), flow: new Float64Array(n), gs: new Float64Array(n), dtg: new Float64Array(n) };
+	if (f.withAlt) cols.alt = new Float64Array(n);
+	let t = T0;
+	f.samples.forEach((s, i) => {
+		t += s.dt;
+		cols.t[i] = t;
+		cols.flow[i] = s.flow;
+		cols.gs[i] = s.gs;
+		cols.dtg[i] = s.dtg;
+		if (cols.alt) cols.alt[i] = s.alt;
+	});
+	const span = Math.max(1, t - T0);
+	return {
+		columns: cols,
+		profile: profile({ meterFactor: f.meterFactor }),
+		declaration: { kind: 'onBoard', amountL: f.declaredL },
+		events: f.events.map((e) => ({ t: T0 + e.at * span, kind: e.kind, amountL: e.amountL })),
+		thresholds: { lowFuelL: 30, lowEnduranceMin: 45 },
+		reserve: { ruleId: 'faa-91.151-vfr-day' },
+		recentCruiseFlowLph: 28
+	};
+}
+

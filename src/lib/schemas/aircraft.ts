@@ -1,7 +1,7 @@
 // The aircraft form: quantities are typed in the aircraft's display unit and stored in litres.
 import { z } from 'zod';
 import { defaultDensityKgPerL, fuelTypes, fuelUnits, toLitres, type FuelUnit } from '$lib/units';
-import { reserveRules, type ReserveRuleId } from '$lib/fuel';
+import { RESERVE_RULE_IDS } from '$lib/fuel';
 import { parseTypedNumber } from '$lib/csv/values';
 import { plainText } from './text';
 
@@ -46,7 +46,7 @@ export const aircraftFormSchema = z
 		kFactor: optionalNumber(1, 10_000_000, 'the K-factor in pulses per unit'),
 		lowFuel: optionalNumber(0, 5000, 'the low-fuel alarm amount'),
 		lowEnduranceMin: optionalNumber(0, 600, 'the low-endurance alarm in minutes'),
-		reserveRule: z.enum(reserveRules.map((r) => r.id) as [ReserveRuleId, ...ReserveRuleId[]], 'Choose the reserve rule.'),
+		reserveRule: z.enum(RESERVE_RULE_IDS, 'Choose the reserve rule.'),
 		reserveCustomMin: optionalNumber(0, 300, 'the reserve in minutes'),
 		baselineCruise: optionalNumber(0.1, 1000, 'the cruise flow per hour')
 	})

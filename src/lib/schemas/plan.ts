@@ -2,7 +2,7 @@
 // named legs.<row>.<field> so each error lands beside its cell. Fuel is typed in a chosen unit
 // (flows in that unit per hour) and comes out in litres; leg times are minutes or h:mm.
 import { z } from 'zod';
-import { reserveRules, type PlanLeg, type ReserveRuleId } from '$lib/fuel';
+import { RESERVE_RULE_IDS, type PlanLeg, type ReserveRuleId } from '$lib/fuel';
 import { DEFAULT_TOLERANCE_PERCENT } from '$lib/fuel/plan-actual';
 import { fromLitres, toLitres, type FuelUnit } from '$lib/units';
 import { amountField, fuelUnitSchema, parseAmount } from './declaration';
@@ -19,7 +19,6 @@ const MAX_NM = 5000;
 const MAX_KT = 500;
 const MAX_MIN = 24 * 60;
 
-const RESERVE_IDS = reserveRules.map((r) => r.id) as [ReserveRuleId, ...ReserveRuleId[]];
 
 const number = (what: string, max: number) => amountField('text', { notANumber: `Enter ${what} as a number.`, outOfRange: `Enter ${what} between 0 and ${max}.` }, max);
 
@@ -72,7 +71,7 @@ const headerSchema = z
 		start: number('the fuel on board at engine start', 100_000),
 		taxi: number('the taxi and run-up allowance', 10_000),
 		climb: number('the climb allowance', 10_000),
-		reserveRule: z.enum(RESERVE_IDS, 'Choose a reserve rule.'),
+		reserveRule: z.enum(RESERVE_RULE_IDS, 'Choose a reserve rule.'),
 		reserveMin: number('the reserve minutes', 600),
 		reserveFlow: number('the cruise flow for the reserve', 10_000),
 		tolerance: number('the tolerance in percent', 100)

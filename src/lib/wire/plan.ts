@@ -72,7 +72,7 @@ export interface DebriefView {
 
 export interface DebriefReport {
 	flight: { id: string; title: string; startedAt: Date; endedAt: Date | null; pilotId: string | null; pilot: string | null; instructor: string | null };
-	aircraft: { registration: string; type: string; displayUnit: string; densityKgPerL: number; reserveRule: string; reserveCustomMin: number | null };
+	aircraft: { registration: string; type: string; displayUnit: string; densityKgPerL: number; reserveRule: ReserveRuleId | null; reserveCustomMin: number | null };
 	summary: FlightSummary;
 	plan: PlanReport | null;
 	/** The plan's route, waypoint ids in order: "CAIRNS – SALTMR – …". */

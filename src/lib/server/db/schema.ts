@@ -6,6 +6,9 @@ import type { PlanLeg } from '../../fuel/plan';
 import type { FlightSummary } from '../../fuel/summary';
 import type { Declaration } from '../../fuel/types';
 import { DEBRIEF_STATUSES } from '../../wire/plan';
+import { CORRECTION_KINDS, type CorrectionSnapshot } from '../../wire/corrections';
+import type { ReserveRuleId } from '../../fuel/reserve';
+import { reserveRuleIdSchema, storedReserveRule } from '../../schemas/reserve';
 import {
 	bigint,
 	boolean,
@@ -30,6 +33,20 @@ import { ROLES } from '../../permissions';
 import { fuelTypes, fuelUnits } from '../../units';
 
 const bytea = customType<{ data: Buffer; driverData: Buffer }>({ dataType: () => 'bytea' });
+/**
+ * A reserve rule id (text). A write of an id that is not one of ours is refused (zod throws before
+ * the query is sent); a stored one that is not ours anyway (older rows, edited by hand) reads as
+ * null, "unknown rule", which the pages show and compute without a reserve — never a crash.
+ */
+const reserveRuleText = customType<{ data: ReserveRuleId | null; driverData: string }>({
+	dataType: () => 'text',
+	toDriver: (value) => reserveRuleIdSchema.parse(value),
+	fromDriver: (value) => {
+		const id = storedReserveRule(value);
+		if (id === null) console.warn(`[db] a stored reserve rule "${String(value)}" is not one Burndown knows; read as unknown`);
+		return id;
+	}
+});
 const tstz = (name?: string) =>
 	name ? timestamp(name, { withTimezone: true, precision: 3 }) : timestamp({ withTimezone: true, precision: 3 });
 
@@ -39,7 +56,7 @@ export const fuelUnitEnum = pgEnum('fuel_unit', fuelUnits);
 export const flightSourceEnum = pgEnum('flight_source', ['upload', 'live']);
 export const flightStatusEnum = pgEnum('flight_status', ['open', 'closed']);
 export const fuelEventKindEnum = pgEnum('fuel_event_kind', FUEL_EVENT_KINDS);
-export const fuelCorrectionKindEnum = pgEnum('fuel_correction_kind', ['declaration', 'eventAdded', 'eventRemoved']);
+export const fuelCorrectionKindEnum = pgEnum('fuel_correction_kind', CORRECTION_KINDS);
 export const alarmKindEnum = pgEnum('alarm_kind', alarmKinds);
 export const debriefStatusEnum = pgEnum('debrief_status', DEBRIEF_STATUSES);
 export const flightPhaseEnum = pgEnum('flight_phase', PHASE_NAMES);
@@ -221,7 +238,7 @@ export const aircraft = pgTable(
 		kFactor: doublePrecision(),
 		lowFuelL: doublePrecision(),
 		lowEnduranceMin: doublePrecision(),
-		reserveRule: text().notNull(),
+		reserveRule: reserveRuleText().notNull(),
 		reserveCustomMin: doublePrecision(),
 		baselineCruiseLph: doublePrecision(),
 		/** Fuel on board after the last flight closed, for "unchanged since last flight". */
@@ -497,8 +514,8 @@ export const fuelCorrections = pgTable(
 			.references(() => flights.id, { onDelete: 'cascade' }),
 		userId: text().references(() => users.id, { onDelete: 'set null' }),
 		kind: fuelCorrectionKindEnum().notNull(),
-		before: jsonb(),
-		after: jsonb(),
+		before: jsonb().$type<CorrectionSnapshot>(),
+		after: jsonb().$type<CorrectionSnapshot>(),
 		reason: text().notNull().default(''),
 		at: tstz().notNull().defaultNow()
 	},

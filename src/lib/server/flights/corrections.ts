@@ -2,7 +2,7 @@
 // the declaration or a fuel event records who, when, from what to what and why, in the
 // transaction of the change, so there is never a change without its record or the reverse.
 import { desc, eq } from 'drizzle-orm';
-import type { CorrectionKind, CorrectionView, DeclarationSnapshot, EventSnapshot } from '$lib/corrections';
+import type { CorrectionKind, CorrectionSnapshot, CorrectionView, DeclarationSnapshot, EventSnapshot } from '$lib/wire/corrections';
 import { db } from '../db';
 import { fuelCorrections, users, type Flight, type FuelEventRow } from '../db/schema';
 import type { Queryable } from './load';
@@ -20,8 +20,8 @@ export interface Correction {
 	/** Null when no member made it (a script calling the service directly). */
 	userId: string | null;
 	kind: CorrectionKind;
-	before: DeclarationSnapshot | EventSnapshot | null;
-	after: DeclarationSnapshot | EventSnapshot | null;
+	before: CorrectionSnapshot | null;
+	after: CorrectionSnapshot | null;
 	reason: string;
 }
 
@@ -38,7 +38,7 @@ export async function listCorrections(flightId: string, q: Queryable = db): Prom
 		.leftJoin(users, eq(users.id, fuelCorrections.userId))
 		.where(eq(fuelCorrections.flightId, flightId))
 		.orderBy(desc(fuelCorrections.at), desc(fuelCorrections.id));
-	return rows.map((r) => ({ ...r, before: r.before as CorrectionView['before'], after: r.after as CorrectionView['after'] }));
+	return rows;
 }
 
 /** Who made a correction and why (the reason may be blank). */

@@ -54,7 +54,7 @@ export async function removePlan(flightId: string): Promise<boolean> {
 export async function planContext(flight: Pick<Flight, 'id' | 'orgId' | 'aircraftId'>) {
 	const [plan, a] = await Promise.all([planOfFlight(flight.id), aircraftOf(flight)]);
 	const { registration, displayUnit, densityKgPerL, reserveCustomMin, baselineCruiseLph } = a;
-	return { plan, aircraft: { registration, displayUnit, densityKgPerL, reserveRule: a.reserveRule as ReserveRuleId, reserveCustomMin, baselineCruiseLph } };
+	return { plan, aircraft: { registration, displayUnit, densityKgPerL, reserveRule: a.reserveRule, reserveCustomMin, baselineCruiseLph } };
 }
 
 // ---- plans made before the flight ----------------------------------------------------------

@@ -76,7 +76,8 @@ export function aircraftFormValues(a: Aircraft): Record<string, string> {
 		kFactor: a.kFactor === null ? '' : String(a.kFactor),
 		lowFuel: u(a.lowFuelL),
 		lowEnduranceMin: a.lowEnduranceMin === null ? '' : String(a.lowEnduranceMin),
-		reserveRule: a.reserveRule,
+		// An unknown stored rule leaves the choice empty: the form then asks for one.
+		reserveRule: a.reserveRule ?? '',
 		reserveCustomMin: a.reserveCustomMin === null ? '' : String(a.reserveCustomMin),
 		baselineCruise: u(a.baselineCruiseLph)
 	};

@@ -16,7 +16,7 @@ export const load = (async (event) => {
 	const show = (l: number | null) => (l === null ? '' : String(Math.round(fromLitres(l, unit, a.densityKgPerL) * 100) / 100));
 	const values = plan
 		? planFormValues(plan, unit, a.densityKgPerL)
-		: { unit, start: '', taxi: '', climb: '', reserveRule: a.reserveRule, reserveMin: a.reserveCustomMin === null ? '' : String(a.reserveCustomMin), reserveFlow: show(a.baselineCruiseLph), tolerance: String(DEFAULT_TOLERANCE_PERCENT) };
+		: { unit, start: '', taxi: '', climb: '', reserveRule: a.reserveRule ?? '', reserveMin: a.reserveCustomMin === null ? '' : String(a.reserveCustomMin), reserveFlow: show(a.baselineCruiseLph), tolerance: String(DEFAULT_TOLERANCE_PERCENT) };
 	return {
 		flight: { id: ctx.flight.id, title: ctx.flight.title, startedAt: ctx.flight.startedAt },
 		aircraft: { registration: a.registration, densityKgPerL: a.densityKgPerL },
