@@ -173,7 +173,7 @@ try {
 			for await (const chunk of fs.createReadStream(file, { highWaterMark: 1 << 20 })) yield chunk as Buffer;
 			yield Buffer.from(tail);
 		}
-		const marks: { at: number; line: Record<string, unknown> }[] = [];
+		const marks: { at: number; line: { kind?: string; progress?: { phase?: string; step?: string } } & Record<string, unknown> }[] = [];
 		const t0 = performance.now();
 		const res = await fetch(`${ORIGIN}/api/v1/flights`, {
 			method: 'POST',
@@ -193,8 +193,9 @@ try {
 			}
 		}
 		const totalMs = performance.now() - t0;
-		const result = marks.at(-1)?.line as { type: string; status: string; flightId: string; report: { parseMs: number; storeMs: number }; error?: string } | undefined;
-		if (!result || result.type !== 'result' || result.status !== 'stored') throw new Error(`upload failed (HTTP ${res.status}): ${JSON.stringify(result ?? rest).slice(0, 500)}`);
+		const last = marks.at(-1)?.line as { kind: string; answer?: { outcome: string; flightId: string; report: { parseMs: number; storeMs: number }; detail?: string } } | undefined;
+		const result = last?.kind === 'result' ? last.answer : undefined;
+		if (!result || result.outcome !== 'stored') throw new Error(`upload failed (HTTP ${res.status}): ${JSON.stringify(last ?? rest).slice(0, 500)}`);
 		return { totalMs, result, marks };
 	}
 
@@ -205,7 +206,7 @@ try {
 	const up = await uploadFile(ac.id, csvPath, 'bench-flight.csv');
 	clearInterval(sampler);
 	const peak = memory('VmHWM');
-	const readDone = up.marks.find((m) => m.line.type === 'progress' && m.line.phase === 'storing')?.at ?? NaN;
+	const readDone = up.marks.find((m) => m.line.kind === 'progress' && m.line.progress?.phase === 'storing')?.at ?? NaN;
 	const dbMs = up.result.report.parseMs + up.result.report.storeMs;
 	const [{ n: stored }] = await sql<{ n: number }>(dbUrl, 'SELECT count(*)::int AS n FROM samples WHERE flight_id = $1', [up.result.flightId]);
 
@@ -230,7 +231,7 @@ try {
 	console.log(`  end to end          ${s2(up.totalMs).padStart(9)}   ${perSecond(ROWS, up.totalMs)}   (target ≤ ${TARGET_SECONDS} s)`);
 	console.log(`  file read, checked and COPY'd (while streaming in)  ${s2(up.result.report.parseMs)}   last byte read at ${s2(readDone)} on the client's clock`);
 	console.log(`  then original kept, summary, flight row, commit     ${s2(up.result.report.storeMs)}`);
-	for (const m of up.marks.filter((x) => x.line.phase === 'storing')) console.log(`    ${String(m.line.step).padEnd(9)} at ${s2(m.at)}`);
+	for (const m of up.marks.filter((x) => x.line.progress?.phase === 'storing')) console.log(`    ${String(m.line.progress?.step).padEnd(9)} at ${s2(m.at)}`);
 	console.log(`  samples stored      ${stored.toLocaleString('en-US')}`);
 	console.log(`\npsql \\copy of the same rows (CSV, canonical units):`);
 	console.log(`  into a table like samples (PK + set-based flight check)  ${s2(copyMs).padStart(9)}   ${perSecond(ROWS, copyMs)}`);

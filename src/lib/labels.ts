@@ -20,6 +20,58 @@ import {
 	type VerdictState
 } from '$lib/fuel';
 import type { DebriefStatus, PlanImportFormat } from '$lib/wire/plan';
+import type { ApiTokenScope } from '$lib/permissions';
+
+/**
+ * Names of the fuel figures, the same on the replay page's figures, the flight summary and the
+ * exports' columns (which add the unit in brackets).
+ */
+export const figureLabels = {
+	time: 'Time',
+	elapsed: 'Elapsed',
+	phase: 'Phase',
+	onBoard: 'Fuel on board',
+	endurance: 'Endurance at this flow',
+	flow: 'Fuel flow',
+	used: 'Fuel used',
+	timeToGo: 'Time to go',
+	fuelToGetThere: 'Fuel to get there',
+	leftOnArrival: 'Left on arrival',
+	againstReserve: 'Against the reserve',
+	specificRange: 'Specific range',
+	groundSpeed: 'Ground speed',
+	altitude: 'Altitude',
+	latitude: 'Latitude',
+	longitude: 'Longitude',
+	distanceToGo: 'Distance to go',
+	waypoint: 'Waypoint',
+	reserveAmount: 'Reserve amount',
+	reserveBasis: 'Reserve basis',
+	arrival: 'Arrival',
+	alarms: 'Alarms',
+	flags: 'Flags',
+	onBoardAtShutdown: 'On board at shutdown',
+	blockTime: 'Block time',
+	engineTime: 'Engine time',
+	averageFlow: 'Average flow',
+	maxFlow: 'Highest flow',
+	cruiseFlow: 'Cruise flow',
+	cruiseSpecificRange: 'Cruise specific range',
+	distance: 'Distance',
+	thinnestMargin: 'Thinnest airborne margin at a waypoint',
+	belowReserve: 'Fuel below the reserve',
+	declaration: 'Declared at engine start',
+	declaredAmount: 'Declared amount',
+	startFuel: 'Fuel on board at engine start',
+	fuelEvent: 'Fuel event',
+	notes: 'Notes',
+	note: 'Note'
+} as const;
+
+export const apiTokenScopeLabels: Record<ApiTokenScope, string> = {
+	read: 'Read only',
+	upload: 'Read and upload'
+};
 
 export const debriefStatusLabels: Record<DebriefStatus, string> = {
 	draft: 'Draft — not yet shown to the student',
@@ -174,3 +226,6 @@ export const cautionWords = {
 	more: 'More about these figures and the reserve rule',
 	long: 'They are only as good as the sensor and the declaration, and Burndown is not a certified instrument.'
 } as const;
+
+/** The replay's column of figures at the scrubbed moment (it scrolls on its own at desk sizes). */
+export const figuresColumnLabel = 'Figures at the scrubber';

@@ -3,6 +3,15 @@
 export const ROLES = ['admin', 'instructor', 'pilot', 'viewer'] as const;
 export type Role = (typeof ROLES)[number];
 
+/**
+ * What a personal API token may do: 'read' only reads (GET); 'upload' reads and uploads recorder
+ * files (POST /api/v1/flights). Either only within what its owner's roles allow.
+ */
+export const API_TOKEN_SCOPES = ['read', 'upload'] as const;
+export type ApiTokenScope = (typeof API_TOKEN_SCOPES)[number];
+/** Whether a token of `scope` may do what needs `need`. */
+export const scopeAllows = (scope: ApiTokenScope, need: ApiTokenScope) => scope === 'upload' || need === 'read';
+
 export type Permission =
 	| 'viewFleet'
 	| 'viewAllFlights'

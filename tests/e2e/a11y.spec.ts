@@ -24,7 +24,7 @@ const LONG = 'The long way round against a headwind';
 
 /** The pages each role uses (paths with a {flight} are resolved from the flights list). */
 const PAGES: Record<DemoRole | 'anonymous', string[]> = {
-	anonymous: ['/', '/sign-in', '/sign-up', '/reset-password', '/caution'],
+	anonymous: ['/', '/sign-in', '/sign-up', '/reset-password', '/caution', '/api-docs'],
 	admin: [
 		o,
 		`${o}/flights`,

@@ -88,6 +88,9 @@ const MATRIX: Row[] = [
 	{ route: '/api/v1/flights/[id]/samples', method: 'GET', path: (i) => `/api/v1/flights/${i.pilotFlight}/samples`, expect: only(FLIGHT_VIEWERS, 200, 401) },
 	// A closed flight's stream ends once it has sent every sample, so a GET returns.
 	{ route: '/api/v1/flights/[id]/stream', method: 'GET', path: (i) => `/api/v1/flights/${i.pilotFlight}/stream`, expect: only(FLIGHT_VIEWERS, 200, 401) },
+	// The API's lists: any member of the organisation asked for; the rest are told it is not there.
+	{ route: '/api/v1/aircraft', method: 'GET', path: () => `/api/v1/aircraft?org=${DEMO_ORG}`, expect: members(200, 401) },
+	{ route: '/api/v1/flights', method: 'GET', path: () => `/api/v1/flights?org=${DEMO_ORG}`, expect: members(200, 401) },
 	{ route: '/api/v1/flights/[id]/export', method: 'GET', path: (i) => `/api/v1/flights/${i.pilotFlight}/export`, expect: only(FLIGHT_VIEWERS, 200, 401) },
 	{ route: '/o/[org]/flights/[id]', method: 'POST', path: (i) => `${F(i)}?/declaration`, form: {}, expect: only(FLIGHT_EDITORS, 400) },
 	{ route: '/o/[org]/flights/[id]', method: 'POST', path: (i) => `${F(i)}?/addEvent`, form: {}, expect: only(FLIGHT_EDITORS, 400) },

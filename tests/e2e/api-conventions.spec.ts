@@ -10,8 +10,8 @@ test('an unknown API path answers a JSON 404 naming it, signed in or not, for an
 		for (const method of ['GET', 'POST', 'DELETE'] as const) {
 			const res = await api.fetch('/api/v1/no-such-thing?x=1', { method, headers: { accept: 'text/html' } });
 			expect(res.status(), `${role} ${method}`).toBe(404);
-			expect(res.headers()['content-type']).toMatch(/^application\/json/);
-			expect(await res.json()).toMatchObject({ path: '/api/v1/no-such-thing' });
+			expect(res.headers()['content-type']).toMatch(/^application\/problem\+json/);
+			expect(await res.json()).toMatchObject({ status: 404, instance: '/api/v1/no-such-thing', path: '/api/v1/no-such-thing' });
 		}
 		await api.dispose();
 	}
@@ -26,5 +26,18 @@ test('a 401 from the API names the bearer scheme', async () => {
 	const live = await api.post('/api/v1/live/open', { data: {} });
 	expect(live.status()).toBe(401);
 	expect(live.headers()['www-authenticate']).toBe('Bearer realm="burndown-live"');
+	await api.dispose();
+});
+
+test('what the framework answers on its own under /api/v1 is a problem too: a method the endpoint lacks', async () => {
+	const api = await apiAs('pilot');
+	const res = await api.fetch('/api/v1/aircraft', { method: 'DELETE' });
+	expect(res.status()).toBe(405);
+	expect(res.headers()['content-type']).toBe('application/problem+json');
+	expect(await res.json()).toMatchObject({ status: 405, instance: '/api/v1/aircraft', type: '/api-docs#problem-method-not-allowed' });
+	// A cookie-authenticated write from another site is refused as a problem naming the origin.
+	const cross = await api.post('/api/v1/flights', { headers: { origin: 'https://elsewhere.example', 'content-type': 'text/csv' }, data: '' });
+	expect(cross.status()).toBe(403);
+	expect(await cross.json()).toMatchObject({ status: 403, errors: [{ field: 'origin' }] });
 	await api.dispose();
 });

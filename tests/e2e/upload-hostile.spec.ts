@@ -27,7 +27,7 @@ test('a multipart upload cut off anywhere answers 400 and the server keeps answe
 		expect(res.status(), `cut at byte ${cut}: ${await res.text()}`).toBe(400);
 		// The rest of a refused body is not read: the server closes the connection after answering.
 		expect(res.headers()['connection'], `cut at byte ${cut}`).toBe('close');
-		expect((await res.json()).error, `cut at byte ${cut}`).toEqual(expect.any(String));
+		expect((await res.json()).detail, `cut at byte ${cut}`).toEqual(expect.any(String));
 		expect((await ctx.get('/api/health')).status()).toBe(200);
 	}
 

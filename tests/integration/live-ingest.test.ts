@@ -93,7 +93,7 @@ describe('storing batches', () => {
 		const r = await call('samples', w.tokenA, { samples: later });
 		expect(r.status).toBe(409);
 		expect(r.body.flightId).toBe(a.body.flightId);
-		expect(r.body.error).toMatch(/open/);
+		expect(r.body.detail).toMatch(/open/);
 		expect(await storedSeqs(a.body.flightId)).toEqual([0, 1, 2, 3, 4]);
 		await closeOpen(w.tokenA);
 	});
@@ -106,7 +106,7 @@ describe('malformed batches store nothing', () => {
 		(batch[3] as Record<string, unknown>).flow = -4;
 		const r = await call('samples', w.tokenA, { samples: batch });
 		expect(r.status).toBe(400);
-		expect(r.body.error).toMatch(/not stored/);
+		expect(r.body.detail).toMatch(/not stored/);
 		expect(r.body.problems).toEqual([expect.objectContaining({ index: 3, seq: 3, field: 'samples[3].flow', message: expect.stringMatching(/negative/) })]);
 		expect(await flightCount(w.aircraftA)).toBe(before);
 	});
@@ -275,7 +275,7 @@ describe('hostile bytes store nothing', () => {
 			const r = await call('samples', w.tokenA, withBytes(json, at, bytes));
 			expect(r.status, JSON.stringify(r.body)).toBe(400);
 			expect(r.body).toMatchObject({ field: 'body', offset });
-			expect(r.body.error).toMatch(/not valid UTF-8/);
+			expect(r.body.detail).toMatch(/not valid UTF-8/);
 		}
 		const cut = enc.encode(json.slice(0, -2));
 		const truncated = await call('samples', w.tokenA, new Uint8Array([...cut, 0xe2, 0x82]));
@@ -323,7 +323,7 @@ describe('a resent batch', () => {
 		const r = await call('samples', w.tokenA, { flightId, samples: changed });
 		expect(r.status, JSON.stringify(r.body)).toBe(409);
 		expect(r.body).toMatchObject({ flightId, seq: 6, problems: [{ index: 1, seq: 6, field: 'flow' }] });
-		expect(r.body.error).toMatch(/seq 6 is stored already with the same time but other values \(flow\)/);
+		expect(r.body.detail).toMatch(/seq 6 is stored already with the same time but other values \(flow\)/);
 		// Nothing of it was stored: not the new samples 10 and 11 either.
 		expect(await storedSeqs(flightId)).toEqual([0, 1, 2, 3, 4, 5, 6, 7, 8, 9]);
 		const [s6] = await db.select().from(samplesTable).where(eq(samplesTable.seq, 6)).limit(1);
@@ -345,7 +345,7 @@ describe('an archived aircraft', () => {
 		const before = await flightCount(w.aircraftB);
 		const more = await call('samples', w.tokenB, { samples: samples(3, 3) });
 		expect(more.status).toBe(409);
-		expect(more.body).toMatchObject({ field: 'aircraft', error: expect.stringMatching(/BD-LVB is archived/) });
+		expect(more.body).toMatchObject({ field: 'aircraft', detail: expect.stringMatching(/BD-LVB is archived/) });
 		const explicit = await call('open', w.tokenB, { title: 'after archiving' });
 		expect(explicit.status).toBe(409);
 		expect(explicit.body.field).toBe('aircraft');

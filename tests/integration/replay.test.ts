@@ -196,7 +196,7 @@ describe('samples API', () => {
 	it('answers 400 naming the parameter for an unknown format', async () => {
 		const res = await samplesAs(U.pilot, flightId, '?format=xml');
 		expect(res.status).toBe(400);
-		expect(await res.json()).toMatchObject({ field: 'format' });
+		expect(await res.json()).toMatchObject({ status: 400, errors: [{ field: 'format' }] });
 	});
 });
 
@@ -210,20 +210,22 @@ describe('export', () => {
 		const { c } = await expectedComputation();
 		expect(rows).toHaveLength(c.length);
 		const col = (name: string) => header.indexOf(name);
-		for (const name of ['time_utc', 'flow_l_per_h', 'used_l', 'on_board_l', 'endurance_min', 'left_on_arrival_l', 'reserve_l', 'arrival_margin_l', 'arrival_margin_cruise_min', 'arrival', 'specific_range_nm_per_l', 'phase']) expect(col(name), name).toBeGreaterThanOrEqual(0);
+		// The screens' words, with the unit asked for.
+		for (const name of ['Time (UTC)', 'Fuel flow (L/h)', 'Fuel used (L)', 'Fuel on board (L)', 'Endurance at this flow (min)', 'Left on arrival (L)', 'Reserve amount (L)', 'Against the reserve (L)', 'Against the reserve (min at normal cruise)', 'Arrival', 'Specific range (NM/L)', 'Phase', 'Latitude (°)', 'Longitude (°)', 'Altitude (ft)'])
+			expect(col(name), name).toBeGreaterThanOrEqual(0);
 		// Every 97th row and the last one: values printed to 3 decimals (fuel) or 1 (minutes).
 		for (let i = 0; i < c.length; i += i === c.length - 1 ? 1 : Math.min(97, c.length - 1 - i)) {
 			const r = rows[i];
-			expect(r[col('time_utc')]).toBe(new Date(samples.t[i] * 1000).toISOString());
-			expect(Number(r[col('on_board_l')])).toBeCloseTo(c.onBoard[i], 3);
-			expect(Number(r[col('used_l')])).toBeCloseTo(c.used[i], 3);
-			expect(Number(r[col('flow_l_per_h')])).toBeCloseTo(c.flow[i], 3);
-			if (Number.isFinite(c.endurance[i])) expect(Number(r[col('endurance_min')])).toBeCloseTo(c.endurance[i] * 60, 1);
-			else expect(r[col('endurance_min')]).toBe('');
-			if (Number.isFinite(c.arrivalL[i])) expect(Number(r[col('left_on_arrival_l')])).toBeCloseTo(c.arrivalL[i], 3);
+			expect(r[col('Time (UTC)')]).toBe(new Date(samples.t[i] * 1000).toISOString());
+			expect(Number(r[col('Fuel on board (L)')])).toBeCloseTo(c.onBoard[i], 3);
+			expect(Number(r[col('Fuel used (L)')])).toBeCloseTo(c.used[i], 3);
+			expect(Number(r[col('Fuel flow (L/h)')])).toBeCloseTo(c.flow[i], 3);
+			if (Number.isFinite(c.endurance[i])) expect(Number(r[col('Endurance at this flow (min)')])).toBeCloseTo(c.endurance[i] * 60, 1);
+			else expect(r[col('Endurance at this flow (min)')]).toBe('');
+			if (Number.isFinite(c.arrivalL[i])) expect(Number(r[col('Left on arrival (L)')])).toBeCloseTo(c.arrivalL[i], 3);
 			if (i === c.length - 1) break;
 		}
-		expect(rows.some((r) => r[col('flags')].includes('gap-filled'))).toBe(true);
+		expect(rows.some((r) => r[col('Flags')].includes('gap-filled'))).toBe(true);
 	});
 
 	it('converts fuel with the exact US gallon and thins to one row per minute', async () => {
@@ -234,24 +236,31 @@ describe('export', () => {
 		expect(rows).toHaveLength(minutes.size + 1);
 		const last = rows[rows.length - 1];
 		// 1 US gal = 3.785411784 L (NIST Handbook 44, Appendix C).
-		expect(Number(last[header.indexOf('on_board_usgal')])).toBeCloseTo(c.onBoard[c.length - 1] / 3.785411784, 3);
+		expect(Number(last[header.indexOf('Fuel on board (US gal)')])).toBeCloseTo(c.onBoard[c.length - 1] / 3.785411784, 3);
 	});
 
 	it('exports the summary as CSV and JSON from the same computation', async () => {
 		const { summary } = await expectedComputation();
 		const csv = parseCsv(await (await exportAs(U.pilot, '?what=summary&unit=l')).text());
 		const row = (field: string) => csv.rows.find((r) => r[0] === field)!;
-		expect(Number(row('fuel_used')[1])).toBeCloseTo(summary.fuelUsedL, 3);
-		expect(Number(row('on_board_at_shutdown')[1])).toBeCloseTo(summary.onBoardAtShutdownL!, 3);
-		expect(row('reserve_rule')[2]).toBe('14 CFR 91.151(a)(1)');
-		const json = await (await exportAs(U.pilot, '?what=summary&format=json')).json();
-		expect(json.summary).toEqual(plain(summary));
+		expect(csv.header).toEqual(['Field', 'Value', 'Unit']);
+		expect(Number(row('Fuel used')[1])).toBeCloseTo(summary.fuelUsedL, 3);
+		expect(row('Fuel used')[2]).toBe('L');
+		expect(Number(row('On board at shutdown')[1])).toBeCloseTo(summary.onBoardAtShutdownL!, 3);
+		expect(row('Reserve rule')[2]).toBe('14 CFR 91.151(a)(1)');
+		// The JSON holds the same rows in the same unit: litres here, as asked.
+		const json = await (await exportAs(U.pilot, '?what=summary&format=json&unit=l')).json();
+		expect(json.unit).toEqual({ code: 'l', label: 'L' });
+		const fuelUsed = json.rows.find((r: { key: string }) => r.key === 'fuelUsed');
+		expect(fuelUsed).toMatchObject({ label: 'Fuel used', unit: 'L' });
+		expect(fuelUsed.value).toBeCloseTo(summary.fuelUsedL, 3);
+		expect(json.rows.map((r: { label: string }) => r.label)).toEqual(csv.rows.map((r) => r[0]));
 	});
 
 	it('refuses an unknown unit with 400', async () => {
 		const res = await exportAs(U.pilot, '?unit=barrels');
 		expect(res.status).toBe(400);
-		expect((await res.json()).field).toBe('unit');
+		expect((await res.json()).errors[0].field).toBe('unit');
 	});
 });
 

@@ -95,12 +95,12 @@ describe('slow uploads do not starve the app', () => {
 		// More than the per-account and per-organisation limits: refused at once with what and why.
 		const third = await upload(clubs[0].pilot, { aircraftId: clubs[0].trainer.id, file: steadyFile({ start: hour(20, 9), seconds: 60, flowUsgph: 8 }) });
 		expect(third.status).toBe(429);
-		expect(third.body).toMatchObject({ status: 'busy' });
-		expect(third.body.error).toMatch(/You already have 2 uploads in progress/);
+		expect(third.body).toMatchObject({ outcome: 'busy', status: 429, type: '/api-docs#problem-busy' });
+		expect(third.body.detail).toMatch(/You already have 2 uploads in progress/);
 		const thirdPilot = await addPilot(clubs[1], 'Third Pilot');
 		const orgFull = await upload(thirdPilot, { aircraftId: clubs[1].trainer.id, file: steadyFile({ start: hour(21, 9), seconds: 60, flowUsgph: 8 }) });
 		expect(orgFull.status).toBe(429);
-		expect(orgFull.body.error).toMatch(/Your organisation already has 4 uploads in progress/);
+		expect(orgFull.body.detail).toMatch(/Your organisation already has 4 uploads in progress/);
 
 		// While all twelve are open: the API and plain queries answer (they would wait for ever if the uploads held the pool).
 		const base = `http://127.0.0.1:4173/api/v1/flights/${flightId}`;
@@ -146,8 +146,8 @@ describe('slow uploads do not starve the app', () => {
 		const res = await POST(apiEvent(stalledReq, club.pilot) as never);
 		expect(res.status).toBe(408);
 		const body = await res.json();
-		expect(body).toMatchObject({ status: 'timeout', field: 'file' });
-		expect(body.error).toMatch(/No data arrived for 0.3 s/);
+		expect(body).toMatchObject({ outcome: 'timeout', status: 408, field: 'file' });
+		expect(body.detail).toMatch(/No data arrived for 0.3 s/);
 		steady.release();
 		expect((await steady.answer).status).toBe(201);
 
@@ -157,7 +157,7 @@ describe('slow uploads do not starve the app', () => {
 		const trickle = slowUpload(club.pilot, club.tourer.id, steadyFile({ start: hour(5, 9), seconds: 600, flowUsgph: 8 }));
 		const slowAnswer = await trickle.answer;
 		expect(slowAnswer.status).toBe(408);
-		expect(slowAnswer.body.error).toMatch(/arrived too slowly .* at least 100000 needed/);
+		expect(slowAnswer.body.detail).toMatch(/arrived too slowly .* at least 100000 needed/);
 		trickle.release();
 		// Only the one good upload above was stored.
 		const after = await tableCounts();
@@ -178,7 +178,7 @@ describe('parallel uploads to one aircraft', () => {
 		// Overlaps the first file by half an hour, without being the same file.
 		const overlapping = steadyFile({ start: hour(10, 9) + 1800_000, seconds: 3000, flowUsgph: 9 });
 		const send = (file: string) =>
-			upload(club.pilot, { aircraftId: club.trainer.id, file }).catch((e: unknown) => ({ status: 500, body: { error: String(e) } }));
+			upload(club.pilot, { aircraftId: club.trainer.id, file }).catch((e: unknown) => ({ status: 500, body: { detail: String(e) } }));
 		const jobs = [
 			...Array.from({ length: 4 }, () => send(files[0])),
 			...files.slice(1).flatMap((f) => [send(f), send(f)]),
@@ -195,9 +195,9 @@ describe('parallel uploads to one aircraft', () => {
 		expect(new Set(shas).size).toBe(shas.length);
 		expect(shas.length).toBe(4);
 		expect(results.filter((r) => r.status === 201)).toHaveLength(4);
-		expect(results.filter((r) => r.status === 200).every((r) => r.body.status === 'duplicate')).toBe(true);
+		expect(results.filter((r) => r.status === 200).every((r) => r.body.outcome === 'duplicate')).toBe(true);
 		const conflicts = results.filter((r) => r.status === 409);
 		expect(conflicts.length).toBeGreaterThanOrEqual(1);
-		for (const c of conflicts) expect(c.body.error).toMatch(/overlaps another flight of BD-TST/);
+		for (const c of conflicts) expect(c.body.detail).toMatch(/overlaps another flight of BD-TST/);
 	}, 60_000);
 });

@@ -69,13 +69,13 @@ describe('a multipart upload cut off anywhere', () => {
 			seen.set(res.status, (seen.get(res.status) ?? 0) + 1);
 			expect(res.status, `cut at byte ${cut}: ${JSON.stringify(res.body)}`).toBeGreaterThanOrEqual(400);
 			expect(res.status, `cut at byte ${cut}: ${JSON.stringify(res.body)}`).toBeLessThan(500);
-			expect(typeof res.body.error, `cut at byte ${cut}`).toBe('string');
+			expect(typeof res.body.detail, `cut at byte ${cut}`).toBe('string');
 		}
 		expect(await tableCounts()).toEqual(before);
 		// Cuts inside the file say the upload was cut off.
 		const inFile = await send(body.subarray(0, Math.floor((fileStart + closeAt) / 2)), contentType);
 		expect(inFile).toMatchObject({ status: 400, body: { field: 'file' } });
-		expect(inFile.body.error).toMatch(/cut off/);
+		expect(inFile.body.detail).toMatch(/cut off/);
 		// The upload page asks for NDJSON progress lines: its result line says the same, not a 500.
 		const stream = new ReadableStream<Uint8Array>({
 			start(controller) {
@@ -87,8 +87,8 @@ describe('a multipart upload cut off anywhere', () => {
 			apiEvent(new Request('http://127.0.0.1:4173/api/v1/flights', { method: 'POST', body: stream, headers: { 'content-type': contentType, accept: 'application/x-ndjson' }, duplex: 'half' } as RequestInit), club.pilot) as never
 		);
 		const lines = (await ndjson.text()).trim().split('\n').map((l) => JSON.parse(l));
-		expect(lines.at(-1)).toMatchObject({ type: 'result', httpStatus: 400, status: 'invalid', field: 'file' });
-		expect(lines.at(-1).error).toMatch(/cut off/);
+		expect(lines.at(-1)).toMatchObject({ kind: 'result', httpStatus: 400, answer: { outcome: 'invalid', status: 400, field: 'file' } });
+		expect(lines.at(-1).answer.detail).toMatch(/cut off/);
 		expect(await tableCounts()).toEqual(before);
 		// The whole body is stored: the server (and its pool) still work.
 		const ok = await send(body, contentType);
@@ -134,7 +134,7 @@ describe('arbitrary file contents (fast-check)', () => {
 		const before = await tableCounts();
 		const res = await upload(club.pilot, { aircraftId: club.tourer.id, file: 't,ff\n1e300,8.5\n0,8.5\n', fields: { mapping } });
 		expect(res.status, JSON.stringify(res.body)).toBe(400);
-		expect(res.body.status).toBe('rejected');
+		expect(res.body.outcome).toBe('rejected');
 		expect(res.body.problems[0].line).toBeGreaterThanOrEqual(2);
 		expect(await tableCounts()).toEqual(before);
 	});

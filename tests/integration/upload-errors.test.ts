@@ -30,7 +30,7 @@ describe('bad files: the problems by line, and nothing stored', () => {
 	it('the deliberately broken demo file', async () => {
 		const res = await refused(sample('kestrel-broken.csv'));
 		expect(res.status).toBe(400);
-		expect(res.body.status).toBe('rejected');
+		expect(res.body.outcome).toBe('rejected');
 		expect(res.body.problemCount).toBe(7);
 		expect(res.body.problems.map((p: { line: number; column: string }) => [p.line, p.column])).toEqual([
 			[15, ''],
@@ -42,7 +42,7 @@ describe('bad files: the problems by line, and nothing stored', () => {
 			[241, '']
 		]);
 		expect(res.body.problems[2]).toMatchObject({ value: '-3.20', message: 'Negative fuel flow: -3.20 US gal/h.' });
-		expect(res.body.error).toMatch(/not stored: 7 problems/);
+		expect(res.body.detail).toMatch(/not stored: 7 problems/);
 	});
 
 	it('each kind of problem on its own', async () => {
@@ -103,7 +103,7 @@ describe('the size limit', () => {
 		});
 		const res = await POST(apiEvent(req, club.pilot) as never);
 		expect(res.status).toBe(413);
-		expect((await res.json()).error).toMatch(/larger than the 100 MB limit/);
+		expect((await res.json()).detail).toMatch(/larger than the 100 MB limit/);
 		expect(await tableCounts()).toEqual(before);
 	});
 
@@ -126,7 +126,7 @@ describe('the size limit', () => {
 		const res = await POST(apiEvent(req, club.pilot) as never);
 		expect(res.status).toBe(413);
 		const answer = await res.json();
-		expect(answer).toMatchObject({ status: 'tooLarge', field: 'file', limitBytes: MAX_UPLOAD_BYTES });
+		expect(answer).toMatchObject({ outcome: 'tooLarge', status: 413, field: 'file', limitBytes: MAX_UPLOAD_BYTES });
 		expect(await tableCounts()).toEqual(before);
 	}, 60_000);
 
@@ -143,7 +143,7 @@ describe('the size limit', () => {
 		// The client's connection failed: a 400 for whoever is still listening, not a server error.
 		const res = await POST(apiEvent(req, club.pilot) as never);
 		expect(res.status).toBe(400);
-		expect((await res.json()).error).toMatch(/interrupted before the file ended \(connection reset\)/);
+		expect((await res.json()).detail).toMatch(/interrupted before the file ended \(connection reset\)/);
 		expect(await tableCounts()).toEqual(before);
 		// The pool is not left with a broken connection: the next upload works.
 		const ok = await upload(club.pilot, { aircraftId: club.trainer.id, file: text });
@@ -157,23 +157,23 @@ describe('declarations that cannot be right', () => {
 	it('refuses more than the tanks hold, or removing fuel that was not there', async () => {
 		await db.update(aircraft).set({ lastOnBoardL: 50 }).where(eq(aircraft.id, club.trainer.id));
 		const over = await refused(file(1), { declaration: 'onBoard', amount: '41' });
-		expect(over).toMatchObject({ status: 400, body: { status: 'invalid', field: 'declaration' } });
-		expect(over.body.error).toMatch(/41 US gal is more than the usable capacity \(40 US gal\)/);
+		expect(over).toMatchObject({ status: 400, body: { outcome: 'invalid', status: 400, field: 'declaration' } });
+		expect(over.body.detail).toMatch(/41 US gal is more than the usable capacity \(40 US gal\)/);
 		const removed = await refused(file(1), { declaration: 'removed', amount: '20' });
-		expect(removed.body.error).toMatch(/Only 13.2 US gal was on board/);
+		expect(removed.body.detail).toMatch(/Only 13.2 US gal was on board/);
 		const added = await refused(file(1), { declaration: 'added', amount: '30' });
-		expect(added.body.error).toMatch(/more than the usable capacity/);
+		expect(added.body.detail).toMatch(/more than the usable capacity/);
 	});
 
 	it('refuses "unchanged" when nobody knows what was left', async () => {
 		const res = await refused(file(2), { declaration: 'unchanged', aircraftId: club.tourer.id });
-		expect(res.body).toMatchObject({ status: 'invalid', field: 'declaration' });
-		expect(res.body.error).toMatch(/not known; declare the amount on board/);
+		expect(res.body).toMatchObject({ outcome: 'invalid', field: 'declaration' });
+		expect(res.body.detail).toMatch(/not known; declare the amount on board/);
 	});
 
 	it('names the field that is missing or wrong before reading the file', async () => {
 		const res = await refused(file(3), { declaration: 'onBoard' });
-		expect(res.body).toMatchObject({ status: 'invalid', field: 'amount', errors: { amount: 'Enter the amount.' } });
+		expect(res.body).toMatchObject({ outcome: 'invalid', field: 'amount', errors: [{ field: 'amount', detail: 'Enter the amount.' }] });
 		const bad = await refused(file(3), { declaration: 'sloshing' });
 		expect(bad.body.field).toBe('declaration');
 	});
@@ -183,7 +183,7 @@ describe('declarations that cannot be right', () => {
 		expect(a.status).toBe(201);
 		const res = await refused(steadyFile({ start: Date.UTC(2026, 5, 10, 9, 30), seconds: 3600, flowUsgph: 12 }), { aircraftId: club.tourer.id });
 		expect(res.status).toBe(409);
-		expect(res.body.error).toMatch(/overlaps another flight of BD-TTT/);
+		expect(res.body.detail).toMatch(/overlaps another flight of BD-TTT/);
 	});
 });
 
@@ -194,9 +194,9 @@ describe('who may upload', () => {
 		const other = await makeClub('Other Club');
 		const before = await tableCounts();
 		const res = await upload(other.pilot, { aircraftId: club.trainer.id, file });
-		expect(res).toMatchObject({ status: 404, body: { status: 'error', error: 'Aircraft not found.' } });
+		expect(res).toMatchObject({ status: 404, body: { outcome: 'invalid', status: 404, field: 'aircraftId', detail: 'Aircraft not found.' } });
 		const none = await upload(club.pilot, { aircraftId: '00000000-0000-4000-8000-000000000000', file });
-		expect(none).toMatchObject({ status: 404, body: { error: 'Aircraft not found.' } });
+		expect(none).toMatchObject({ status: 404, body: { detail: 'Aircraft not found.' } });
 		expect(await tableCounts()).toEqual(before);
 	});
 

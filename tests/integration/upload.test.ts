@@ -25,7 +25,7 @@ describe('good files', () => {
 		const file = sample('kestrel-crosscountry-3leg.csv');
 		const res = await upload(club.pilot, { aircraftId: club.tourer.id, file, fileName: 'kestrel-crosscountry-3leg.csv', declaration: 'lower' });
 		expect(res.status).toBe(201);
-		expect(res.body.status).toBe('stored');
+		expect(res.body.outcome).toBe('stored');
 		const id = res.body.flightId as string;
 		expect(res.body.url).toBe(`/o/${club.slug}/flights/${id}`);
 
@@ -121,7 +121,7 @@ describe('duplicates', () => {
 		const before = await tableCounts();
 		const again = await upload(club.pilot, { aircraftId: club.trainer.id, file, fileName: 'renamed.csv' });
 		expect(again.status).toBe(200);
-		expect(again.body).toMatchObject({ status: 'duplicate', flightId: first.body.flightId, uploadId: first.body.uploadId, url: first.body.url });
+		expect(again.body).toMatchObject({ outcome: 'duplicate', flightId: first.body.flightId, uploadId: first.body.uploadId, url: first.body.url });
 		expect(await tableCounts()).toEqual(before);
 	});
 
@@ -184,11 +184,12 @@ describe('script paths', () => {
 		expect(res.headers.get('content-type')).toBe('application/x-ndjson');
 		const lines = (await res.text()).trim().split('\n').map((l) => JSON.parse(l));
 		const last = lines.at(-1);
-		expect(last).toMatchObject({ type: 'result', httpStatus: 201, status: 'stored', rows: 20_001 });
-		const reading = lines.filter((l) => l.type === 'progress' && l.phase === 'reading');
+		expect(last).toMatchObject({ kind: 'result', httpStatus: 201, answer: { outcome: 'stored', rows: 20_001 } });
+		const progress = lines.filter((l) => l.kind === 'progress').map((l) => l.progress);
+		const reading = progress.filter((p) => p.phase === 'reading');
 		expect(reading.length).toBeGreaterThan(0);
 		expect(reading.at(-1)).toMatchObject({ bytes: Buffer.byteLength(file), rows: 20_001 });
-		expect(lines.filter((l) => l.phase === 'storing').map((l) => l.step)).toEqual(['checks', 'summary', 'original', 'flight', 'commit']);
+		expect(progress.filter((p) => p.phase === 'storing').map((p) => p.step)).toEqual(['checks', 'summary', 'original', 'flight', 'commit']);
 	});
 	it('stores the history figures per flight and phase with the upload, from its own summary', async () => {
 		const file = steadyFile({ start: Date.UTC(2026, 3, 8, 10), seconds: 3600, flowUsgph: 6 });

@@ -1,5 +1,6 @@
-// Sign-up, sign-in and password-reset fields.
+// Sign-up, sign-in and password-reset fields; preferences and new API tokens on the account page.
 import { z } from 'zod';
+import { API_TOKEN_SCOPES } from '$lib/permissions';
 import { isTimeZone } from '$lib/format/time';
 import { fuelUnits } from '$lib/units';
 import { plainText } from './text';
@@ -46,4 +47,15 @@ export const preferencesSchema = z.object({
 		.default('')
 		.refine((v) => v === '' || isTimeZone(v), 'Choose a time zone from the list.')
 		.transform((v) => (v === '' ? null : v))
+});
+
+/** How long a new API token lasts, in days; '' for until revoked. */
+export const API_TOKEN_LIFETIMES_DAYS = [7, 30, 90, 365] as const;
+
+export const apiTokenSchema = z.object({
+	name: plainText(60, { required: 'Name the token, e.g. "upload script".' }),
+	scope: z.enum(API_TOKEN_SCOPES, 'Choose what the token may do.'),
+	expiresInDays: z
+		.enum(['', ...API_TOKEN_LIFETIMES_DAYS.map(String)], 'Choose how long the token lasts.')
+		.transform((v) => (v === '' ? null : Number(v)))
 });

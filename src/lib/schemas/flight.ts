@@ -151,7 +151,11 @@ export const exportQuerySchema = z.object({
 	what: z.enum(['log', 'summary'], 'what must be log or summary.').default('log'),
 	every: z.enum(['sample', 'minute'], 'every must be sample or minute.').default('sample'),
 	unit: unitSchema.optional(),
-	format: z.enum(['csv', 'json'], 'format must be csv or json.').default('csv')
+	format: z.enum(['csv', 'json'], 'format must be csv or json.').default('csv'),
+	/** Times as ISO 8601, or as "yyyy-mm-dd hh:mm:ss" (UTC) that spreadsheets read as date and time. */
+	times: z.enum(['iso', 'spreadsheet'], 'times must be iso or spreadsheet.').default('iso').describe('iso: 2026-05-02T09:00:00.000Z; spreadsheet: 2026-05-02 09:00:00 (both UTC).'),
+	/** Start the CSV with a UTF-8 byte-order mark, for spreadsheets that need it to read UTF-8. */
+	bom: z.stringbool({ error: 'bom must be true or false.' }).default(false).describe('true: start the CSV with a UTF-8 byte-order mark.')
 });
 
 export const samplesQuerySchema = z.object({

@@ -3,8 +3,8 @@
 // revealed; a member without the permission → 403. Each records its decision on event.locals.access,
 // which the authorization guard checks on every answer of a non-public route.
 import { error, redirect, type RequestEvent } from '@sveltejs/kit';
-import { and, eq, gt, isNotNull, isNull } from 'drizzle-orm';
-import { can, mayOnFlight, type FlightAction, type Permission, type Role } from '$lib/permissions';
+import { and, eq, gt, isNotNull, isNull, or } from 'drizzle-orm';
+import { can, mayOnFlight, scopeAllows, type ApiTokenScope, type FlightAction, type Permission, type Role } from '$lib/permissions';
 import { SESSION_ABSOLUTE_MS, type AuthUser } from './auth';
 import { db } from './db';
 import { aircraft, apiTokens, flights, memberships, organisations, recorders, sessions, type Aircraft, type Flight, type Organisation, type Recorder } from './db/schema';
@@ -32,13 +32,24 @@ export { mayOnFlight, type FlightAction };
 
 const isApi = (event: Event) => event.route.id?.startsWith('/api/') ?? event.url.pathname.startsWith('/api/');
 
+const SAFE_METHODS = new Set(['GET', 'HEAD', 'OPTIONS']);
+
+/**
+ * The signed-in user. A personal API token must also have the scope for what the request does:
+ * what the endpoint declared through apiHandler, else reading (GET, HEAD) needs 'read' and anything
+ * else 'upload' — every helper below passes here, so every endpoint enforces it.
+ */
 export function requireUser(event: Event): AuthUser {
 	const user = event.locals.user;
 	if (user) {
+		const token = event.locals.authVia === 'token' ? event.locals.apiToken : null;
+		const need: ApiTokenScope = event.locals.needScope ?? (SAFE_METHODS.has(event.request?.method ?? 'GET') ? 'read' : 'upload');
+		if (token && !scopeAllows(token.scope, need))
+			refuse(event, () => error(403, 'This API token may only read (scope "read"). Uploading needs a token with the scope "read and upload"; create one on the account page.'));
 		granted(event);
 		return user;
 	}
-	if (isApi(event)) refuse(event, () => error(401, 'Sign in, or send an API token as a bearer credential.'));
+	if (isApi(event)) refuse(event, () => error(401, event.locals.authProblem ?? 'Sign in, or send an API token as a bearer credential.'));
 	refuse(event, () => redirect(303, `/sign-in?next=${encodeURIComponent(event.url.pathname + event.url.search)}`));
 }
 
@@ -163,7 +174,7 @@ export function flightGrant(event: Event, flightId: string): FlightGrant {
 
 /**
  * Whether a grant still holds: the session is not signed out or expired (idle or absolute), the
- * API token is not revoked, and the user may still view the flight (member of its organisation
+ * API token is not revoked nor expired, and the user may still view the flight (member of its organisation
  * with the role, or their own flight). Any doubt, such as an unknown credential, answers false.
  */
 export async function grantHolds(grant: FlightGrant): Promise<boolean> {
@@ -180,7 +191,9 @@ export async function grantHolds(grant: FlightGrant): Promise<boolean> {
 		const [t] = await db
 			.select({ id: apiTokens.id })
 			.from(apiTokens)
-			.where(and(eq(apiTokens.tokenHash, c.tokenHash), eq(apiTokens.userId, grant.userId), isNull(apiTokens.revokedAt)))
+			.where(
+				and(eq(apiTokens.tokenHash, c.tokenHash), eq(apiTokens.userId, grant.userId), isNull(apiTokens.revokedAt), or(isNull(apiTokens.expiresAt), gt(apiTokens.expiresAt, new Date())))
+			)
 			.limit(1);
 		if (!t) return false;
 	}

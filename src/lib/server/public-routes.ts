@@ -16,6 +16,8 @@ export const PUBLIC_ROUTES: ReadonlyMap<string, string> = new Map([
 	['/caution', 'what Burndown is and is not: advisory only'],
 	['/dev/mailbox', 'demo mode only (404 otherwise); its own rule in its load'],
 	['/api/health', 'liveness for the harness and load balancers; reveals only "up"'],
+	['/api/v1/openapi.json', 'the OpenAPI document: describes the API, holds no data'],
+	['/api-docs', 'the API page: renders the OpenAPI document'],
 	['/api/[...rest]', 'the JSON 404 for an /api/ path no endpoint serves; reveals only that path']
 ]);
 

@@ -4,14 +4,11 @@ import { endAllSessions, endOtherSessions, listSessions } from '$lib/server/auth
 import { createApiToken, listApiTokens, revokeApiToken } from '$lib/server/accounts/api-tokens';
 import { setPreferences } from '$lib/server/accounts/preferences';
 import { failForm, parseForm } from '$lib/schemas/form';
-import { plainText } from '$lib/schemas/text';
-import { changePasswordSchema, preferencesSchema } from '$lib/schemas/account';
+import { apiTokenSchema, changePasswordSchema, preferencesSchema } from '$lib/schemas/account';
 import { commonPasswordError } from '$lib/server/passwords';
 import { changePassword } from '$lib/server/services/accounts';
 import { z } from 'zod';
 import type { Actions, PageServerLoad } from './$types';
-
-const tokenNameSchema = z.object({ name: plainText(60, { required: 'Name the token, e.g. "upload script".' }) });
 
 export const load = (async (event) => {
 	const user = requireUser(event);
@@ -30,10 +27,10 @@ export const actions = {
 	},
 	createToken: async (event) => {
 		const user = requireUser(event);
-		const form = parseForm(tokenNameSchema, await event.request.formData());
+		const form = parseForm(apiTokenSchema, await event.request.formData());
 		if (!form.ok) return failForm(400, form.errors, form.values, 'createToken');
 		// Shown once: only the hash is stored.
-		const token = await createApiToken(user.id, form.data.name);
+		const token = await createApiToken(user.id, form.data);
 		return { action: 'createToken', token };
 	},
 	changePassword: async (event) => {

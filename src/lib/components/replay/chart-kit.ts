@@ -208,7 +208,7 @@ export function polyline(u: uPlot, ts: readonly number[], ys: readonly number[],
 }
 
 /** A dot with a label, e.g. the declared fuel at engine start. */
-export function dot(u: uPlot, t: number, value: number, colour: string, label: string) {
+export function dot(u: uPlot, t: number, value: number, colour: string, label: string, plate?: string) {
 	const { ctx } = u;
 	const x = u.valToPos(t, 'x', true);
 	const y = u.valToPos(value, 'y', true);
@@ -221,6 +221,13 @@ export function dot(u: uPlot, t: number, value: number, colour: string, label: s
 			ctx.font = font(u, 11, 600);
 			ctx.textAlign = 'left';
 			ctx.textBaseline = 'top';
+			if (plate) {
+				// A plate behind the words, so the series line under them does not cross them.
+				const w = ctx.measureText(label).width;
+				ctx.fillStyle = plate;
+				ctx.fillRect(x + px(u, 5), y + px(u, 1), w + px(u, 4), px(u, 15));
+				ctx.fillStyle = colour;
+			}
 			ctx.fillText(label, x + px(u, 7), y + px(u, 3));
 		}
 	});

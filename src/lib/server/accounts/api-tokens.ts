@@ -1,24 +1,28 @@
-// Personal API tokens (bdk_…) on the account page: listed, created (shown once, only the hash is
-// stored) and revoked by their owner.
+// Personal API tokens (bdk_…) on the account page: listed, created with a scope and an optional
+// expiry (shown once, only the hash is stored) and revoked by their owner.
 import { and, desc, eq, isNull } from 'drizzle-orm';
 import { db } from '../db';
 import { apiTokens } from '../db/schema';
+import type { ApiTokenScope } from '$lib/permissions';
 import { API_TOKEN_PREFIX } from '../hooks/authenticate';
 import { hashToken, newToken } from '../tokens';
 
 /** The user's current tokens, newest first; never the token itself. */
 export async function listApiTokens(userId: string) {
 	return db
-		.select({ id: apiTokens.id, name: apiTokens.name, createdAt: apiTokens.createdAt, lastUsedAt: apiTokens.lastUsedAt })
+		.select({ id: apiTokens.id, name: apiTokens.name, scope: apiTokens.scope, expiresAt: apiTokens.expiresAt, createdAt: apiTokens.createdAt, lastUsedAt: apiTokens.lastUsedAt })
 		.from(apiTokens)
 		.where(and(eq(apiTokens.userId, userId), isNull(apiTokens.revokedAt)))
 		.orderBy(desc(apiTokens.createdAt));
 }
 
+const DAY_MS = 86_400_000;
+
 /** A new token for the user; the answer is the only time it is seen. */
-export async function createApiToken(userId: string, name: string): Promise<string> {
+export async function createApiToken(userId: string, o: { name: string; scope: ApiTokenScope; expiresInDays: number | null }): Promise<string> {
 	const token = newToken(API_TOKEN_PREFIX);
-	await db.insert(apiTokens).values({ userId, name, tokenHash: hashToken(token) });
+	const expiresAt = o.expiresInDays === null ? null : new Date(Date.now() + o.expiresInDays * DAY_MS);
+	await db.insert(apiTokens).values({ userId, name: o.name, scope: o.scope, expiresAt, tokenHash: hashToken(token) });
 	return token;
 }
 

@@ -29,7 +29,7 @@ import {
 } from 'drizzle-orm/pg-core';
 import { PHASE_NAMES } from '../../fuel/phases';
 import { alarmKinds, FUEL_EVENT_KINDS } from '../../fuel/types';
-import { ROLES } from '../../permissions';
+import { API_TOKEN_SCOPES, ROLES } from '../../permissions';
 import { fuelTypes, fuelUnits } from '../../units';
 
 const bytea = customType<{ data: Buffer; driverData: Buffer }>({ dataType: () => 'bytea' });
@@ -51,6 +51,7 @@ const tstz = (name?: string) =>
 	name ? timestamp(name, { withTimezone: true, precision: 3 }) : timestamp({ withTimezone: true, precision: 3 });
 
 export const roleEnum = pgEnum('member_role', ROLES);
+export const apiTokenScopeEnum = pgEnum('api_token_scope', API_TOKEN_SCOPES);
 export const fuelTypeEnum = pgEnum('fuel_type', fuelTypes);
 export const fuelUnitEnum = pgEnum('fuel_unit', fuelUnits);
 export const flightSourceEnum = pgEnum('flight_source', ['upload', 'live']);
@@ -162,6 +163,10 @@ export const apiTokens = pgTable('api_tokens', {
 		.references(() => users.id, { onDelete: 'cascade' }),
 	name: text().notNull(),
 	tokenHash: text().notNull().unique(),
+	/** Tokens made before scopes existed could upload; they keep that. */
+	scope: apiTokenScopeEnum().notNull().default('upload'),
+	/** Null: until revoked. */
+	expiresAt: tstz(),
 	createdAt: tstz().notNull().defaultNow(),
 	lastUsedAt: tstz(),
 	revokedAt: tstz()

@@ -1,14 +1,29 @@
-// The exported fuel log: the engine's figures as CSV, one row per sample or one per minute, in a
-// chosen fuel unit (distances in NM, speeds in kt, times UTC), and the flight summary as CSV.
-// The log is written a few thousand rows at a time, so a long flight streams out in bounded
-// memory; every text cell goes through textCell (formula injection), numbers through numberCell.
+// The exports: the engine's figures as a fuel log (one row per sample or one per minute) and the
+// flight summary with its declaration, fuel events and notes, in one chosen fuel unit (distances
+// NM, speeds kt, altitude ft, positions in degrees), named with the screens' words and the unit in
+// brackets. The summary is one list of rows that both the CSV and the JSON are written from, so the
+// two say the same in the same units. Times are UTC, as ISO 8601 or as "yyyy-mm-dd hh:mm:ss" that
+// spreadsheets read as a date and time; a file may start with a UTF-8 byte-order mark. The log is
+// written a few thousand rows at a time, so a long flight streams out in bounded memory.
 import type { FlightComputation, FlightSummary, SampleColumns } from '$lib/fuel';
+import type { Declaration } from '$lib/fuel';
 import { alarmKinds, cruiseBasisCodes, WPT_NONE } from '$lib/fuel';
-import { fromLitres, type FuelUnit } from '$lib/units';
-import { alarmLabels, arrivalWords, flagWords, phaseIds } from '$lib/labels';
-import { csvLine, numberCell as cell, textCell } from './csv-cell';
+import { fromLitres, fuelUnitLabels, type FuelUnit } from '$lib/units';
+import { alarmLabels, arrivalWords, eventLabels, figureLabels as L, flagWords, phaseLabels } from '$lib/labels';
+import { declarationKindLabels } from '$lib/schemas/declaration';
+import { BOM, csvLines, numberCell as num, type Cell } from './csv-writer';
 
 export type LogEvery = 'sample' | 'minute';
+/** How times are written: ISO 8601 (2026-05-02T09:00:00.000Z) or for spreadsheets (2026-05-02 09:00:00). */
+export type TimeStyle = 'iso' | 'spreadsheet';
+
+export interface ExportStyle {
+	unit: FuelUnit;
+	densityKgPerL: number;
+	times: TimeStyle;
+	/** Start the file with a UTF-8 byte-order mark. */
+	bom: boolean;
+}
 
 /**
  * Rows for a per-minute log: the first sample of each UTC minute that has samples, and the last
@@ -28,21 +43,59 @@ export function minuteRows(t: Float64Array, n: number): number[] {
 	return rows;
 }
 
-const iso = (epochS: number) => new Date(Math.round(epochS * 1000)).toISOString();
+/** A moment (epoch seconds) as text in the style asked for; empty when there is none. */
+export function timeText(epochS: number | null | undefined, style: TimeStyle): string {
+	if (epochS === null || epochS === undefined || !Number.isFinite(epochS)) return '';
+	const iso = new Date(Math.round(epochS * 1000)).toISOString();
+	return style === 'iso' ? iso : iso.slice(0, 19).replace('T', ' ');
+}
 
-export interface FuelLogInput {
+const withUnit = (label: string, unit: string) => `${label} (${unit})`;
+
+export interface FuelLogInput extends ExportStyle {
 	columns: SampleColumns;
 	computation: FlightComputation;
 	waypoints: readonly string[];
-	unit: FuelUnit;
-	densityKgPerL: number;
+	/** Each sample's position, degrees; null when the flight has none. */
+	positions: { lat: Float64Array; lon: Float64Array } | null;
 	every: LogEvery;
 }
 
 /** Rows of the fuel log per piece of text fuelLogChunks yields. */
 export const LOG_ROWS_PER_CHUNK = 2000;
 
-/** CSV text; header names carry their units, e.g. on_board_usgal, flow_usgal_per_h. */
+/** The log's column names: the screens' words, each with its unit. */
+export function fuelLogHeader(unit: FuelUnit): string[] {
+	const u = fuelUnitLabels[unit];
+	return [
+		withUnit(L.time, 'UTC'),
+		withUnit(L.elapsed, 's'),
+		L.phase,
+		withUnit(L.flow, `${u}/h`),
+		withUnit(L.used, u),
+		withUnit(L.onBoard, u),
+		withUnit(L.endurance, 'min'),
+		withUnit(L.groundSpeed, 'kt'),
+		withUnit(L.distanceToGo, 'NM'),
+		L.waypoint,
+		withUnit(L.timeToGo, 'min'),
+		withUnit(L.fuelToGetThere, u),
+		withUnit(L.leftOnArrival, u),
+		withUnit(L.reserveAmount, u),
+		L.reserveBasis,
+		withUnit(L.againstReserve, u),
+		withUnit(L.againstReserve, 'min at normal cruise'),
+		L.arrival,
+		withUnit(L.specificRange, `NM/${u}`),
+		L.alarms,
+		L.flags,
+		withUnit(L.latitude, '°'),
+		withUnit(L.longitude, '°'),
+		withUnit(L.altitude, 'ft')
+	];
+}
+
+/** CSV text of the whole log (for tests and small flights). */
 export function fuelLogCsv(x: FuelLogInput): string {
 	let out = '';
 	for (const piece of fuelLogChunks(x)) out += piece;
@@ -55,126 +108,139 @@ export function* fuelLogChunks(x: FuelLogInput, rowsPerChunk = LOG_ROWS_PER_CHUN
 	const fuel = (litres: number) => fromLitres(litres, unit, x.densityKgPerL);
 	// Specific range is distance per unit of fuel: NM/L × litres per unit.
 	const perUnit = 1 / fromLitres(1, unit, x.densityKgPerL);
-	const header = [
-		'time_utc',
-		'elapsed_s',
-		'phase',
-		`flow_${unit}_per_h`,
-		`used_${unit}`,
-		`on_board_${unit}`,
-		'endurance_min',
-		'gs_kt',
-		'dtg_nm',
-		'waypoint',
-		'time_to_wpt_min',
-		`fuel_to_wpt_${unit}`,
-		`left_on_arrival_${unit}`,
-		`reserve_${unit}`,
-		'reserve_basis',
-		`arrival_margin_${unit}`,
-		'arrival_margin_cruise_min',
-		'arrival',
-		`specific_range_nm_per_${unit}`,
-		'alarms',
-		'flags'
-	];
 	const n = r.length;
 	const minutes = x.every === 'minute' ? minuteRows(c.t, n) : null;
 	const count = minutes ? minutes.length : n;
 	const t0 = n > 0 ? c.t[0] : 0;
-	yield csvLine(header.map(textCell)) + '\r\n';
-	let lines: string[] = [];
+	const pos = x.positions;
+	yield (x.bom ? BOM : '') + csvLines([fuelLogHeader(unit)]);
+	let rows: Cell[][] = [];
 	for (let k = 0; k < count; k++) {
 		const i = minutes ? minutes[k] : k;
 		const w = c.wpt ? c.wpt[i] : WPT_NONE;
 		const alarms = alarmKinds.filter((_, b) => r.alarmState[i] & (1 << b)).map((b) => alarmLabels[b]);
-		lines.push(
-			csvLine([
-				iso(c.t[i]),
-				cell(c.t[i] - t0, 1),
-				textCell(phaseIds[r.phase[i]] ?? ''),
-				cell(fuel(r.flow[i]), 3),
-				cell(fuel(r.used[i]), 3),
-				cell(fuel(r.onBoard[i]), 3),
-				cell(r.endurance[i] * 60, 1),
-				cell(c.gs[i], 1),
-				cell(c.dtg[i], 2),
-				textCell(w === WPT_NONE ? '' : (x.waypoints[w] ?? '')),
-				cell(r.timeToWpt[i] * 60, 1),
-				cell(fuel(r.fuelToWpt[i]), 3),
-				cell(fuel(r.arrivalL[i]), 3),
-				cell(fuel(r.reserveL[i]), 3),
-				textCell(Number.isFinite(r.reserveL[i]) ? (cruiseBasisCodes[r.reserveBasis[i]] ?? '') : ''),
-				cell(fuel(r.arrivalL[i] - r.reserveL[i]), 3),
-				cell(r.arrivalMarginMin[i], 1),
-				textCell(arrivalWords[r.arrivalState[i]]?.id ?? ''),
-				cell(r.specificRange[i] * perUnit, 3),
-				textCell(alarms.join('; ')),
-				textCell(flagWords(r.flags[i]).join(' '))
-			])
-		);
-		if (lines.length >= rowsPerChunk) {
-			yield lines.join('\r\n') + '\r\n';
-			lines = [];
+		rows.push([
+			timeText(c.t[i], x.times),
+			num(c.t[i] - t0, 1),
+			phaseLabels[r.phase[i]] ?? '',
+			num(fuel(r.flow[i]), 3),
+			num(fuel(r.used[i]), 3),
+			num(fuel(r.onBoard[i]), 3),
+			num(r.endurance[i] * 60, 1),
+			num(c.gs[i], 1),
+			num(c.dtg[i], 2),
+			w === WPT_NONE ? '' : (x.waypoints[w] ?? ''),
+			num(r.timeToWpt[i] * 60, 1),
+			num(fuel(r.fuelToWpt[i]), 3),
+			num(fuel(r.arrivalL[i]), 3),
+			num(fuel(r.reserveL[i]), 3),
+			Number.isFinite(r.reserveL[i]) ? (cruiseBasisCodes[r.reserveBasis[i]] ?? '') : '',
+			num(fuel(r.arrivalL[i] - r.reserveL[i]), 3),
+			num(r.arrivalMarginMin[i], 1),
+			arrivalWords[r.arrivalState[i]]?.id ?? '',
+			num(r.specificRange[i] * perUnit, 3),
+			alarms.join('; '),
+			flagWords(r.flags[i]).join(' '),
+			pos ? num(pos.lat[i], 6) : null,
+			pos ? num(pos.lon[i], 6) : null,
+			c.alt ? num(c.alt[i], 0) : null
+		]);
+		if (rows.length >= rowsPerChunk) {
+			yield csvLines(rows);
+			rows = [];
 		}
 	}
-	if (lines.length > 0) yield lines.join('\r\n') + '\r\n';
+	if (rows.length > 0) yield csvLines(rows);
 }
 
-/** The flight summary as field,value,unit rows for a spreadsheet. */
-export function summaryCsv(
-	s: FlightSummary,
-	meta: { registration: string; title: string; pilot: string | null; unit: FuelUnit; densityKgPerL: number; waypoints: readonly string[] }
-): string {
-	const u = meta.unit;
-	// Values are cells already: numbers as they are, text (names, titles, labels) through textCell.
-	const fuel = (l: number | null | undefined) => (l === null || l === undefined ? '' : cell(fromLitres(l, u, meta.densityKgPerL), 3));
-	const num = cell;
-	const when = (x: number | null | undefined) => (x === null || x === undefined || !Number.isFinite(x) ? '' : iso(x));
-	const text = textCell;
-	const perUnit = 1 / fromLitres(1, u, meta.densityKgPerL);
-	const rows: [string, string, string][] = [
-		['aircraft', text(meta.registration), ''],
-		['title', text(meta.title), ''],
-		['pilot', text(meta.pilot ?? ''), ''],
-		['start_utc', when(s.start), ''],
-		['end_utc', when(s.end), ''],
-		['samples', String(s.sampleCount), ''],
-		['rejected_samples', String(s.rejectedCount), ''],
-		['block_time_min', num(s.blockTimeS / 60, 1), `min (${s.blockTimeBasis})`],
-		['engine_time_min', num(s.engineTimeS / 60, 1), 'min'],
-		['fuel_used', fuel(s.fuelUsedL), u],
-		['on_board_at_shutdown', fuel(s.onBoardAtShutdownL), u],
-		['average_flow', fuel(s.averageFlowLph), `${u}/h`],
-		['max_flow', fuel(s.maxFlowLph), `${u}/h`],
-		['cruise_flow', fuel(s.cruiseFlowLph), `${u}/h`],
-		['cruise_specific_range', num(s.cruiseSpecificRangeNmPerL === null ? null : s.cruiseSpecificRangeNmPerL * perUnit, 3), `NM/${u}`],
-		['distance', num(s.distanceNm, 1), 'NM'],
-		['average_gs', num(s.averageGsKt, 1), 'kt'],
-		['reserve_rule', text(s.reserve?.rule.label ?? ''), s.reserve?.rule.citation ?? ''],
-		['reserve_amount', fuel(s.reserve?.amountL), u],
-		['reserve_basis', text(s.reserve?.basis ?? ''), s.reserve?.note ?? ''],
-		['verdict', text(s.verdict?.state ?? ''), 'fuel on board at shutdown against the reserve amount'],
-		['landed_margin', fuel(s.verdict?.marginL), u],
-		['landed_margin_cruise_min', num(s.verdict?.marginMin, 1), 'min at normal cruise'],
-		['thinnest_arrival_margin', fuel(s.thinnestMargin?.marginL), `${u}, airborne, held for the alarm persistence`],
-		['thinnest_arrival_margin_cruise_min', num(s.thinnestMargin?.minutes, 1), 'min at normal cruise'],
-		['thinnest_arrival_margin_time_utc', when(s.thinnestMargin?.t), ''],
-		[
-			'thinnest_arrival_margin_waypoint',
-			s.thinnestMargin?.wpt === null || s.thinnestMargin?.wpt === undefined ? '' : text(meta.waypoints[s.thinnestMargin.wpt] ?? ''),
-			''
-		],
-		['below_reserve_from_utc', when(s.reserveReachedAt?.t), 'first moment in the flight with fuel on board below the reserve amount'],
-		['gaps', String(s.gapCount), ''],
-		['gap_time_min', num(s.gapTimeS / 60, 1), 'min'],
-		['alarms', String(s.alarmCount), '']
-	];
+/** One line of the summary: a stable key for scripts, the screen's words, the value and its unit. */
+export interface SummaryRow {
+	key: string;
+	label: string;
+	value: string | number | null;
+	unit: string;
+}
+
+export interface SummaryInput extends ExportStyle {
+	summary: FlightSummary;
+	computation: FlightComputation;
+	registration: string;
+	title: string;
+	pilot: string | null;
+	waypoints: readonly string[];
+	declaration: Declaration;
+	events: readonly { t: Date; kind: keyof typeof eventLabels; amountL: number | null; note: string }[];
+	/** The flight's own notes (its details) and the notes written on its timeline. */
+	flightNotes: string;
+	notes: readonly { t: Date | null; body: string; author: string | null }[];
+}
+
+/** The summary as rows: the figures, then the declaration, the fuel events and the notes. */
+export function summaryRows(x: SummaryInput): SummaryRow[] {
+	const s = x.summary;
+	const u = fuelUnitLabels[x.unit];
+	const fuel = (l: number | null | undefined) => (l === null || l === undefined ? null : num(fromLitres(l, x.unit, x.densityKgPerL), 3));
+	const when = (t: number | null | undefined) => timeText(t, x.times) || null;
+	const perUnit = 1 / fromLitres(1, x.unit, x.densityKgPerL);
+	const rows: SummaryRow[] = [];
+	const row = (key: string, label: string, value: string | number | null, unit = '') => rows.push({ key, label, value, unit });
+	row('aircraft', 'Aircraft', x.registration);
+	row('title', 'Title', x.title);
+	row('pilot', 'Pilot', x.pilot ?? '');
+	row('start', 'Engine start', when(s.start), 'UTC');
+	row('end', 'Engine stop', when(s.end), 'UTC');
+	row('samples', 'Samples', s.sampleCount);
+	row('rejectedSamples', 'Rejected samples', s.rejectedCount);
+	row('blockTime', L.blockTime, num(s.blockTimeS / 60, 1), `min (${s.blockTimeBasis})`);
+	row('engineTime', L.engineTime, num(s.engineTimeS / 60, 1), 'min');
+	row('fuelUsed', L.used, fuel(s.fuelUsedL), u);
+	row('onBoardAtShutdown', L.onBoardAtShutdown, fuel(s.onBoardAtShutdownL), u);
+	row('averageFlow', L.averageFlow, fuel(s.averageFlowLph), `${u}/h`);
+	row('maxFlow', L.maxFlow, fuel(s.maxFlowLph), `${u}/h`);
+	row('cruiseFlow', L.cruiseFlow, fuel(s.cruiseFlowLph), `${u}/h`);
+	row('cruiseSpecificRange', L.cruiseSpecificRange, num(s.cruiseSpecificRangeNmPerL === null ? null : s.cruiseSpecificRangeNmPerL * perUnit, 3), `NM/${u}`);
+	row('distance', L.distance, num(s.distanceNm, 1), 'NM');
+	row('averageGroundSpeed', `Average ${L.groundSpeed.toLowerCase()}`, num(s.averageGsKt, 1), 'kt');
+	row('reserveRule', 'Reserve rule', s.reserve?.rule.label ?? '', s.reserve?.rule.citation ?? '');
+	row('reserveAmount', L.reserveAmount, fuel(s.reserve?.amountL), u);
+	row('reserveBasis', L.reserveBasis, s.reserve?.basis ?? '', s.reserve?.note ?? '');
+	row('verdict', 'Verdict', s.verdict?.state ?? '', 'fuel on board at shutdown against the reserve amount');
+	row('landedMargin', 'Landed margin', fuel(s.verdict?.marginL), u);
+	row('landedMarginMin', 'Landed margin', num(s.verdict?.marginMin, 1), 'min at normal cruise');
+	row('thinnestMargin', L.thinnestMargin, fuel(s.thinnestMargin?.marginL), `${u}, airborne, held for the alarm persistence`);
+	row('thinnestMarginMin', L.thinnestMargin, num(s.thinnestMargin?.minutes, 1), 'min at normal cruise');
+	row('thinnestMarginTime', `${L.thinnestMargin}: time`, when(s.thinnestMargin?.t), 'UTC');
+	row('thinnestMarginWaypoint', `${L.thinnestMargin}: waypoint`, s.thinnestMargin?.wpt === null || s.thinnestMargin?.wpt === undefined ? '' : (x.waypoints[s.thinnestMargin.wpt] ?? ''));
+	row('belowReserveFrom', L.belowReserve, when(s.reserveReachedAt?.t), 'UTC, first moment with fuel on board below the reserve amount');
+	row('gaps', 'Data gaps', s.gapCount);
+	row('gapTime', 'Time in data gaps', num(s.gapTimeS / 60, 1), 'min');
+	row('alarms', L.alarms, s.alarmCount);
 	for (const p of s.phases) {
-		rows.push([`phase_${p.name}_time_min`, num(p.timeS / 60, 1), 'min']);
-		rows.push([`phase_${p.name}_fuel`, fuel(p.fuelL), u]);
-		rows.push([`phase_${p.name}_average_flow`, fuel(p.averageFlowLph), `${u}/h`]);
+		row(`phase.${p.name}.time`, `${L.phase} ${p.name}: time`, num(p.timeS / 60, 1), 'min');
+		row(`phase.${p.name}.fuel`, `${L.phase} ${p.name}: fuel`, fuel(p.fuelL), u);
+		row(`phase.${p.name}.averageFlow`, `${L.phase} ${p.name}: ${L.averageFlow.toLowerCase()}`, fuel(p.averageFlowLph), `${u}/h`);
 	}
-	// Field names and units are ours; they go through textCell too, as every text cell does.
-	return ['field,value,unit', ...rows.map(([field, value, unit]) => csvLine([textCell(field), value, textCell(unit)]))].join('\r\n') + '\r\n';
+	const d = x.declaration;
+	row('declaration', L.declaration, declarationKindLabels[d.kind]);
+	if ('amountL' in d) row('declaredAmount', L.declaredAmount, fuel(d.amountL), u);
+	row('startFuel', L.startFuel, x.computation.length > 0 ? fuel(x.computation.onBoard[0]) : null, u);
+	x.events.forEach((e, k) => {
+		const n = k + 1;
+		row(`fuelEvent.${n}`, `${L.fuelEvent} ${n}`, eventLabels[e.kind]);
+		row(`fuelEvent.${n}.time`, `${L.fuelEvent} ${n}: time`, when(e.t.getTime() / 1000), 'UTC');
+		if (e.amountL !== null) row(`fuelEvent.${n}.amount`, `${L.fuelEvent} ${n}: amount`, fuel(e.amountL), u);
+		if (e.note) row(`fuelEvent.${n}.note`, `${L.fuelEvent} ${n}: note`, e.note);
+	});
+	if (x.flightNotes) row('notes', L.notes, x.flightNotes);
+	x.notes.forEach((note, k) => {
+		const n = k + 1;
+		row(`note.${n}`, `${L.note} ${n}`, note.body, note.author ? `by ${note.author}` : '');
+		if (note.t) row(`note.${n}.time`, `${L.note} ${n}: time`, when(note.t.getTime() / 1000), 'UTC');
+	});
+	return rows;
+}
+
+/** The summary as Field, Value, Unit lines. */
+export function summaryCsv(rows: readonly SummaryRow[], bom: boolean): string {
+	return (bom ? BOM : '') + csvLines([['Field', 'Value', 'Unit'], ...rows.map((r) => [r.label, r.value, r.unit])]);
 }

@@ -1,10 +1,10 @@
 // Small pieces the flight API routes share: reading a query string with zod into a 400 that
 // names the parameter, compressing a large body when the client accepts gzip, and streaming a
 // long text body piece by piece (gzipped on the way when accepted).
-import { json } from '@sveltejs/kit';
 import { promisify } from 'node:util';
 import { gzip } from 'node:zlib';
 import type { z } from 'zod';
+import { problem } from '../problem';
 
 const gzipAsync = promisify(gzip);
 
@@ -13,9 +13,9 @@ export type QueryResult<T> = { ok: true; data: T } | { ok: false; response: Resp
 export function parseQuery<S extends z.ZodType>(schema: S, url: URL): QueryResult<z.output<S>> {
 	const result = schema.safeParse(Object.fromEntries(url.searchParams));
 	if (result.success) return { ok: true, data: result.data };
-	const issue = result.error.issues[0];
-	const field = issue.path.join('.') || 'query';
-	return { ok: false, response: json({ error: `Query parameter ${field}: ${issue.message}`, field }, { status: 400 }) };
+	const errors = result.error.issues.map((i) => ({ field: i.path.join('.') || 'query', detail: i.message }));
+	const first = errors[0];
+	return { ok: false, response: problem(400, `Query parameter ${first.field}: ${first.detail}`, { errors, instance: url.pathname }) };
 }
 
 /** Bodies smaller than this go out as they are: compressing them costs more than it saves. */

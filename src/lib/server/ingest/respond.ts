@@ -3,8 +3,9 @@
 // browser that shows the server's parsing and storing as it happens.
 import { eq } from 'drizzle-orm';
 import { error, isHttpError, json, type RequestEvent } from '@sveltejs/kit';
+import { problemBody, problemResponse } from '../problem';
 import { MAX_UPLOAD_BYTES } from '$lib/csv';
-import type { UploadAnswer, UploadLine } from '$lib/wire/upload';
+import type { UploadAnswer, UploadLine, UploadRefusal } from '$lib/wire/upload';
 import { requireAircraft, requireUser } from '../access';
 import { db } from '../db';
 import { aircraft, organisations } from '../db/schema';
@@ -16,40 +17,42 @@ import { BusyError, takeUploadSlot, uploadLimits } from '../limits';
 
 export const NDJSON = 'application/x-ndjson';
 
+/** An upload refusal: the problem with the upload's own extension members. */
+function refusal(status: number, outcome: UploadRefusal['outcome'], detail: string, extra: Record<string, unknown>, errors?: Record<string, string>): { httpStatus: number; body: UploadRefusal } {
+	const kind = outcome === 'rejected' ? 'rows-rejected' : undefined;
+	const fieldErrors = errors ? Object.entries(errors).map(([field, d]) => ({ field, detail: d })) : undefined;
+	return { httpStatus: status, body: problemBody(status, detail, { kind, instance: UPLOAD_PATH, errors: fieldErrors, extra: { outcome, ...extra } }) as UploadRefusal };
+}
+
+const UPLOAD_PATH = '/api/v1/flights';
+
 function answerOf(result: IngestResult, slug: string): { httpStatus: number; body: UploadAnswer } {
 	const url = (id: string) => `/o/${slug}/flights/${id}`;
 	switch (result.status) {
 		case 'stored':
 			return {
 				httpStatus: 201,
-				body: { status: 'stored', flightId: result.flightId, uploadId: result.uploadId, url: url(result.flightId), rows: result.report.rows, report: result.report, summary: result.summary }
+				body: { outcome: 'stored', flightId: result.flightId, uploadId: result.uploadId, url: url(result.flightId), rows: result.report.rows, report: result.report, summary: result.summary }
 			};
 		case 'duplicate':
-			return { httpStatus: 200, body: { status: 'duplicate', flightId: result.flightId, uploadId: result.uploadId, url: url(result.flightId), error: result.message } };
+			return { httpStatus: 200, body: { outcome: 'duplicate', flightId: result.flightId, uploadId: result.uploadId, url: url(result.flightId), message: result.message } };
 		case 'rejected':
-			return { httpStatus: 400, body: { status: 'rejected', error: result.message, problems: result.problems, problemCount: result.problemCount } };
+			return refusal(400, 'rejected', result.message, { problems: result.problems, problemCount: result.problemCount });
 		case 'invalid':
-			return { httpStatus: result.field === 'file' ? 409 : 400, body: { status: 'invalid', error: result.message, field: result.field } };
+			return refusal(result.field === 'file' ? 409 : 400, 'invalid', result.message, { field: result.field }, { [result.field]: result.message });
 		case 'tooLarge':
-			return { httpStatus: 413, body: { status: 'tooLarge', error: result.message, field: 'file', limitBytes: result.limitBytes } };
+			return refusal(413, 'tooLarge', result.message, { field: 'file', limitBytes: result.limitBytes });
 	}
 }
 
 /** The answer to an upload refused for what the request is or how it arrived; null for anything else. */
-function refusalOf(e: unknown): { httpStatus: number; body: UploadAnswer & { status: 'invalid' | 'tooLarge' | 'timeout' | 'busy' | 'error' } } | null {
-	if (e instanceof UploadRequestError)
-		return {
-			httpStatus: e.status,
-			body: {
-				status: e.status === 413 ? 'tooLarge' : e.status === 408 ? 'timeout' : 'invalid',
-				error: e.message,
-				field: e.field,
-				errors: e.errors,
-				...(e.status === 413 ? { limitBytes: MAX_UPLOAD_BYTES } : {})
-			}
-		};
-	if (e instanceof BusyError) return { httpStatus: 429, body: { status: 'busy', error: e.message, field: null, retryAfterS: e.retryAfterS } };
-	if (isHttpError(e)) return { httpStatus: e.status, body: { status: 'error', error: e.body.message, field: null } };
+function refusalOf(e: unknown): { httpStatus: number; body: UploadRefusal } | null {
+	if (e instanceof UploadRequestError) {
+		const outcome = e.status === 413 ? 'tooLarge' : e.status === 408 ? 'timeout' : 'invalid';
+		return refusal(e.status, outcome, e.message, { field: e.field, ...(e.status === 413 ? { limitBytes: MAX_UPLOAD_BYTES } : {}) }, e.errors);
+	}
+	if (e instanceof BusyError) return refusal(429, 'busy', e.message, { field: null, retryAfterS: e.retryAfterS });
+	if (isHttpError(e)) return refusal(e.status, e.status === 404 ? 'invalid' : 'error', e.body.message, { field: e.status === 404 ? 'aircraftId' : null });
 	return null;
 }
 
@@ -118,17 +121,17 @@ export async function handleUpload(event: Pick<RequestEvent, 'request' | 'url' |
 					const send = (line: UploadLine) => {
 						if (open) controller.enqueue(encoder.encode(JSON.stringify(line) + '\n'));
 					};
-					run((p) => send({ type: 'progress', ...p }))
+					run((progress) => send({ kind: 'progress', progress }))
 						.then((result) => {
 							const { httpStatus, body } = answerOf(result, ctx.org.slug);
-							send({ type: 'result', httpStatus, ...body });
+							send({ kind: 'result', httpStatus, answer: body });
 						})
 						.catch((e) => {
 							// A body cut off, stalled or garbled while the file was read: the same answer as without NDJSON.
 							const refused = refusalOf(e);
-							if (refused) return send({ type: 'result', httpStatus: refused.httpStatus, ...refused.body });
+							if (refused) return send({ kind: 'result', httpStatus: refused.httpStatus, answer: refused.body });
 							console.error('[upload]', e);
-							send({ type: 'result', httpStatus: 500, status: 'error', error: 'Something went wrong on our side. Nothing was stored.', field: null });
+							send({ kind: 'result', httpStatus: 500, answer: refusal(500, 'error', 'Something went wrong on our side. Nothing was stored.', { field: null }).body });
 						})
 						.finally(() => {
 							if (open) controller.close();
@@ -146,14 +149,15 @@ export async function handleUpload(event: Pick<RequestEvent, 'request' | 'url' |
 		}
 		const { httpStatus, body } = answerOf(await run(), ctx.org.slug);
 		// A file over the limit was not read to its end: close the connection after the answer.
-		return json(body, { status: httpStatus, headers: body.status === 'tooLarge' ? { connection: 'close' } : {} });
+		if ('type' in body) return problemResponse(body, body.outcome === 'tooLarge' ? { connection: 'close' } : {});
+		return json(body, { status: httpStatus });
 	} catch (e) {
 		// Refused before or while the file was read: stop reading the rest of the body, and close
 		// the connection after the answer, so the unread rest is not taken for the next request.
 		upload?.discard();
 		const close = { connection: 'close' };
 		const refused = refusalOf(e);
-		if (refused) return json(refused.body, { status: refused.httpStatus, headers: refused.body.status === 'busy' ? { ...close, 'retry-after': String(refused.body.retryAfterS) } : close });
+		if (refused) return problemResponse(refused.body, refused.body.outcome === 'busy' ? { ...close, 'retry-after': String(refused.body.retryAfterS) } : close);
 		throw e;
 	}
 }

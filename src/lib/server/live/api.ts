@@ -3,6 +3,8 @@
 // requireRecorder of access.ts), the body read with its own size limit, validated whole, and every
 // refusal answered as JSON saying what and where.
 import { json } from '@sveltejs/kit';
+import { jsonPointer } from '$lib/wire/problem';
+import { problem } from '../problem';
 import { toDeclaration } from '$lib/schemas/declaration';
 import { db } from '../db';
 import type { Aircraft, Recorder } from '../db/schema';
@@ -14,10 +16,7 @@ import { ingestBatch } from './ingest';
 export { RECORDER_TOKEN_PREFIX } from '../access';
 
 const unauthorized = () =>
-	json(
-		{ error: 'Unknown or revoked recorder token: send Authorization: Bearer bdr_… as shown when the recorder was registered.' },
-		{ status: 401, headers: { 'www-authenticate': 'Bearer realm="burndown-live"' } }
-	);
+	problem(401, 'Unknown or revoked recorder token: send Authorization: Bearer bdr_… as shown when the recorder was registered.', { headers: { 'www-authenticate': 'Bearer realm="burndown-live"' } });
 
 class BodyTooLarge extends Error {}
 
@@ -92,10 +91,13 @@ export function firstInvalidUtf8(b: Uint8Array): number {
 	return b.length;
 }
 
-const tooLarge = () => json({ error: `The batch is larger than ${MAX_BATCH_LABEL}: send fewer samples per batch.`, field: 'body' }, { status: 413 });
+const tooLarge = () => problem(413, `The batch is larger than ${MAX_BATCH_LABEL}: send fewer samples per batch.`, { errors: [{ pointer: '', detail: `larger than ${MAX_BATCH_LABEL}` }], extra: { field: 'body' } });
 
 function refused(error: unknown): Response {
-	if (error instanceof LiveRefusal) return json(error.body, { status: error.status });
+	if (error instanceof LiveRefusal) {
+		const { error: detail, ...extra } = error.body;
+		return problem(error.status, detail, { kind: Array.isArray(extra.problems) ? 'rows-rejected' : undefined, extra });
+	}
 	if (error instanceof BodyTooLarge) return tooLarge();
 	throw error;
 }
@@ -111,7 +113,7 @@ async function jsonBody(request: Request): Promise<unknown> {
 }
 
 const badBatch = (problems: BatchProblem[]) =>
-	json({ error: `The batch was not stored: ${problems.length === 1 ? 'one problem' : `${problems.length} problems`}. Nothing of it was stored.`, problems }, { status: 400 });
+	problem(400, `The batch was not stored: ${problems.length === 1 ? 'one problem' : `${problems.length} problems`}. Nothing of it was stored.`, { kind: 'rows-rejected', extra: { problems } });
 
 /**
  * POST /api/v1/live/samples. JSON ({ flightId?, firstSeq?, units?, samples: [...] }) or text/csv
@@ -165,13 +167,13 @@ async function answerSamples(request: Request, url: URL, recorder: Recorder, sto
 	if (type === 'text/csv' || type === 'text/plain') {
 		const flightId = url.searchParams.get('flightId');
 		const firstSeq = Number(url.searchParams.get('firstSeq') ?? 0);
-		if (flightId !== null && !/^[0-9a-f-]{36}$/i.test(flightId)) return json({ error: 'flightId must be the id an earlier answer gave.', field: 'flightId' }, { status: 400 });
-		if (!Number.isInteger(firstSeq) || firstSeq < 0) return json({ error: 'firstSeq must be a whole number, 0 or more.', field: 'firstSeq' }, { status: 400 });
+		if (flightId !== null && !/^[0-9a-f-]{36}$/i.test(flightId)) return problem(400, 'flightId must be the id an earlier answer gave.', { errors: [{ field: 'flightId', detail: 'not an id an earlier answer gave' }], extra: { field: 'flightId' } });
+		if (!Number.isInteger(firstSeq) || firstSeq < 0) return problem(400, 'firstSeq must be a whole number, 0 or more.', { errors: [{ field: 'firstSeq', detail: 'not a whole number, 0 or more' }], extra: { field: 'firstSeq' } });
 		result = readCsvBatch(await readText(request, MAX_BATCH_BYTES), { flightId, firstSeq, densityKgPerL: a.densityKgPerL });
 	} else if (type === 'application/json' || type === '') {
 		result = readJsonBatch(await jsonBody(request), a.densityKgPerL);
 	} else {
-		return json({ error: `Send the batch as application/json or text/csv (got ${type}).`, field: 'content-type' }, { status: 415 });
+		return problem(415, `Send the batch as application/json or text/csv (got ${type}).`, { extra: { field: 'content-type' } });
 	}
 	if (!result.ok) return badBatch(result.problems);
 	return json(await store(result.batch));
@@ -184,10 +186,10 @@ export async function handleOpen(request: Request, recorder: Recorder | null): P
 		await touchRecorder(recorder.id);
 		const parsed = openSchema.safeParse(await jsonBody(request));
 		if (!parsed.success)
-			return json(
-				{ error: 'The open request was not understood.', problems: parsed.error.issues.map((i) => ({ field: i.path.join('.'), message: i.message })) },
-				{ status: 400 }
-			);
+			return problem(400, 'The open request was not understood.', {
+				errors: parsed.error.issues.map((i) => ({ pointer: jsonPointer(i.path), detail: i.message })),
+				extra: { problems: parsed.error.issues.map((i) => ({ field: i.path.join('.'), message: i.message })) }
+			});
 		const a = await activeAircraftOf(db, recorder);
 		const o = parsed.data;
 		const { flight, closedFlightId } = await openByRecorder(recorder, {
@@ -211,7 +213,7 @@ export async function handleClose(request: Request, recorder: Recorder | null): 
 	try {
 		await touchRecorder(recorder.id);
 		const parsed = closeSchema.safeParse(await jsonBody(request));
-		if (!parsed.success) return json({ error: 'flightId must be the id an earlier answer gave.', field: 'flightId' }, { status: 400 });
+		if (!parsed.success) return problem(400, 'flightId must be the id an earlier answer gave.', { errors: [{ field: 'flightId', detail: 'not an id an earlier answer gave' }], extra: { field: 'flightId' } });
 		return json(await closeByRecorder(recorder, parsed.data.flightId));
 	} catch (error) {
 		return refused(error);

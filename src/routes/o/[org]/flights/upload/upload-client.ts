@@ -1,9 +1,10 @@
 // Sends the upload with XMLHttpRequest, the one browser API that reports upload progress, and
 // reads the server's NDJSON answer line by line as it arrives: progress while the server parses
 // and stores, then the result.
-import type { UploadAnswer, UploadLine } from '$lib/wire/upload';
+import type { UploadAnswer, UploadLine, UploadProgress } from '$lib/wire/upload';
+import { PROBLEM_TYPES, problemTypeUri } from '$lib/wire/problem';
 
-export type ServerProgress = Extract<UploadLine, { type: 'progress' }>;
+export type ServerProgress = UploadProgress;
 export type UploadOutcome = { httpStatus: number; body: UploadAnswer };
 
 export interface UploadCallbacks {
@@ -25,11 +26,8 @@ export function sendUpload(url: string, form: FormData, cb: UploadCallbacks): { 
 			seen = nl + 1;
 			if (line) {
 				const msg = JSON.parse(line) as UploadLine;
-				if (msg.type === 'progress') cb.onServer(msg);
-				else {
-					const { type: _t, httpStatus, ...body } = msg;
-					result = { httpStatus, body: body as UploadAnswer };
-				}
+				if (msg.kind === 'progress') cb.onServer(msg.progress);
+				else result = { httpStatus: msg.httpStatus, body: msg.answer };
 			}
 			nl = text.indexOf('\n', seen);
 		}
@@ -49,7 +47,8 @@ export function sendUpload(url: string, form: FormData, cb: UploadCallbacks): { 
 					return reject(new Error('The server closed the connection before answering. Nothing was stored.'));
 				}
 				if (type.includes('json')) return resolve({ httpStatus: xhr.status, body: JSON.parse(xhr.responseText) as UploadAnswer });
-				resolve({ httpStatus: xhr.status, body: { status: 'error', error: xhr.responseText.slice(0, 300) || `The server answered ${xhr.status}.`, field: null } });
+				const detail = xhr.responseText.slice(0, 300) || `The server answered ${xhr.status}.`;
+				resolve({ httpStatus: xhr.status, body: { type: problemTypeUri('server-error'), title: PROBLEM_TYPES['server-error'], status: xhr.status, detail, outcome: 'error', field: null } });
 			} catch (e) {
 				reject(e instanceof Error ? e : new Error(String(e)));
 			}

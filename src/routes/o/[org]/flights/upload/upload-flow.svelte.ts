@@ -112,7 +112,7 @@ export class UploadFlow {
 	});
 	readonly sentPercent = $derived(this.total > 0 ? (this.sent / this.total) * 100 : 0);
 
-	readonly problems = $derived(this.outcome?.body.status === 'rejected' ? this.outcome.body.problems : ([] as RowProblem[]));
+	readonly problems = $derived(this.outcome?.body.outcome === 'rejected' ? this.outcome.body.problems : ([] as RowProblem[]));
 	readonly lastKnown = $derived(this.ac?.lastOnBoardL ?? null);
 
 	/** Create it while the page initialises: its effects run the trial parse and keep the choices valid. */
@@ -224,8 +224,8 @@ export class UploadFlow {
 			const outcome = await req.done;
 			this.outcome = outcome;
 			this.phase = 'finished';
-			if (outcome.body.status === 'stored') await goto(outcome.body.url);
-			else if (outcome.body.status === 'duplicate') await goto(`${outcome.body.url}?duplicate=1`);
+			if (outcome.body.outcome === 'stored') await goto(outcome.body.url);
+			else if (outcome.body.outcome === 'duplicate') await goto(`${outcome.body.url}?duplicate=1`);
 		} catch (e) {
 			this.failure = (e as Error).message;
 			this.phase = 'finished';

@@ -4,13 +4,14 @@
 // curl; POST answers the same. The viewer's right is asked again while the stream is open
 // (lib/server/live/stream.ts).
 import { flightGrant, grantHolds, requireFlightById } from '$lib/server/access';
+import { apiHandler } from '$lib/server/problem';
 import { liveHub, liveStream, resumeAfter } from '$lib/server/live';
 import type { RequestHandler } from './$types';
 
-export const GET: RequestHandler = async (event) => {
+export const GET: RequestHandler = apiHandler('read', async (event) => {
 	const { flight } = await requireFlightById(event, event.params.id, 'view');
 	const grant = flightGrant(event, flight.id);
 	return liveStream(liveHub(), flight.id, resumeAfter(event.request, event.url), { holds: () => grantHolds(grant), userId: grant.userId });
-};
+});
 
 export const POST = GET;
