@@ -50,6 +50,42 @@ function memoryOf(pid: number): { rssMb: number; peakMb: number } {
 	return { rssMb: kb('VmRSS') / 1024, peakMb: kb('VmHWM') / 1024 };
 }
 
+/** CPU time (user + system, ms) a process has used so far. */
+function cpuMsOf(pid: number): number {
+	try {
+		const fields = fs.readFileSync(`/proc/${pid}/stat`, 'utf8').split(') ')[1].split(' ');
+		return ((Number(fields[11]) + Number(fields[12])) * 1000) / 100;
+	} catch {
+		return 0;
+	}
+}
+
+/**
+ * CPU time (ms) used so far by the PostgreSQL backends serving the benchmark's database (their
+ * process titles name it). Backends that ended in between are not counted: a lower bound.
+ */
+function databaseCpuMs(): number {
+	let ms = 0;
+	for (const d of fs.readdirSync('/proc')) {
+		if (!/^\d+$/.test(d)) continue;
+		try {
+			if (fs.readFileSync(`/proc/${d}/cmdline`, 'utf8').includes(BENCH_DB)) ms += cpuMsOf(Number(d));
+		} catch {
+			// gone
+		}
+	}
+	return ms;
+}
+
+/** CPU used by the app and by the database while `batches` were stored: per batch, the figure load on a shared machine changes least. */
+function cpuLine(app0: number, db0: number, me0: NodeJS.CpuUsage, batches: number, seconds: number): string {
+	const app = cpuMsOf(server.pid!) - app0;
+	const dbMs = databaseCpuMs() - db0;
+	const me = process.cpuUsage(me0);
+	const core = (ms: number) => `${((ms / 1000 / seconds) * 100).toFixed(0)} % of a core`;
+	return `app ${(app / batches).toFixed(2)} ms per batch (${core(app)}) · database ${(dbMs / batches).toFixed(2)} ms per batch (${core(dbMs)}) · this benchmark's recorders and viewers ${core((me.user + me.system) / 1000)}`;
+}
+
 function percentile(sorted: number[], p: number): number {
 	if (sorted.length === 0) return NaN;
 	return sorted[Math.min(sorted.length - 1, Math.floor((p / 100) * sorted.length))];
@@ -154,6 +190,10 @@ async function singleFlight(): Promise<boolean> {
 	let postMs: number[] = [];
 	measuring = true;
 	const notices0 = notices;
+	const app0 = cpuMsOf(server.pid!);
+	const db0 = databaseCpuMs();
+	const me0 = process.cpuUsage();
+	const ingestStart = Date.now();
 	let maxConnections = 0;
 	const sampler = setInterval(() => void connectionsInUse().then((n) => (maxConnections = Math.max(maxConnections, n))), 1000);
 	const endAt = Date.now() + SECONDS * 1000;
@@ -171,6 +211,7 @@ async function singleFlight(): Promise<boolean> {
 		if (wait > 0) await sleep(wait);
 	}
 	const lastSeq = seq - 1;
+	const cpu = cpuLine(app0, db0, me0, batches, (Date.now() - ingestStart) / 1000);
 	for (let i = 0; i < 300 && viewers.some((v) => v.stream.connections > 0 && v.stream.cursor < lastSeq); i++) await sleep(100);
 	measuring = false;
 	clearInterval(sampler);
@@ -200,6 +241,7 @@ Live fan-out benchmark (loopback, ${new Date().toISOString().slice(0, 10)}, Node
   samples repeated      ${repeated}   (runs skipping ahead: ${skipped})
   server memory (RSS)   idle ${idle.rssMb.toFixed(0)} MB · with viewers ${withViewers.rssMb.toFixed(0)} MB · at the end ${atEnd.rssMb.toFixed(0)} MB · peak ${atEnd.peakMb.toFixed(0)} MB
   NOTIFY per batch      ${(noticesSent / Math.max(1, batches)).toFixed(2)} (${noticesSent} heard for ${batches} batches)
+  CPU while ingesting   ${cpu}
   database connections  ${maxConnections} at most while ingesting (app pool and LISTEN; the benchmark's own monitor not counted)
   target                p95 ≤ 250 ms at 1,000 viewers: ${percentile(all, 95) <= 250 && connected >= 1000 ? 'met' : 'NOT met'}`);
 
@@ -281,6 +323,10 @@ async function fleet(): Promise<boolean> {
 	let errors = 0;
 	measuring = true;
 	const notices0 = notices;
+	const app0 = cpuMsOf(server.pid!);
+	const db0 = databaseCpuMs();
+	const me0 = process.cpuUsage();
+	const ingestStart = Date.now();
 	let maxConnections = 0;
 	const sampler = setInterval(() => void connectionsInUse().then((n) => (maxConnections = Math.max(maxConnections, n))), 1000);
 	const endAt = Date.now() + FLEET_SECONDS * 1000;
@@ -307,6 +353,8 @@ async function fleet(): Promise<boolean> {
 			}
 		})
 	);
+	const cpu = cpuLine(app0, db0, me0, batches, (Date.now() - ingestStart) / 1000);
+	const rate = batches / ((Date.now() - ingestStart) / 1000);
 	for (let i = 0; i < 300 && viewers.some((v) => v.stream.connections > 0 && v.stream.cursor < sent[v.flight] - 1); i++) await sleep(100);
 	measuring = false;
 	clearInterval(sampler);
@@ -326,12 +374,13 @@ async function fleet(): Promise<boolean> {
 	console.log(`
 Live fleet benchmark (loopback, ${new Date().toISOString().slice(0, 10)}, Node ${process.version}, one app instance)
   flights               ${FLIGHTS} live at once, 2 viewers each: ${connected} of ${viewers.length} viewers held, ${reconnects} reconnects
-  ingest                ${batches} batches of 1 sample (one a second per flight) for ${FLEET_SECONDS} s, ${errors} failed; POST p50 ${percentile(postMs, 50)} ms, p95 ${percentile(postMs, 95)} ms, p99 ${percentile(postMs, 99)} ms
+  ingest                ${batches} batches of 1 sample (one a second per flight) for ${FLEET_SECONDS} s: ${rate.toFixed(0)} stored a second (asked: ${FLIGHTS}), ${errors} failed; POST p50 ${percentile(postMs, 50)} ms, p95 ${percentile(postMs, 95)} ms, p99 ${percentile(postMs, 99)} ms
   commit → viewer       p50 ${percentile(all, 50)} ms   p95 ${percentile(all, 95)} ms   p99 ${percentile(all, 99)} ms   max ${all.at(-1)} ms  (${all.length} deliveries)
   samples lost          ${lost}
   samples repeated      ${repeated}
   NOTIFY per batch      ${(noticesSent / Math.max(1, batches)).toFixed(2)} (${noticesSent} heard for ${batches} batches)
   server memory (RSS)   with viewers ${withViewers.rssMb.toFixed(0)} MB · at the end ${atEnd.rssMb.toFixed(0)} MB · peak ${atEnd.peakMb.toFixed(0)} MB
+  CPU while ingesting   ${cpu}
   database connections  ${maxConnections} at most while ingesting (app pool and LISTEN; the benchmark's own monitor not counted)
   target                p95 ≤ 500 ms, 0 lost, 0 repeated: ${percentile(all, 95) <= 500 && lost === 0 && repeated === 0 && connected === viewers.length ? 'met' : 'NOT met'}`);
 	for (const v of viewers) v.stream.close();

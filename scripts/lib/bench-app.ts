@@ -45,7 +45,9 @@ export async function startBenchApp(opts: { databaseUrl: string; port: number; l
 		await viteBuild();
 	}
 	const origin = `http://127.0.0.1:${opts.port}`;
-	const server = spawn(process.execPath, ['build'], {
+	// BENCH_NODE_ARGS: extra node options for the served app, e.g. "--cpu-prof --cpu-prof-dir=/tmp/prof".
+	const nodeArgs = (process.env.BENCH_NODE_ARGS ?? '').split(' ').filter(Boolean);
+	const server = spawn(process.execPath, [...nodeArgs, 'build'], {
 		cwd: inRoot(),
 		// No mail leaves a benchmark: port 9 is discard.
 		env: { ...process.env, DATABASE_URL: opts.databaseUrl, PORT: String(opts.port), HOST: '127.0.0.1', ORIGIN: origin, SHUTDOWN_TIMEOUT: '2', SMTP_HOST: '127.0.0.1', SMTP_PORT: '9', BURNDOWN_DEMO: '0', ...opts.env },

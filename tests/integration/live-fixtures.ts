@@ -7,7 +7,7 @@ import { randomBytes } from 'node:crypto';
 import { db } from '$lib/server/db';
 import { aircraft, apiTokens, memberships, organisations, recorders, users, watches, type Role } from '$lib/server/db/schema';
 import { hashToken, newToken } from '$lib/server/tokens';
-import { handleSamples, liveStream, parseAfter, type LiveHub } from '$lib/server/live';
+import { handleSamples, liveStream, resumeAfter, type LiveHub } from '$lib/server/live';
 import { recorderOf } from '$lib/server/access';
 import { openLiveStream, type LiveStream } from '../../src/routes/o/[org]/flights/[id]/live/stream-client';
 import type { SamplesEvent, MetaEvent } from '$lib/wire/live';
@@ -157,7 +157,7 @@ export interface Instance {
 }
 
 /**
- * Serves GET /stream/<flightId>?after=n from `hub` through the same liveStream() the app route
+ * Serves GET /stream/<flightId> (Last-Event-ID or ?after=n, as the app route) from `hub` through the same liveStream() the app route
  * returns (access checks are the route's and are tested against the route itself), and the
  * recorder's POST /api/v1/live/samples through the same handler the app route calls.
  */
@@ -178,7 +178,7 @@ export async function startInstance(hub: LiveHub, port = 0): Promise<Instance> {
 			res.writeHead(404).end();
 			return;
 		}
-		const response = liveStream(hub, m[1], parseAfter(url.searchParams.get('after')));
+		const response = liveStream(hub, m[1], resumeAfter(new Request(url, { headers: req.headers as Record<string, string> }), url));
 		res.writeHead(response.status, Object.fromEntries(response.headers));
 		res.flushHeaders();
 		const reader = response.body!.getReader();

@@ -80,7 +80,7 @@ export interface MetaEvent {
 	alarms: WireAlarm[];
 }
 
-/** Event names on the stream (sveltekit-sse adds its own `ping`). */
+/** Event names on the stream (besides `ping`, every 15 s). */
 export const EVENT_HELLO = 'hello';
 export const EVENT_META = 'meta';
 export const EVENT_SAMPLES = 'samples';

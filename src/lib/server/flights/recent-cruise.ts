@@ -1,9 +1,8 @@
 // The aircraft's recent median cruise flow, from the stored summaries of its flights before a
 // given one: the reserve amount's third basis (after the set normal-cruise flow and the flight's
 // own measured cruise), so a flight that has not measured its cruise yet still has a reserve.
-import { and, desc, eq, isNotNull, lt, ne, sql } from 'drizzle-orm';
+import { sql } from 'drizzle-orm';
 import { db } from '../db';
-import { flights } from '../db/schema';
 import type { Queryable } from './load';
 
 /** How many earlier flights the median is taken over (our choice: about a month of club use). */
@@ -22,14 +21,27 @@ export function median(values: readonly number[]): number | null {
  * before `before` and measured one; null when there are none.
  */
 export async function recentCruiseFlowLph(aircraftId: string, before: { id?: string; startedAt: Date }, q: Queryable = db): Promise<number | null> {
-	const cruise = sql<number | null>`(${flights.summary} ->> 'cruiseFlowLph')::float8`;
-	const conditions = [eq(flights.aircraftId, aircraftId), lt(flights.startedAt, before.startedAt), isNotNull(cruise)];
-	if (before.id) conditions.push(ne(flights.id, before.id));
-	const rows = await q
-		.select({ cruise })
-		.from(flights)
-		.where(and(...conditions))
-		.orderBy(desc(flights.startedAt))
-		.limit(RECENT_CRUISE_FLIGHTS);
-	return median(rows.map((r) => Number(r.cruise)));
+	return (await recentCruiseFlowsLph([{ aircraftId, before }], q))[0];
+}
+
+/** recentCruiseFlowLph for several aircraft and flights in one query, in the order asked. */
+export async function recentCruiseFlowsLph(asked: readonly { aircraftId: string; before: { id?: string; startedAt: Date } }[], q: Queryable = db): Promise<(number | null)[]> {
+	if (asked.length === 0) return [];
+	const col = <T>(f: (x: (typeof asked)[number]) => T) => sql.param(asked.map(f));
+	const cruise = sql`(o.summary ->> 'cruiseFlowLph')::float8`;
+	// The flight itself never counts (an all-zero uuid stands for "no flight" as no row has it).
+	const result = await q.execute<{ i: number; cruise: number }>(sql`
+		select r.i::int as i, o.cruise from unnest(
+			${col((x) => x.aircraftId)}::uuid[],
+			${col((x) => x.before.id ?? '00000000-0000-0000-0000-000000000000')}::uuid[],
+			${col((x) => x.before.startedAt.toISOString())}::timestamptz[]
+		) with ordinality as r(aircraft_id, flight_id, started_at, i)
+		cross join lateral (
+			select ${cruise} as cruise from flights o
+			where o.aircraft_id = r.aircraft_id and o.started_at < r.started_at and ${cruise} is not null and o.id <> r.flight_id
+			order by o.started_at desc limit ${RECENT_CRUISE_FLIGHTS}
+		) o`);
+	const values: number[][] = asked.map(() => []);
+	for (const row of result.rows) values[Number(row.i) - 1].push(Number(row.cruise));
+	return values.map(median);
 }

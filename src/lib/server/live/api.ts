@@ -7,8 +7,8 @@ import { jsonPointer } from '$lib/wire/problem';
 import { problem } from '../problem';
 import { toDeclaration } from '$lib/schemas/declaration';
 import { db } from '../db';
-import type { Recorder } from '../db/schema';
-import { readCsvBatch, readJsonBatch, closeSchema, openSchema, type BatchProblem } from './batch';
+import type { Aircraft, Recorder } from '../db/schema';
+import { readCsvBatch, readJsonBatch, closeSchema, openSchema, type Batch, type BatchProblem } from './batch';
 import { MAX_BATCH_BYTES, MAX_BATCH_LABEL } from './config';
 import { activeAircraftOf, closeByRecorder, LiveRefusal, openByRecorder, touchRecorder } from './flights';
 import { ingestBatch } from './ingest';
@@ -122,27 +122,61 @@ const badBatch = (problems: BatchProblem[]) =>
  */
 export async function handleSamples(request: Request, url: URL, recorder: Recorder | null): Promise<Response> {
 	if (!recorder) return unauthorized();
+	// The recorder's last contact is stamped with what it sent: by ingestBatch when a batch is
+	// stored (for plain appends in their grouped commit), here when it is refused before that.
+	let handedOver = false;
+	const store = (batch: Batch) => {
+		handedOver = true;
+		return ingestBatch(recorder, batch);
+	};
+	let answer: Response;
 	try {
-		await touchRecorder(recorder.id);
-		const a = await activeAircraftOf(db, recorder);
-		const type = (request.headers.get('content-type') ?? '').split(';')[0].trim().toLowerCase();
-		let result;
-		if (type === 'text/csv' || type === 'text/plain') {
-			const flightId = url.searchParams.get('flightId');
-			const firstSeq = Number(url.searchParams.get('firstSeq') ?? 0);
-			if (flightId !== null && !/^[0-9a-f-]{36}$/i.test(flightId)) return problem(400, 'flightId must be the id an earlier answer gave.', { errors: [{ field: 'flightId', detail: 'not an id an earlier answer gave' }], extra: { field: 'flightId' } });
-			if (!Number.isInteger(firstSeq) || firstSeq < 0) return problem(400, 'firstSeq must be a whole number, 0 or more.', { errors: [{ field: 'firstSeq', detail: 'not a whole number, 0 or more' }], extra: { field: 'firstSeq' } });
-			result = readCsvBatch(await readText(request, MAX_BATCH_BYTES), { flightId, firstSeq, densityKgPerL: a.densityKgPerL });
-		} else if (type === 'application/json' || type === '') {
-			result = readJsonBatch(await jsonBody(request), a.densityKgPerL);
-		} else {
-			return problem(415, `Send the batch as application/json or text/csv (got ${type}).`, { extra: { field: 'content-type' } });
-		}
-		if (!result.ok) return badBatch(result.problems);
-		return json(await ingestBatch(recorder, result.batch));
+		answer = await answerSamples(request, url, recorder, store);
 	} catch (error) {
-		return refused(error);
+		answer = refused(error);
 	}
+	if (!handedOver) await touchRecorder(recorder.id);
+	return answer;
+}
+
+/**
+ * The recorder's aircraft as a batch is read with (its density converts mass flows), remembered
+ * for a few seconds per instance: longer than a recorder's usual interval, so one query fewer per
+ * batch. The answer that counts is given where the batch is stored (the aircraft not archived,
+ * checked in its transaction), so archiving takes effect at once and a restored aircraft records
+ * at once; a density changed within those seconds reads a mass-flow batch as one sent just before
+ * the change would have been (the aircraft was always read outside the storing transaction).
+ */
+const parseAircraft = new Map<string, { a: Aircraft; at: number }>();
+const PARSE_AIRCRAFT_MS = 5000;
+
+async function aircraftForReading(recorder: Recorder): Promise<Aircraft> {
+	const now = Date.now();
+	const known = parseAircraft.get(recorder.aircraftId);
+	if (known && now - known.at < PARSE_AIRCRAFT_MS && known.a.orgId === recorder.orgId) return known.a;
+	const a = await activeAircraftOf(db, recorder);
+	if (parseAircraft.size > 10_000) parseAircraft.clear();
+	parseAircraft.set(a.id, { a, at: now });
+	return a;
+}
+
+async function answerSamples(request: Request, url: URL, recorder: Recorder, store: (batch: Batch) => Promise<unknown>): Promise<Response> {
+	const a = await aircraftForReading(recorder);
+	const type = (request.headers.get('content-type') ?? '').split(';')[0].trim().toLowerCase();
+	let result;
+	if (type === 'text/csv' || type === 'text/plain') {
+		const flightId = url.searchParams.get('flightId');
+		const firstSeq = Number(url.searchParams.get('firstSeq') ?? 0);
+		if (flightId !== null && !/^[0-9a-f-]{36}$/i.test(flightId)) return problem(400, 'flightId must be the id an earlier answer gave.', { errors: [{ field: 'flightId', detail: 'not an id an earlier answer gave' }], extra: { field: 'flightId' } });
+		if (!Number.isInteger(firstSeq) || firstSeq < 0) return problem(400, 'firstSeq must be a whole number, 0 or more.', { errors: [{ field: 'firstSeq', detail: 'not a whole number, 0 or more' }], extra: { field: 'firstSeq' } });
+		result = readCsvBatch(await readText(request, MAX_BATCH_BYTES), { flightId, firstSeq, densityKgPerL: a.densityKgPerL });
+	} else if (type === 'application/json' || type === '') {
+		result = readJsonBatch(await jsonBody(request), a.densityKgPerL);
+	} else {
+		return problem(415, `Send the batch as application/json or text/csv (got ${type}).`, { extra: { field: 'content-type' } });
+	}
+	if (!result.ok) return badBatch(result.problems);
+	return json(await store(result.batch));
 }
 
 /** POST /api/v1/live/open: { declaration?, firstSeq?, title?, pilot? } → 201 { flightId, … }. */

@@ -43,3 +43,11 @@ export const PING_MS = 15_000;
 export const PAGE_SAMPLES = 2000;
 /** A viewer is "caught up" within this many samples of the head; others are served by pages. */
 export const NEAR_HEAD = PAGE_SAMPLES;
+
+/**
+ * Grouped commits of plain appends (appends.ts): how many groups may be committing at once on
+ * this instance (each holds one pooled connection) and the most batches one group stores.
+ */
+export function appendGroupLimits(): { maxGroups: number; maxBatches: number } {
+	return { maxGroups: num('LIVE_APPEND_GROUPS', 2, 1, 8), maxBatches: num('LIVE_APPEND_GROUP_BATCHES', 200, 1, 1000) };
+}

@@ -13,7 +13,7 @@ import { recomputeSummary } from '../flights/summary';
 import { attachWaitingPlan } from '../plans';
 import { dropComputation } from './computation';
 import type { LiveNotice } from './protocol';
-import { NOTIFY_CHANNEL } from './protocol';
+import { NOTIFY_CHANNEL, noticePayloads } from './protocol';
 import type { Queryable } from './samples';
 
 // Advisory lock classes (two-key form): every write of one recorder, and the fuel computation of
@@ -30,7 +30,14 @@ export async function lockFlight(q: Queryable, flightId: string): Promise<void> 
 
 /** Queues one NOTIFY; PostgreSQL delivers it to every listener when the transaction commits. */
 export async function notify(q: Queryable, notice: LiveNotice): Promise<void> {
-	await q.execute(sql`select pg_notify(${NOTIFY_CHANNEL}, ${JSON.stringify(notice)})`);
+	await notifyAll(q, [notice]);
+}
+
+/** The news of many flights in as few NOTIFYs as fit (one statement), delivered at commit. */
+export async function notifyAll(q: Queryable, notices: readonly LiveNotice[]): Promise<void> {
+	if (notices.length === 0) return;
+	const payloads = noticePayloads(notices);
+	await q.execute(sql`select pg_notify(${NOTIFY_CHANNEL}, p) from unnest(${sql.param(payloads)}::text[]) with ordinality as u(p, i) order by i`);
 }
 
 /** A refusal inside a transaction: thrown to roll it back, answered with its status and body. */

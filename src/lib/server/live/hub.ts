@@ -1,20 +1,25 @@
 // Fan-out of live samples to this instance's viewers. One dedicated LISTEN connection per
-// instance (reconnecting, with a heartbeat) hears the NOTIFY each committed batch sends; the hub
-// then reads the new samples once per flight and hands every viewer exactly the run after its own
+// instance (reconnecting, with a heartbeat) hears the NOTIFYs committed batches send (one NOTIFY
+// may name many flights); the hub then reads the new samples once per flight — the reads of all
+// flights due in the same turn of the event loop in one query — and hands every viewer exactly
+// the run after its own cursor, as one pre-encoded SSE frame shared by the viewers at the same
 // cursor. A viewer's cursor only moves by whole contiguous runs, so nothing is lost or repeated.
+import { drizzle } from 'drizzle-orm/node-postgres';
 import pg from 'pg';
 import { serverConfig } from '../config';
+import { db } from '../db';
 import { NEAR_HEAD, PAGE_SAMPLES } from './config';
 import { loadMeta, type FlightMeta } from './meta';
 import { EVENT_META, EVENT_SAMPLES, samplesEventOf, type MetaEvent } from '$lib/wire/live';
-import { NOTIFY_CHANNEL, type AccessNotice, type LiveNotice } from './protocol';
-import { readRun, type SampleRun } from './samples';
+import { NOTIFY_CHANNEL, noticesOf, type AccessNotice } from './protocol';
+import { readRuns, type Queryable, type RunRequest, type SampleRun } from './samples';
+import { sseFrame } from './sse';
 
 /** One connected viewer: its cursor (last sequence delivered) and how to send it an event. */
 interface Viewer {
 	cursor: number;
-	/** False once the connection is gone. */
-	send(event: string, data: string): boolean;
+	/** Queues one SSE frame; false once the connection is gone. */
+	send(frame: Uint8Array): boolean;
 	/** Ends the connection: the flight is closed and this viewer holds all of it. */
 	end?(): void;
 }
@@ -27,7 +32,8 @@ interface FlightState {
 	at: number;
 	viewers: Set<Viewer>;
 	meta: FlightMeta | null;
-	metaJson: string;
+	/** The meta event as a frame, empty until read. */
+	metaFrame: Uint8Array | null;
 	metaDirty: boolean;
 	ready: Promise<void>;
 	pumping: boolean;
@@ -50,9 +56,14 @@ export interface HubStats {
 	notices: number;
 	reconnects: number;
 	queries: number;
+	/** Of those, the reads of new samples, and how many flights' runs they served. */
+	reads: number;
+	runsRead: number;
 }
 
 let metaVersion = 0;
+/** Flights whose new samples one query reads at most. */
+const READS_PER_QUERY = 500;
 
 /** The cursor of a viewer that holds nothing of the flight yet. */
 const startCursor = (fs: { meta: FlightMeta | null }) => (fs.meta ? fs.meta.flight.firstSeq - 1 : -1);
@@ -62,13 +73,19 @@ export class LiveHub {
 	/** Streams to ask again when the database reports an access change for their user. */
 	private accessWatchers = new Map<string, Set<() => void>>();
 	private client: pg.Client | null = null;
+	/** The LISTEN connection as a query runner for the samples reads; null while it is down. */
+	private readDb: Queryable | null = null;
+	/** Reads on the LISTEN connection run one at a time (one connection runs one query). */
+	private readChain: Promise<void> = Promise.resolve();
 	private connecting: Promise<void> | null = null;
 	private retryMs = 250;
 	private retryTimer: ReturnType<typeof setTimeout> | null = null;
 	private heartbeat: ReturnType<typeof setInterval> | null = null;
 	private stopped = false;
 	private everConnected = false;
-	private counters = { notices: 0, reconnects: 0, queries: 0 };
+	private counters = { notices: 0, reconnects: 0, queries: 0, reads: 0, runsRead: 0 };
+	/** Sample reads asked for in this turn of the event loop, served by one query. */
+	private pendingReads: { req: RunRequest; resolve: (run: SampleRun) => void; reject: (error: unknown) => void }[] = [];
 
 	constructor(private readonly options: HubOptions = {}) {}
 
@@ -97,7 +114,7 @@ export class LiveHub {
 				at: 0,
 				viewers: new Set(),
 				meta: null,
-				metaJson: '',
+				metaFrame: null,
 				metaDirty: false,
 				ready: Promise.resolve(),
 				pumping: false,
@@ -116,7 +133,7 @@ export class LiveHub {
 		// "Everything" starts at the flight's first sequence, which need not be 0.
 		const viewer: Viewer = { cursor: Math.max(after, startCursor(state)), send, end };
 		state.viewers.add(viewer);
-		if (state.metaJson) viewer.send(EVENT_META, state.metaJson);
+		if (state.metaFrame) viewer.send(state.metaFrame);
 		this.pump(state);
 		return () => {
 			state.viewers.delete(viewer);
@@ -143,27 +160,70 @@ export class LiveHub {
 		if (meta.flight.lastSeq > fs.head) fs.head = meta.flight.lastSeq;
 		for (const v of fs.viewers) v.cursor = Math.max(v.cursor, startCursor(fs));
 		const event: MetaEvent = { v: ++metaVersion, serverTime: Date.now(), ...meta };
-		fs.metaJson = JSON.stringify(event);
+		fs.metaFrame = sseFrame(EVENT_META, JSON.stringify(event));
 	}
 
 	private onNotice(payload: string | undefined): void {
-		let n: LiveNotice | AccessNotice;
+		let parsed: unknown;
 		try {
-			n = JSON.parse(payload ?? '');
+			parsed = JSON.parse(payload ?? '');
 		} catch {
 			return;
 		}
 		this.counters.notices++;
-		if ('u' in n) {
-			for (const onChange of this.accessWatchers.get(n.u) ?? []) onChange();
+		if (parsed && typeof parsed === 'object' && 'u' in parsed) {
+			for (const onChange of this.accessWatchers.get((parsed as AccessNotice).u) ?? []) onChange();
 			return;
 		}
-		const fs = this.flights.get(n.f);
-		if (!fs) return;
-		if (n.s > fs.head) fs.head = n.s;
-		if (n.at > fs.at) fs.at = n.at;
-		if (n.m) fs.metaDirty = true;
-		this.pump(fs);
+		for (const n of noticesOf(parsed)) {
+			const fs = this.flights.get(n.f);
+			if (!fs) continue;
+			if (n.s > fs.head) fs.head = n.s;
+			if (n.at > fs.at) fs.at = n.at;
+			if (n.m) fs.metaDirty = true;
+			this.pump(fs);
+		}
+	}
+
+	/** The samples after..upTo of one flight, read together with every other flight's asked for in this turn. */
+	private read(req: RunRequest): Promise<SampleRun> {
+		return new Promise((resolve, reject) => {
+			if (this.pendingReads.length === 0) setImmediate(() => void this.flushReads());
+			this.pendingReads.push({ req, resolve, reject });
+		});
+	}
+
+	/**
+	 * The reads go over the LISTEN connection while it is up, one after another: viewers' samples
+	 * then never wait behind ingest for a pooled connection. Without it, the pool serves them.
+	 */
+	private async flushReads(): Promise<void> {
+		const due = this.pendingReads;
+		this.pendingReads = [];
+		const turn = this.readChain;
+		let release = () => {};
+		this.readChain = new Promise<void>((r) => (release = r));
+		await turn;
+		try {
+			await this.readAll(due);
+		} finally {
+			release();
+		}
+	}
+
+	private async readAll(due: typeof this.pendingReads): Promise<void> {
+		for (let i = 0; i < due.length; i += READS_PER_QUERY) {
+			const part = due.slice(i, i + READS_PER_QUERY);
+			this.counters.queries++;
+			this.counters.reads++;
+			this.counters.runsRead += part.length;
+			try {
+				const runs = await readRuns(part.map((p) => p.req), this.readDb ?? db);
+				part.forEach((p, k) => p.resolve(runs[k]));
+			} catch (error) {
+				for (const p of part) p.reject(error);
+			}
+		}
 	}
 
 	/** Runs delivery rounds for a flight until every viewer is at the head; one at a time. */
@@ -180,7 +240,8 @@ export class LiveHub {
 					if (fs.metaDirty) {
 						fs.metaDirty = false;
 						await this.refreshMeta(fs);
-						for (const v of fs.viewers) if (!v.send(EVENT_META, fs.metaJson)) fs.viewers.delete(v);
+						const frame = fs.metaFrame;
+						if (frame) for (const v of fs.viewers) if (!v.send(frame)) fs.viewers.delete(v);
 					}
 					await this.catchUp(fs);
 					if (fs.meta?.flight.status === 'closed') this.endCaughtUp(fs);
@@ -218,8 +279,7 @@ export class LiveHub {
 			// furthest behind; the loop comes back to the near ones before the next far page.
 			const from = lowNear !== Infinity ? lowNear : lowFar;
 			if (from === Infinity) return;
-			this.counters.queries++;
-			const run = await readRun(fs.id, from, fs.head, PAGE_SAMPLES);
+			const run = await this.read({ flightId: fs.id, after: from, upTo: fs.head, limit: PAGE_SAMPLES });
 			if (run.seq.length === 0 || run.seq[0] !== from + 1) return;
 			this.deliver(fs, run);
 		}
@@ -235,18 +295,17 @@ export class LiveHub {
 				break;
 			}
 		const last = first + n - 1;
-		// Viewers at the same cursor share one serialised payload.
-		const payloads = new Map<number, string>();
+		// Viewers at the same cursor share one encoded frame; its id is the last sequence it holds.
+		const frames = new Map<number, Uint8Array>();
 		for (const v of fs.viewers) {
 			const start = v.cursor + 1;
 			if (start < first || start > last) continue;
-			let data = payloads.get(start);
-			if (data === undefined) {
-				const event = samplesEventOf(run, start - first, n, first, fs.at);
-				data = JSON.stringify(event);
-				payloads.set(start, data);
+			let frame = frames.get(start);
+			if (frame === undefined) {
+				frame = sseFrame(EVENT_SAMPLES, JSON.stringify(samplesEventOf(run, start - first, n, first, fs.at)), last);
+				frames.set(start, frame);
 			}
-			if (v.send(EVENT_SAMPLES, data)) v.cursor = last;
+			if (v.send(frame)) v.cursor = last;
 			else fs.viewers.delete(v);
 		}
 	}
@@ -283,11 +342,14 @@ export class LiveHub {
 			return;
 		}
 		this.client = client;
+		this.readDb = drizzle(client) as unknown as Queryable;
 		this.retryMs = 250;
 		const reconnected = this.everConnected;
 		this.everConnected = true;
 		this.heartbeat = setInterval(() => {
-			client.query('select 1').catch((error) => this.lost(client, error));
+			// In turn with the reads: one connection runs one query at a time.
+			const turn = this.readChain;
+			this.readChain = turn.then(() => client.query('select 1').then(() => {}, (error) => this.lost(client, error)));
 		}, this.options.heartbeatMs ?? 20_000);
 		this.heartbeat.unref?.();
 		if (reconnected) {
@@ -303,6 +365,7 @@ export class LiveHub {
 	private lost(client: pg.Client, error?: Error): void {
 		if (this.client !== client) return;
 		this.client = null;
+		this.readDb = null;
 		if (this.heartbeat) clearInterval(this.heartbeat);
 		this.heartbeat = null;
 		client.end().catch(() => {});
@@ -332,6 +395,7 @@ export class LiveHub {
 		if (this.heartbeat) clearInterval(this.heartbeat);
 		const c = this.client;
 		this.client = null;
+		this.readDb = null;
 		this.flights.clear();
 		this.accessWatchers.clear();
 		if (c) await c.end().catch(() => {});

@@ -7,7 +7,7 @@ import { LiveHub } from './hub';
 import { sweepIdleFlights } from './sweeper';
 
 export { handleClose, handleOpen, handleSamples, RECORDER_TOKEN_PREFIX } from './api';
-export { liveStream, parseAfter } from './stream';
+export { liveStream, parseAfter, resumeAfter } from './stream';
 export { LiveHub } from './hub';
 
 let hub: LiveHub | null = null;

@@ -1,7 +1,8 @@
 // Storing one live batch: in one transaction, the recorder's flight found or opened, the samples
 // stored once whatever the retries (ON CONFLICT DO NOTHING on flight + seq), the contiguous head
 // advanced, alarms detected with the incremental engine, and one NOTIFY for the other instances.
-// Outside it, after the commit, the alarm e-mails.
+// Outside it, after the commit, the alarm e-mails. Plain appends to an open flight take the same
+// steps for many flights at once in appends.ts.
 import { eq, sql } from 'drizzle-orm';
 import { formatTimeMs } from '$lib/csv';
 import { db, type Tx } from '../db';
@@ -10,7 +11,8 @@ import { mailAlarms, syncAlarms, type NewAlarm } from './alarms';
 import { inBackground } from '../mail';
 import type { Batch, BatchProblem } from './batch';
 import { computationFor, dropComputation } from './computation';
-import { activeAircraftOf, aircraftOf, createFlight, LiveRefusal, lockFlight, lockRecorder, notify, openFlightOf } from './flights';
+import { activeAircraftOf, aircraftOf, createFlight, LiveRefusal, lockFlight, lockRecorder, notify, openFlightOf, touchRecorder } from './flights';
+import { appendable, appendInGroup } from './appends';
 import { contiguousFrom, differingFields, insertSamples, neighbours } from './samples';
 
 /** The answer to a batch: what is safely stored, so the recorder knows what to send again. */
@@ -45,8 +47,21 @@ async function targetFlight(tx: Tx, recorder: Recorder, batch: Batch) {
 	return { flight, opened: true };
 }
 
-/** Stores a validated batch; throws LiveRefusal for a batch that does not fit the flight. */
+/**
+ * Stores a validated batch; throws LiveRefusal for a batch that does not fit the flight. A plain
+ * append goes into the next grouped commit (appends.ts); anything else, and an append the group
+ * handed back, is stored alone here. Either way the answer comes after the commit.
+ */
 export async function ingestBatch(recorder: Recorder, batch: Batch): Promise<Ack> {
+	if (appendable(batch)) {
+		const ack = await appendInGroup(recorder, batch);
+		if (ack) return ack;
+	}
+	await touchRecorder(recorder.id);
+	return ingestAlone(recorder, batch);
+}
+
+async function ingestAlone(recorder: Recorder, batch: Batch): Promise<Ack> {
 	const samples = batch.samples;
 	const lo = samples[0].seq;
 	const hi = samples[samples.length - 1].seq;
@@ -55,6 +70,8 @@ export async function ingestBatch(recorder: Recorder, batch: Batch): Promise<Ack
 	try {
 		const ack = await db.transaction(async (tx) => {
 			await lockRecorder(tx, recorder.id);
+			// Checked here, where it counts: the batch was read with an aircraft remembered for a moment (api.ts).
+			await activeAircraftOf(tx, recorder);
 			const { flight, opened } = await targetFlight(tx, recorder, batch);
 			flightId = flight.id;
 			await lockFlight(tx, flight.id);

@@ -11,11 +11,19 @@ export type Queryable = Db | Tx;
 
 /** Inserts the batch's samples that are not stored yet; returns how many were new. */
 export async function insertSamples(q: Queryable, flightId: string, samples: readonly LiveSample[]): Promise<number> {
-	const col = <T>(f: (s: LiveSample) => T) => sql.param(samples.map(f));
-	// One statement with array parameters (unnest): ten parameters whatever the batch size.
+	return insertSamplesOf(q, [{ flightId, samples }]);
+}
+
+/** insertSamples for the batches of several flights in one statement; returns how many were new in all. */
+export async function insertSamplesOf(q: Queryable, batches: readonly { flightId: string; samples: readonly LiveSample[] }[]): Promise<number> {
+	const rows = batches.flatMap((b) => b.samples.map((s) => [b.flightId, s] as const));
+	if (rows.length === 0) return 0;
+	const col = <T>(f: (s: LiveSample, flightId: string) => T) => sql.param(rows.map(([id, s]) => f(s, id)));
+	// One statement with array parameters (unnest): eleven parameters whatever the batch sizes.
 	const result = await q.execute(sql`
 		insert into samples (flight_id, seq, t, flow, gs, dtg, wpt, lat, lon, alt)
-		select ${flightId}::uuid, u.* from unnest(
+		select u.* from unnest(
+			${col((_, id) => id)}::uuid[],
 			${col((s) => s.seq)}::int[],
 			${col((s) => new Date(s.tMs).toISOString())}::timestamptz[],
 			${col((s) => s.flow)}::float8[],
@@ -97,13 +105,34 @@ export interface SampleRun extends SampleRunRows {
 	seq: number[];
 }
 
+export interface RunRequest {
+	flightId: string;
+	after: number;
+	upTo: number;
+	limit: number;
+}
+
 export async function readRun(flightId: string, after: number, upTo: number, limit: number, q: Queryable = db): Promise<SampleRun> {
-	const result = await q.execute<{ seq: number; ms: number; flow: number | null; gs: number | null; dtg: number | null; alt: number | null; wpt: string | null; lat: number | null; lon: number | null }>(sql`
-		select seq, (extract(epoch from t) * 1000)::float8 as ms, flow, gs, dtg, alt, wpt, lat, lon
-		from samples where flight_id = ${flightId} and seq > ${after} and seq <= ${upTo}
-		order by seq limit ${limit}`);
-	const run: SampleRun = { seq: [], tMs: [], flow: [], gs: [], dtg: [], alt: [], wpt: [], lat: [], lon: [] };
+	return (await readRuns([{ flightId, after, upTo, limit }], q))[0];
+}
+
+/** The runs of several flights (or ranges) in one query, in the order asked. */
+export async function readRuns(requests: readonly RunRequest[], q: Queryable = db): Promise<SampleRun[]> {
+	const runs: SampleRun[] = requests.map(() => ({ seq: [], tMs: [], flow: [], gs: [], dtg: [], alt: [], wpt: [], lat: [], lon: [] }));
+	if (requests.length === 0) return runs;
+	const col = <T>(f: (r: RunRequest) => T) => sql.param(requests.map(f));
+	const result = await q.execute<{ i: number; seq: number; ms: number; flow: number | null; gs: number | null; dtg: number | null; alt: number | null; wpt: string | null; lat: number | null; lon: number | null }>(sql`
+		select r.i::int as i, s.seq, (extract(epoch from s.t) * 1000)::float8 as ms, s.flow, s.gs, s.dtg, s.alt, s.wpt, s.lat, s.lon
+		from unnest(${col((r) => r.flightId)}::uuid[], ${col((r) => r.after)}::int[], ${col((r) => r.upTo)}::int[], ${col((r) => r.limit)}::int[])
+			with ordinality as r(f, after, up_to, lim, i)
+		cross join lateral (
+			select seq, t, flow, gs, dtg, alt, wpt, lat, lon from samples
+			where flight_id = r.f and seq > r.after and seq <= r.up_to
+			order by seq limit r.lim
+		) s
+		order by r.i, s.seq`);
 	for (const r of result.rows) {
+		const run = runs[Number(r.i) - 1];
 		run.seq.push(Number(r.seq));
 		run.tMs.push(Math.round(Number(r.ms)));
 		run.flow.push(r.flow);
@@ -114,7 +143,7 @@ export async function readRun(flightId: string, after: number, upTo: number, lim
 		run.lat!.push(r.lat);
 		run.lon!.push(r.lon);
 	}
-	return run;
+	return runs;
 }
 
 /**

@@ -1,16 +1,28 @@
-// The viewer's stream (GET or POST /api/v1/flights/[id]/stream?after=<seq>), produced with
-// sveltekit-sse. That library neither resumes nor sends Last-Event-ID, so the client carries its
-// own cursor: it asks for everything after the last sequence it holds, on every (re)connection.
-import { produce } from 'sveltekit-sse';
+// The viewer's stream (GET or POST /api/v1/flights/[id]/stream). Every samples event carries the
+// last sequence it holds as its SSE id, so a client resumes with the standard Last-Event-ID
+// header (the browser's EventSource sends it by itself on reconnection; the live page's own
+// client sends it too). `?after=<seq>` is only where a fresh client without a header starts.
 import { PING_MS, streamRecheckMs } from './config';
 import type { LiveHub } from './hub';
+import { eventStream, sseFrame } from './sse';
 import { EVENT_END, EVENT_HELLO, type HelloEvent } from '$lib/wire/live';
 
-/** The cursor from the query string: -1 (nothing seen yet) when absent or unusable. */
+/** A cursor as a request carries it: -1 (nothing seen yet) when absent or unusable. */
 export function parseAfter(raw: string | null): number {
-	if (raw === null || raw === '') return -1;
-	const n = Number(raw);
+	if (raw === null || raw.trim() === '') return -1;
+	const n = Number(raw.trim());
 	return Number.isInteger(n) && n >= -1 && n <= 2_147_483_647 ? n : -1;
+}
+
+/**
+ * Where a connection resumes: the Last-Event-ID header when the client sends one (a reconnection
+ * after holding samples), otherwise ?after, otherwise the flight's start. The header wins, since
+ * an EventSource reconnects to its first URL, ?after and all, with the newer id in the header.
+ */
+export function resumeAfter(request: Request, url: URL): number {
+	const header = request.headers.get('last-event-id');
+	if (header !== null && header.trim() !== '') return parseAfter(header);
+	return parseAfter(url.searchParams.get('after'));
 }
 
 export interface StreamGuard {
@@ -28,25 +40,23 @@ export interface StreamGuard {
  * the route's own refusal (401, 403 or 404), so it stops.
  */
 export function liveStream(hub: LiveHub, flightId: string, after: number, guard?: StreamGuard): Response {
-	let unsubscribe: (() => void) | null = null;
-	let timer: ReturnType<typeof setInterval> | null = null;
-	let unwatch: (() => void) | null = null;
-	let gone = false;
-	const stop = () => {
-		gone = true;
-		unsubscribe?.();
-		unsubscribe = null;
-		if (timer) clearInterval(timer);
-		timer = null;
-		unwatch?.();
-		unwatch = null;
-	};
-	return produce(
-		async ({ emit, lock }) => {
+	return eventStream(
+		async (control) => {
+			let unsubscribe: (() => void) | null = null;
+			let timer: ReturnType<typeof setInterval> | null = null;
+			let unwatch: (() => void) | null = null;
+			const stop = () => {
+				unsubscribe?.();
+				unsubscribe = null;
+				if (timer) clearInterval(timer);
+				timer = null;
+				unwatch?.();
+				unwatch = null;
+			};
 			if (guard) {
 				let asking = false;
 				const ask = async () => {
-					if (asking || gone) return;
+					if (asking || !control.open) return;
 					asking = true;
 					let holds = false;
 					try {
@@ -56,41 +66,28 @@ export function liveStream(hub: LiveHub, flightId: string, after: number, guard?
 						console.error('[live] stream access re-check failed:', (error as Error).message);
 					}
 					asking = false;
-					if (!holds && !gone) {
-						stop();
-						lock.set(false);
-					}
+					if (!holds) control.close();
 				};
 				timer = setInterval(() => void ask(), guard.everyMs ?? streamRecheckMs());
 				timer.unref?.();
 				if (guard.userId) unwatch = hub.watchAccess(guard.userId, () => void ask());
 			}
-			const send = (event: string, data: string): boolean => {
-				if (gone) return false;
-				const { error } = emit(event, data);
-				if (error) {
-					lock.set(false);
-					return false;
-				}
-				return true;
-			};
 			const hello: HelloEvent = { flightId, after, serverTime: Date.now() };
-			if (!send(EVENT_HELLO, JSON.stringify(hello))) return stop;
+			if (!control.send(sseFrame(EVENT_HELLO, JSON.stringify(hello)))) return stop;
 			try {
 				const end = () => {
-					send(EVENT_END, '{}');
-					stop();
-					lock.set(false);
+					control.send(sseFrame(EVENT_END, '{}'));
+					control.close();
 				};
-				const off = await hub.subscribe(flightId, after, send, end);
-				if (gone) off();
+				const off = await hub.subscribe(flightId, after, (frame) => control.send(frame), end);
+				if (!control.open) off();
 				else unsubscribe = off;
 			} catch (error) {
 				console.error('[live] stream subscribe failed:', (error as Error).message);
-				lock.set(false);
+				control.close();
 			}
 			return stop;
 		},
-		{ ping: PING_MS, stop, headers: { 'x-accel-buffering': 'no' } }
+		{ pingMs: PING_MS, headers: { 'x-accel-buffering': 'no' } }
 	);
 }

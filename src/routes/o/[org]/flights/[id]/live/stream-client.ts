@@ -1,7 +1,9 @@
 // The live page's connection to the flight's event stream, in the browser and in Node (the
-// integration tests drive this same code). It keeps the cursor (last sequence held) itself and
-// reconnects with ?after=<cursor> after any drop or server restart, so it never loses or repeats
-// a sample; a watchdog reconnects when even the pings stop (a dead link looks like silence).
+// integration tests drive this same code). Its cursor (last sequence held) is the stream's last
+// event id: every samples event's id is its last sequence. After any drop or server restart it
+// reconnects with the standard Last-Event-ID header, as the browser's EventSource does by itself,
+// so it never loses or repeats a sample; a watchdog reconnects when even the pings stop (a dead
+// link looks like silence).
 import type { HelloEvent, MetaEvent, SamplesEvent } from '$lib/wire/live';
 
 /** ended: the flight is closed and everything was received; closed: close() was called. */
@@ -42,13 +44,14 @@ export interface LiveStream {
 }
 
 /** Splits SSE text into events; returns the unparsed rest. */
-function parseEvents(buffer: string, dispatch: (event: string, data: string) => void): string {
+function parseEvents(buffer: string, dispatch: (event: string, data: string, id: string | null) => void): string {
 	for (;;) {
 		const m = /\r?\n\r?\n/.exec(buffer);
 		if (!m) return buffer;
 		const block = buffer.slice(0, m.index);
 		buffer = buffer.slice(m.index + m[0].length);
 		let event = 'message';
+		let id: string | null = null;
 		const data: string[] = [];
 		for (const line of block.split(/\r?\n/)) {
 			if (line === '' || line.startsWith(':')) continue;
@@ -58,8 +61,9 @@ function parseEvents(buffer: string, dispatch: (event: string, data: string) => 
 			if (value.startsWith(' ')) value = value.slice(1);
 			if (field === 'event') event = value;
 			else if (field === 'data') data.push(value);
+			else if (field === 'id') id = value;
 		}
-		dispatch(event, data.join('\n'));
+		dispatch(event, data.join('\n'), id);
 	}
 }
 
@@ -80,9 +84,14 @@ export function openLiveStream(o: LiveStreamOptions): LiveStream {
 	const status = (s: StreamStatus, detail?: string) => o.onStatus?.(s, detail);
 
 	/** Returns false when the connection must be dropped (a hole: reconnect from the cursor). */
-	const dispatch = (event: string, data: string): boolean => {
+	const dispatch = (event: string, data: string, id: string | null): boolean => {
 		if (event === 'samples') {
 			const run = JSON.parse(data) as SamplesEvent;
+			// The event id is the run's last sequence: the value this client resumes from.
+			if (id !== null && Number(id) !== run.to) {
+				skipped++;
+				return false;
+			}
 			if (run.to <= cursor) {
 				repeated += run.to - run.from + 1;
 				return true;
@@ -133,9 +142,8 @@ export function openLiveStream(o: LiveStreamOptions): LiveStream {
 		};
 		try {
 			arm();
-			const sep = o.url.includes('?') ? '&' : '?';
-			const res = await doFetch(`${o.url}${sep}after=${cursor}`, {
-				headers: { accept: 'text/event-stream', ...o.headers },
+			const res = await doFetch(o.url, {
+				headers: { accept: 'text/event-stream', ...(cursor >= 0 ? { 'last-event-id': String(cursor) } : {}), ...o.headers },
 				signal: ctrl.signal,
 				cache: 'no-store'
 			});
@@ -153,8 +161,8 @@ export function openLiveStream(o: LiveStreamOptions): LiveStream {
 				const { done, value } = await reader.read();
 				if (done) break;
 				arm();
-				buffer = parseEvents(buffer + value, (event, data) => {
-					if (ok && !dispatch(event, data)) ok = false;
+				buffer = parseEvents(buffer + value, (event, data, id) => {
+					if (ok && !dispatch(event, data, id)) ok = false;
 				});
 				if (!ok) break;
 			}
