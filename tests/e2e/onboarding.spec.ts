@@ -44,6 +44,8 @@ test('sign up, create an organisation and add an aircraft with field-level error
 	await page.setViewportSize({ width: 1024, height: 1366 });
 	await page.screenshot({ path: 'test-results/onboarding-aircraft.png', fullPage: true });
 
-	await page.getByRole('link', { name: 'Aircraft' }).click();
-	await expect(page.getByRole('cell', { name: 'BD-QA1' })).toBeVisible();
+	// Below 1280 px the sections sit behind the header's menu.
+	await page.getByTestId('menu-button').click();
+	await page.getByTestId('menu-panel').getByRole('link', { name: 'Aircraft' }).click();
+	await expect(page.getByRole('cell', { name: 'BD-QA1', exact: true })).toBeVisible();
 });

@@ -94,7 +94,7 @@ test('every reserve statement on the replay page agrees with the others and with
 	const body = (await (await page.request.get(`/api/v1/flights/${flightId}/samples`)).json()) as JsonPayload;
 	const d = decodeJson(body);
 	const c = computeFlight({ columns: d.columns, ...engineInputsOf(d.setup, d, d.events) });
-	const s = summarize(c);
+	const s = summarize(c, d.columns);
 	expect(s.verdict?.state).toBe('notKept');
 
 	// The verdict on the page: landed below the reserve, by the engine's margin (rounded down).

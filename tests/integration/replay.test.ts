@@ -97,7 +97,7 @@ async function expectedComputation(id = flightId) {
 	const setup = fuelSetupOf(setupRow);
 	const columns = { t: samples.t, flow: samples.flow, gs: samples.gs, dtg: samples.dtg, alt: samples.alt, wpt: Int32Array.from(samples.wpt, (w) => WAYPOINTS.indexOf(w!)) };
 	const c = computeFlight({ columns, ...engineInputsOf(setup, f, events) });
-	return { c, summary: summarize(c) };
+	return { c, summary: summarize(c, columns) };
 }
 
 /** Both sides as JSON would carry them (NaN → null, -0 → 0), as jsonb stores the summary. */
@@ -171,7 +171,7 @@ describe('samples API', () => {
 		const body = (await (await samplesAs(U.pilot)).json()) as JsonPayload;
 		const d = decodeJson(body);
 		const c = computeFlight({ columns: d.columns, ...engineInputsOf(d.setup, d, d.events) });
-		const browser = summarize(c);
+		const browser = summarize(c, d.columns);
 		expect(plain(browser)).toEqual(plain(await storedSummary()));
 		// The dropout in the fixture shows up as a gap, and the flight used fuel.
 		expect(browser.gapCount).toBe(1);
