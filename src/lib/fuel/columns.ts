@@ -78,16 +78,7 @@ export class ColumnBuilder {
 		this.dtg[i] = num(dtg);
 		this.alt[i] = num(alt);
 		if (alt !== null && alt !== undefined) this.anyAlt = true;
-		const la = num(lat);
-		const lo = num(lon);
-		if (Number.isFinite(la) && Number.isFinite(lo)) {
-			this.lat[i] = la;
-			this.lon[i] = lo;
-			this.anyPos = true;
-		} else {
-			this.lat[i] = NaN;
-			this.lon[i] = NaN;
-		}
+		this.position(i, num(lat), num(lon));
 		if (wpt === null || wpt === undefined || wpt === '') this.wpt[i] = WPT_NONE;
 		else {
 			this.anyWpt = true;
@@ -144,19 +135,22 @@ export class ColumnBuilder {
 				this.anyWpt = true;
 				this.wpt[i] = ids[w];
 			}
-			const la = b.lat ? b.lat[j] : NaN;
-			const lo = b.lon ? b.lon[j] : NaN;
-			if (Number.isFinite(la) && Number.isFinite(lo)) {
-				this.lat[i] = la;
-				this.lon[i] = lo;
-				this.anyPos = true;
-			} else {
-				this.lat[i] = NaN;
-				this.lon[i] = NaN;
-			}
+			this.position(i, b.lat ? b.lat[j] : NaN, b.lon ? b.lon[j] : NaN);
 		}
 		if (b.altRecorded) this.anyAlt = true;
 		this.n += m;
+	}
+
+	/** A position counts only with both coordinates; otherwise neither is kept. */
+	private position(i: number, la: number, lo: number): void {
+		if (Number.isFinite(la) && Number.isFinite(lo)) {
+			this.lat[i] = la;
+			this.lon[i] = lo;
+			this.anyPos = true;
+		} else {
+			this.lat[i] = NaN;
+			this.lon[i] = NaN;
+		}
 	}
 
 	private grow(): void {
