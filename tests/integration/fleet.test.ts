@@ -119,6 +119,12 @@ describe('fleet view', () => {
 		expect(b.lastChecked?.by).toBe('calibration');
 	});
 
+	it('names the month of the newest flight, so an empty month can point to it', async () => {
+		const empty = await view('admin', U.admin.id, '2025-09');
+		expect(empty.rows.every((r) => r.month.flights === 0)).toBe(true);
+		expect(empty.latestFlightMonth).toBe('2025-04');
+	});
+
 	it('counts a flight in the month of its engine start, in UTC', async () => {
 		const feb = rowOf((await view('admin', U.admin.id, '2025-02')).rows, ac.a);
 		expect(feb.month.flights).toBe(5);

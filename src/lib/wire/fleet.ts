@@ -39,4 +39,6 @@ export interface FleetView {
 	/** False when the viewer sees only their own flights (the figures count those). */
 	allFlights: boolean;
 	rows: FleetRow[];
+	/** "YYYY-MM" (UTC) of the newest flight the viewer may see on these aircraft; null without one. */
+	latestFlightMonth: string | null;
 }

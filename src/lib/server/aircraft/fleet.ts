@@ -5,7 +5,7 @@
 import { and, count, eq, gte, inArray, lt, max, notInArray } from 'drizzle-orm';
 import { bandPosition, findHighBurn, usualBand } from '$lib/fuel';
 import { can } from '$lib/permissions';
-import { monthRange, type FleetQuery } from '$lib/schemas/fleet';
+import { monthOf, monthRange, type FleetQuery } from '$lib/schemas/fleet';
 import type { FleetRow, FleetView } from '$lib/wire/fleet';
 import { db } from '../db';
 import { calibrations, flightFigures, flights, pumpReceipts } from '../db/schema';
@@ -19,10 +19,10 @@ const NOT_A_CHECK = ['initial', 'rangeEnd'] as const;
 export async function fleetView(v: ListViewer, q: FleetQuery): Promise<FleetView> {
 	const planes = await listAircraft(v.orgId, { includeArchived: q.archived === '1' });
 	const ids = planes.map((a) => a.id);
-	if (ids.length === 0) return { month: q.month, allFlights: can(v.role, 'viewAllFlights'), rows: [] };
+	if (ids.length === 0) return { month: q.month, allFlights: can(v.role, 'viewAllFlights'), rows: [], latestFlightMonth: null };
 	const { from, to } = monthRange(q.month);
 
-	const [monthFlights, fills, entries] = await Promise.all([
+	const [monthFlights, fills, entries, latest] = await Promise.all([
 		db
 			.select({ id: flights.id, aircraftId: flights.aircraftId, engineTimeS: flightFigures.engineTimeS, fuelUsedL: flightFigures.fuelUsedL })
 			.from(flights)
@@ -38,8 +38,15 @@ export async function fleetView(v: ListViewer, q: FleetQuery): Promise<FleetView
 			.select({ aircraftId: calibrations.aircraftId, at: max(calibrations.createdAt) })
 			.from(calibrations)
 			.where(and(inArray(calibrations.aircraftId, ids), notInArray(calibrations.source, [...NOT_A_CHECK])))
-			.groupBy(calibrations.aircraftId)
+			.groupBy(calibrations.aircraftId),
+		// So an empty month can point to where the flights are.
+		db
+			.select({ at: max(flights.startedAt) })
+			.from(flights)
+			.innerJoin(flightFigures, eq(flightFigures.flightId, flights.id))
+			.where(and(visibleFlights(v), inArray(flights.aircraftId, ids)))
 	]);
+	const latestAt = latest[0]?.at ?? null;
 	const phases = await phasesOf(monthFlights.map((f) => f.id));
 	const judged = await Promise.all(
 		planes.map(async (a) => {
@@ -81,6 +88,6 @@ export async function fleetView(v: ListViewer, q: FleetQuery): Promise<FleetView
 			lastChecked
 		};
 	});
-	return { month: q.month, allFlights: can(v.role, 'viewAllFlights'), rows };
+	return { month: q.month, allFlights: can(v.role, 'viewAllFlights'), rows, latestFlightMonth: latestAt ? monthOf(new Date(latestAt)) : null };
 }
 
