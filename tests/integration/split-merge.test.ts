@@ -12,6 +12,7 @@ import { actions as flightActions } from '../../src/routes/o/[org]/flights/[id]/
 import { actions as trashActions } from '../../src/routes/o/[org]/trash/+page.server';
 import { makeClub, makeUser, steadyFile, upload, type Club } from './upload-fixture';
 import { loadFlight } from '$lib/server/flights/load';
+import { mergeNeighbours } from '$lib/server/flights/split';
 import { computeLoaded } from '$lib/server/flights/summary';
 import type { AuthUser } from '$lib/server/auth';
 import { formOf, routeEvent } from './route-event';
@@ -158,6 +159,19 @@ describe('legs, split and merge', () => {
 		expect(again.status).toBe(200);
 		expect(again.body).toMatchObject({ outcome: 'duplicate', flightId: first.body.flightId, inTrash: false });
 		await expectDerived('after merging two uploads');
+	});
+
+	it('refuses to merge flights further apart than one trip, and does not offer them', async () => {
+		const start = Date.UTC(2026, 4, 5, 9);
+		const a = await upload(club.pilot, { aircraftId: club.trainer.id, file: steadyFile({ start, seconds: 600, flowUsgph: 8 }), fileName: 'far-a.csv' });
+		// The next day: 24 h after the first one's start, beyond MERGE_MAX_GAP_S.
+		const b = await upload(club.pilot, { aircraftId: club.trainer.id, file: steadyFile({ start: start + 24 * 3600_000, seconds: 600, flowUsgph: 8 }), fileName: 'far-b.csv' });
+		const far = (await merge(club.pilot, a.body.flightId, b.body.flightId)) as { status: number; data: { errors: Record<string, string> } };
+		expect(far.status).toBe(409);
+		expect(far.data.errors.otherId).toMatch(/23 h apart/);
+		expect((await row(a.body.flightId))!.sampleCount).toBe(601);
+		const ra = (await row(a.body.flightId))!;
+		expect((await mergeNeighbours(ra)).after).toBeNull();
 	});
 
 	it('refuses to merge flights of different aircraft, or flights that overlap, with a clear 409', async () => {

@@ -65,6 +65,12 @@ export async function splitFlight(flight: Pick<Flight, 'id' | 'aircraftId'>, sto
 	});
 }
 
+/**
+ * The longest silence between two parts that merging still treats as one trip cut by a recorder
+ * restart (our choice): flights further apart are separate flights, and are not offered.
+ */
+export const MERGE_MAX_GAP_S = 12 * 3600;
+
 export type MergeResult = { ok: true; flightId: string } | { ok: false; status: 404 | 409; message: string };
 
 /**
@@ -92,6 +98,10 @@ export async function mergeFlights(a: Pick<Flight, 'id' | 'aircraftId' | 'orgId'
 		const [ra, rb] = [await range(early.id), await range(late.id)];
 		if (ra.last && rb.first && rb.first.getTime() <= ra.last.getTime()) {
 			return { ok: false, status: 409, message: `These flights overlap: the later one starts at ${utcDateTime(rb.first)} UTC, before the earlier one's last sample at ${utcDateTime(ra.last)} UTC.` };
+		}
+		if (ra.last && rb.first && rb.first.getTime() - ra.last.getTime() > MERGE_MAX_GAP_S * 1000) {
+			const hours = Math.floor((rb.first.getTime() - ra.last.getTime()) / 3_600_000);
+			return { ok: false, status: 409, message: `These flights are ${hours} h apart. Only the parts of one trip can be merged: at most ${MERGE_MAX_GAP_S / 3600} h from the earlier one's last sample to the later one's first.` };
 		}
 		const [plan] = await tx.select({ id: fuelPlans.id }).from(fuelPlans).where(eq(fuelPlans.flightId, late.id)).limit(1);
 		const [debrief] = await tx.select({ id: debriefs.flightId }).from(debriefs).where(eq(debriefs.flightId, late.id)).limit(1);
@@ -144,12 +154,14 @@ export function declarationAsEvent(d: Flight['declaration'], onBoardBeforeL: num
 }
 
 /** The flights of the same aircraft just before and just after this one, for choosing a merge. */
-export async function mergeNeighbours(flight: Pick<Flight, 'id' | 'aircraftId' | 'startedAt'>) {
+export async function mergeNeighbours(flight: Pick<Flight, 'id' | 'aircraftId' | 'startedAt' | 'endedAt'>) {
 	const pick = { id: flights.id, startedAt: flights.startedAt, endedAt: flights.endedAt, title: flights.title, status: flights.status };
 	const kept = and(eq(flights.aircraftId, flight.aircraftId), isNull(flights.deletedAt), ne(flights.id, flight.id));
 	const [before] = await db.select(pick).from(flights).where(and(kept, lt(flights.startedAt, flight.startedAt))).orderBy(sql`${flights.startedAt} desc`).limit(1);
 	const [after] = await db.select(pick).from(flights).where(and(kept, gt(flights.startedAt, flight.startedAt))).orderBy(asc(flights.startedAt)).limit(1);
-	return { before: before ?? null, after: after ?? null };
+	// Only neighbours close enough to be parts of the same trip (MERGE_MAX_GAP_S).
+	const near = (from: Date | null, to: Date | null) => from !== null && to !== null && to.getTime() - from.getTime() <= MERGE_MAX_GAP_S * 1000;
+	return { before: before && near(before.endedAt, flight.startedAt) ? before : null, after: after && near(flight.endedAt, after.startedAt) ? after : null };
 }
 
 /** A flight's sample count, first and last sequence and times, after samples moved. */
