@@ -24,6 +24,8 @@ import {
 import type { DebriefStatus, PlanImportFormat } from '$lib/wire/plan';
 import type { RecomputeReason } from '$lib/wire/recompute';
 import type { ApiTokenScope } from '$lib/permissions';
+import type { LiveState } from '$lib/live-state';
+import { utcClock } from '$lib/format/time';
 
 /**
  * Names of the fuel figures, the same on the replay page's figures, the flight summary and the
@@ -76,7 +78,6 @@ export const apiTokenScopeLabels: Record<ApiTokenScope, string> = {
 	read: 'Read only',
 	upload: 'Read and upload'
 };
-import type { LiveState } from '$lib/live-state';
 
 export const debriefStatusLabels: Record<DebriefStatus, string> = {
 	draft: 'Draft — not yet shown to the student',
@@ -231,7 +232,7 @@ export const liveStateLabels: Record<LiveState, string> = {
 
 /** "acknowledged by Ann at 10:14:05 UTC", from epoch seconds. */
 export function ackWords(by: string, atS: number): string {
-	return `acknowledged by ${by} at ${new Date(Math.round(atS * 1000)).toISOString().slice(11, 19)} UTC`;
+	return `acknowledged by ${by} at ${utcClock(atS, true)} UTC`;
 }
 
 /**

@@ -56,8 +56,6 @@ export interface FuelLogInput extends ExportStyle {
 	columns: SampleColumns;
 	computation: FlightComputation;
 	waypoints: readonly string[];
-	/** Each sample's position, degrees; null when the flight has none. */
-	positions: { lat: Float64Array; lon: Float64Array } | null;
 	every: LogEvery;
 }
 
@@ -112,7 +110,8 @@ export function* fuelLogChunks(x: FuelLogInput, rowsPerChunk = LOG_ROWS_PER_CHUN
 	const minutes = x.every === 'minute' ? minuteRows(c.t, n) : null;
 	const count = minutes ? minutes.length : n;
 	const t0 = n > 0 ? c.t[0] : 0;
-	const pos = x.positions;
+	// Each sample's position (degrees) when the flight has any: columns.lat / columns.lon.
+	const pos = c.lat && c.lon ? { lat: c.lat, lon: c.lon } : null;
 	yield (x.bom ? BOM : '') + csvLines([fuelLogHeader(unit)]);
 	let rows: Cell[][] = [];
 	for (let k = 0; k < count; k++) {

@@ -21,13 +21,9 @@ export interface FlightSamples {
 	hasWpt: boolean;
 	/** Whether the samples carry positions: then columns.lat and columns.lon (degrees, WGS 84, NaN where none). */
 	hasPos: boolean;
-	/** The same positions, only when asked for (the export's log shows them), null when no sample has one. */
-	positions?: { lat: Float64Array; lon: Float64Array } | null;
 }
 
 export interface LoadOptions {
-	/** Also give the positions as `positions` (they are in the columns either way). */
-	positions?: boolean;
 	/** Samples per query (tests read in odd-sized pages). */
 	pageRows?: number;
 }
@@ -129,10 +125,7 @@ export async function loadSampleColumns(flightId: string, q: Queryable = db, o: 
 		if (n < pageRows) break;
 		after = seq[n - 1];
 	}
-	const columns = builder.columns();
-	const out: FlightSamples = { columns, seq: builder.seq(), waypoints: builder.waypoints(), hasAlt: builder.hasAlt, hasWpt: builder.hasWpt, hasPos: builder.hasPos };
-	if (o.positions) out.positions = columns.lat && columns.lon ? { lat: columns.lat, lon: columns.lon } : null;
-	return out;
+	return { columns: builder.columns(), seq: builder.seq(), waypoints: builder.waypoints(), hasAlt: builder.hasAlt, hasWpt: builder.hasWpt, hasPos: builder.hasPos };
 }
 
 export interface LoadedFlight {

@@ -46,7 +46,7 @@ export const GET: RequestHandler = apiHandler('read', async (event) => {
 	}
 	let streaming = false;
 	try {
-		const loaded = await loadFlight(flight.id, undefined, { positions: q.what === 'log' });
+		const loaded = await loadFlight(flight.id);
 		if (!loaded) error(404, 'Flight not found.');
 		const { computation, summary } = computeLoaded(loaded);
 		const a = loaded.aircraft;
@@ -87,7 +87,7 @@ export const GET: RequestHandler = apiHandler('read', async (event) => {
 			});
 		}
 
-		const pieces = fuelLogChunks({ ...style, columns: loaded.input.columns, computation, waypoints: loaded.samples.waypoints, positions: loaded.samples.positions ?? null, every: q.every });
+		const pieces = fuelLogChunks({ ...style, columns: loaded.input.columns, computation, waypoints: loaded.samples.waypoints, every: q.every });
 		const response = streamText(
 			event.request,
 			pieces,
